@@ -1,0 +1,1 @@
+"""Network analysis over the tie graph (networkx style: G first, seed=)."""

@@ -1,0 +1,59 @@
+"""Helpers shared by the CLI commands: workspace access, JSON, tables, stderr notes."""
+
+from __future__ import annotations
+
+import json
+import shutil
+from typing import Any, Iterable, Sequence
+
+import click
+
+from ..store import Store
+from ..workspace import open_workspace
+
+
+class Ctx:
+    """Per-invocation state: the workspace path and the opened store."""
+
+    def __init__(self, workspace: str | None):
+        self.workspace = workspace
+        self._store: Store | None = None
+
+    def store(self, *, create: bool = True) -> Store:
+        if self._store is None:
+            self._store = open_workspace(self.workspace, create=create)
+            click.get_current_context().call_on_close(self._store.close)
+        return self._store
+
+
+def emit_json(data: Any) -> None:
+    """Print one JSON document on stdout."""
+    click.echo(json.dumps(data, ensure_ascii=False, indent=2, sort_keys=False))
+
+
+def note(text: str) -> None:
+    """A diagnostic or progress line on stderr."""
+    click.echo(text, err=True)
+
+
+def clip(text: str, width: int) -> str:
+    text = " ".join(str(text).split())
+    return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+
+
+def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequence[int] | None = None) -> str:
+    """A plain aligned text table that fits the terminal (last column takes the rest)."""
+    rows = [[str(c) if c is not None else "" for c in r] for r in rows]
+    total = shutil.get_terminal_size((100, 24)).columns
+    if widths is None:
+        widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(headers)]
+        fixed = sum(widths[:-1]) + 2 * (len(widths) - 1)
+        widths = list(widths[:-1]) + [max(10, min(widths[-1], total - fixed))]
+    lines = ["  ".join(clip(h, w).ljust(w) for h, w in zip(headers, widths)).rstrip()]
+    lines.append("  ".join("-" * w for w in widths))
+    for r in rows:
+        lines.append("  ".join(clip(c, w).ljust(w) for c, w in zip(r, widths)).rstrip())
+    return "\n".join(lines)
+
+
+json_option = click.option("--json", "as_json", is_flag=True, help="Print one JSON document on stdout.")

@@ -1,0 +1,282 @@
+"""Commands about people and sources: me, import, sources, contacts, show, merge, unmerge, apart."""
+
+from __future__ import annotations
+
+import click
+
+from ..errors import InputError, MynetError
+from ..model import Contact
+from ..workspace import (
+    contact_records,
+    find_contact,
+    get_me,
+    import_paths,
+    merge_contacts,
+    merge_suggestions,
+    reject_suggestion,
+    search_contacts,
+    set_me,
+    unmerge_contact,
+)
+from ._common import clip, emit_json, json_option, note, table
+
+
+def contact_json(c: Contact, extra: dict | None = None) -> dict:
+    """The scripting contract for one contact (keep these names)."""
+    out = {
+        "id": c.id,
+        "name": c.name,
+        "emails": c.emails,
+        "phones": c.phones,
+        "orgs": c.orgs,
+        "past_orgs": c.past_orgs,
+        "titles": c.titles,
+        "tags": c.tags,
+        "localities": c.localities,
+        "sources": sorted({s.rsplit("/", 1)[-1] for s in c.sources}),
+    }
+    if extra:
+        out.update(extra)
+    return out
+
+
+def _parse_map(items: tuple[str, ...]) -> dict[str, str]:
+    mapping = {}
+    for item in items:
+        if "=" not in item:
+            raise MynetError(f"--map takes field=Column, got {item!r}")
+        field, column = item.split("=", 1)
+        mapping[field.strip()] = column.strip()
+    return mapping
+
+
+def print_import_report(report, as_json: bool) -> None:
+    if as_json:
+        emit_json(report.to_dict())
+        return
+    for f in report.files:
+        if f.status == "unchanged":
+            click.echo(f"{f.path}: unchanged since the last import")
+            continue
+        if f.status == "refused":
+            click.echo(f"{f.path}: refused: {f.error}")
+            continue
+        what = f"{f.records} records" if f.kind in ("vcard", "csv") else f"{f.interactions} {'events' if f.kind == 'ics' else 'messages'}"
+        click.echo(f"{f.path}: {f.status}, {what} ({f.kind}){', ' + str(len(f.skipped)) + ' skipped' if f.skipped else ''}")
+        for w in f.warnings:
+            note(f"  note: {w}")
+    if report.skipped:
+        click.echo(f"Skipped {len(report.skipped)} record(s):")
+        for s in report.skipped[:50]:
+            click.echo(f"  {s.source}:{s.line}: {s.reason}")
+        if len(report.skipped) > 50:
+            click.echo(f"  ... and {len(report.skipped) - 50} more (see --json)")
+    click.echo(
+        f"{report.records_total} records in the workspace -> {report.contacts_after} contacts "
+        f"({report.merged_records} duplicate records merged"
+        f"{', ' + str(report.you_records) + ' of them you' if report.you_records else ''}); "
+        f"{report.suggestions} possible duplicates to review (mynet contacts --suggested)"
+    )
+
+
+def register(cli: click.Group) -> None:
+    @cli.command("me")
+    @click.option("--email", "emails", multiple=True, help="One of your own addresses (repeat for several).")
+    @click.option("--name", "names", multiple=True, help="Your name as your contacts write it (repeatable).")
+    @click.option("--replace", is_flag=True, help="Forget the addresses and names given before.")
+    @json_option
+    @click.pass_obj
+    def me_cmd(obj, emails, names, replace, as_json):
+        """Declare who you are; your own cards become you, never a contact."""
+        store = obj.store()
+        if emails or names or replace:
+            me = set_me(store, list(emails), list(names), replace=replace)
+        else:
+            me = get_me(store)
+        raw = store.setting("me", {}) or {}
+        if as_json:
+            emit_json({"emails": raw.get("emails", []), "names": raw.get("names", [])})
+            return
+        if not raw:
+            click.echo("You have not said who you are yet: mynet me --email you@example.org --name \"Your Name\"")
+            return
+        click.echo(f"You: {', '.join(raw.get('names', [])) or '(no name)'} <{', '.join(raw.get('emails', []))}>")
+
+    @cli.command("import")
+    @click.argument("paths", nargs=-1, required=True, type=click.Path())
+    @click.option("--strict", is_flag=True, help="Stop at the first malformed record instead of skipping it.")
+    @click.option("--map", "maps", multiple=True, metavar="FIELD=COLUMN", help="CSV: read FIELD from COLUMN.")
+    @click.option("--mapping-file", type=click.Path(exists=True, dir_okay=False), help="CSV: a file of FIELD = COLUMN lines.")
+    @click.option("--region", metavar="CC", help="Country for phone numbers written without one (e.g. GB, US).")
+    @click.option("--as-of", "as_of", metavar="YYYY-MM-DD", help="When these files were current (older ones give past employers).")
+    @click.option("--skip-bad-files", is_flag=True, help="Import the readable files even if others are refused.")
+    @json_option
+    @click.pass_obj
+    def import_cmd(obj, paths, strict, maps, mapping_file, region, as_of, skip_bad_files, as_json):
+        """Read contact exports (vCard, CSV; calendars and mailboxes) into the workspace.
+
+        Directories are read recursively. Re-importing a file replaces its
+        records and keeps your decisions. Nothing is stored if a file is refused.
+        """
+        mapping = {}
+        if mapping_file:
+            from ..importers.csv import load_mapping_file
+
+            mapping.update(load_mapping_file(mapping_file))
+        mapping.update(_parse_map(maps))
+        if region:
+            import phonenumbers
+
+            if region.upper() not in phonenumbers.SUPPORTED_REGIONS:
+                raise MynetError(f"--region {region!r} is not a country code phonenumbers knows (e.g. GB, US, DE)")
+        store = obj.store()
+        report = import_paths(
+            store,
+            list(paths),
+            strict=strict,
+            mapping=mapping or None,
+            region=region,
+            as_of=as_of,
+            skip_bad_files=skip_bad_files,
+            progress=None if as_json else note,
+        )
+        print_import_report(report, as_json)
+        if report.refused:
+            raise InputError(report.refused[0].path, f"and {len(report.refused) - 1} other file(s) were refused" if len(report.refused) > 1 else "was refused (see above)")
+
+    @cli.command("sources")
+    @json_option
+    @click.pass_obj
+    def sources_cmd(obj, as_json):
+        """List the imported files."""
+        rows = obj.store().sources()
+        if as_json:
+            emit_json([{k: r[k] for k in ("id", "path", "kind", "sha256", "as_of", "imported_at", "n_records", "n_skipped")} for r in rows])
+            return
+        if not rows:
+            click.echo("No sources yet: mynet import FILE...")
+            return
+        click.echo(table(["id", "kind", "records", "skipped", "as of", "file"],
+                         [(r["id"], r["kind"], r["n_records"], r["n_skipped"], r["as_of"] or "", r["path"]) for r in rows]))
+
+    @cli.command("contacts")
+    @click.option("--search", "search", metavar="TEXT", help="Only people whose name, e-mail, phone, organisation, tag or place contains TEXT.")
+    @click.option("--suggested", is_flag=True, help="List possible duplicates to merge or keep apart instead.")
+    @click.option("--limit", type=int, default=0, help="Show at most this many.")
+    @json_option
+    @click.pass_obj
+    def contacts_cmd(obj, search, suggested, limit, as_json):
+        """List the people in your network."""
+        store = obj.store()
+        if suggested:
+            sugg = merge_suggestions(store)
+            names = {c.id: c for c in store.contacts()}
+            if as_json:
+                emit_json([{"a": s.a, "b": s.b, "score": round(s.score, 3), "reason": s.reason} for s in sugg])
+                return
+            if not sugg:
+                click.echo("No possible duplicates to review.")
+                return
+            click.echo(table(["score", "a", "b", "why"], [
+                (f"{s.score:.2f}", f"{s.a} {names[s.a].name}", f"{s.b} {names[s.b].name}", s.reason) for s in sugg
+            ]))
+            click.echo("\nSame person: mynet merge A B    Different people: mynet apart A B")
+            return
+        contacts = store.contacts()
+        if search:
+            contacts = search_contacts(contacts, search)
+        if limit:
+            contacts = contacts[:limit]
+        if as_json:
+            emit_json([contact_json(c) for c in contacts])
+            return
+        if not contacts:
+            click.echo("No contacts match." if search else "No contacts yet: mynet import FILE...")
+            return
+        click.echo(table(["id", "name", "organisation", "e-mail", "sources"], [
+            (c.id, c.name, ", ".join(c.orgs) or (f"(was {c.past_orgs[0]})" if c.past_orgs else ""),
+             c.emails[0] if c.emails else (c.phones[0] if c.phones else ""), len(c.sources))
+            for c in contacts
+        ]))
+        note(f"{len(contacts)} contact(s)")
+
+    @cli.command("show")
+    @click.argument("who")
+    @json_option
+    @click.pass_obj
+    def show_cmd(obj, who, as_json):
+        """Show one person (by id, e-mail or name) with every record behind them."""
+        store = obj.store()
+        c = find_contact(store, who)
+        recs = contact_records(store, c)
+        if as_json:
+            emit_json(contact_json(c, {
+                "nicknames": c.nicknames, "urls": c.urls, "notes": c.notes,
+                "records": [{"id": rid, "file": path, "line": r.line, "index": r.index, "kind": r.kind,
+                             "name": r.display_name(), "emails": r.emails, "phones": r.phones, "orgs": r.orgs,
+                             "titles": r.titles, "tags": r.tags} for rid, path, r in recs],
+            }))
+            return
+        click.echo(f"{c.name}  (id {c.id})")
+        fields = [
+            ("also known as", ", ".join(c.nicknames)),
+            ("works at", ", ".join(c.orgs)),
+            ("worked at", ", ".join(c.past_orgs)),
+            ("title", ", ".join(c.titles)),
+            ("e-mail", ", ".join(c.emails)),
+            ("phone", ", ".join(c.phones)),
+            ("tags", ", ".join(c.tags)),
+            ("places", ", ".join(c.localities)),
+            ("web", ", ".join(c.urls)),
+        ]
+        for label, value in fields:
+            if value:
+                click.echo(f"  {label:<14}{value}")
+        for n in c.notes:
+            click.echo(f"  {'note':<14}{clip(n, 200)}")
+        click.echo(f"\nRecords behind this person ({len(recs)}):")
+        for rid, path, r in recs:
+            bits = [r.display_name()] + r.emails[:2] + r.phones[:1] + r.orgs[:1]
+            click.echo(f"  [{rid}] {path}:{r.line}  " + " | ".join(b for b in bits if b))
+        if len(recs) > 1:
+            click.echo(f"\nWrongly merged? mynet unmerge {c.id} --record ID")
+
+    @cli.command("merge")
+    @click.argument("who", nargs=-1, required=True)
+    @json_option
+    @click.pass_obj
+    def merge_cmd(obj, who, as_json):
+        """Merge two or more contacts into one person (kept across re-imports)."""
+        store = obj.store()
+        ids = [find_contact(store, w).id for w in who]
+        c = merge_contacts(store, ids)
+        if as_json:
+            emit_json(contact_json(c))
+            return
+        click.echo(f"Merged into {c.name} (id {c.id}), {len(c.record_ids)} records.")
+
+    @cli.command("unmerge")
+    @click.argument("who")
+    @click.option("--record", "records", multiple=True, type=int, help="Record id to split off (see mynet show); default: all.")
+    @json_option
+    @click.pass_obj
+    def unmerge_cmd(obj, who, records, as_json):
+        """Split a wrongly merged person back into separate contacts (kept across re-imports)."""
+        store = obj.store()
+        c = find_contact(store, who)
+        parts = unmerge_contact(store, c.id, list(records))
+        if as_json:
+            emit_json([contact_json(p) for p in parts])
+            return
+        click.echo("Now separate: " + "; ".join(f"{p.id} {p.name}" for p in parts))
+
+    @cli.command("apart")
+    @click.argument("a")
+    @click.argument("b")
+    @click.pass_obj
+    def apart_cmd(obj, a, b):
+        """Mark two contacts as different people, so they are never suggested or merged."""
+        store = obj.store()
+        ca, cb = find_contact(store, a), find_contact(store, b)
+        reject_suggestion(store, ca.id, cb.id)
+        click.echo(f"Kept apart: {ca.id} {ca.name} / {cb.id} {cb.name}")

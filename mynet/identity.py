@@ -1,0 +1,428 @@
+"""Duplicate merging: records -> contacts, honouring the user's own decisions.
+
+Records that share a strong key (vCard UID, normalised e-mail, E.164 phone)
+are merged automatically, unless their names clearly belong to different
+people; records with the same normalised name and the same organisation or
+work e-mail domain are only *suggested* for merging, with a score. The user's
+merge / split / "different people" decisions override both and survive
+re-imports because they refer to stable record keys, not to row numbers.
+"""
+
+from __future__ import annotations
+
+import hashlib
+from collections import Counter, defaultdict
+from dataclasses import dataclass, field
+from typing import Iterable
+
+from .model import Contact, Record
+from .normalise import (
+    email_domain,
+    is_webmail,
+    name_key,
+    normalise_email,
+    normalise_name,
+    normalise_org,
+    normalise_phone,
+)
+
+__all__ = [
+    "record_keys",
+    "Me",
+    "StoredRecord",
+    "Decisions",
+    "Resolution",
+    "Suggestion",
+    "resolve",
+    "suggest_merges",
+    "names_compatible",
+]
+
+
+def record_keys(records: Iterable[Record], source_path: str) -> list[str]:
+    """Stable keys for the records of one source.
+
+    A key depends on the source path and on the record's identity (UID, else
+    first e-mail, else first phone, else name) plus an occurrence counter, so
+    re-importing an edited file keeps the keys of unchanged people and the
+    decisions that refer to them.
+    """
+    seen: Counter[str] = Counter()
+    keys = []
+    for r in records:
+        ident = (
+            r.uid.strip()
+            or next((e for e in (normalise_email(x) for x in r.emails) if e), "")
+            or next((p.strip() for p in r.phones if p.strip()), "")
+            or normalise_name(r.display_name())
+        )
+        seen[ident] += 1
+        raw = f"{source_path}\x00{ident}\x00{seen[ident]}"
+        keys.append(hashlib.sha1(raw.encode("utf-8")).hexdigest()[:20])
+    return keys
+
+
+@dataclass
+class Me:
+    """Who the user is: their own addresses and names (never listed as a contact)."""
+
+    emails: set[str] = field(default_factory=set)
+    names: set[str] = field(default_factory=set)
+
+    def matches(self, emails: set[str], name: str) -> bool:
+        if emails & self.emails:
+            return True
+        return bool(not emails and name and normalise_name(name) in self.names)
+
+
+@dataclass
+class StoredRecord:
+    """A record as the identity step sees it: id, stable key, source facts, parsed content."""
+
+    id: int
+    key: str
+    source: str
+    as_of: str
+    region: str
+    record: Record
+
+
+@dataclass
+class Decisions:
+    """The user's identity decisions, as pairs of record keys."""
+
+    same: list[tuple[str, str]] = field(default_factory=list)  # merge these
+    different: list[tuple[str, str]] = field(default_factory=list)  # never merge these
+
+
+@dataclass
+class Suggestion:
+    """Two contacts that may be one person, with a score in (0, 1] and the reason."""
+
+    a: int
+    b: int
+    score: float
+    reason: str
+
+
+@dataclass
+class Resolution:
+    """Contacts built from records, plus the records that are the user."""
+
+    contacts: list[Contact]
+    mapping: dict[str, int]  # record key -> contact id
+    me_keys: list[str]
+    next_id: int
+    auto_merges: int
+    held_back: list[Suggestion]
+
+
+class _Clusters:
+    """Union-find over record positions with "cannot-link" constraints."""
+
+    def __init__(self, n: int):
+        self.parent = list(range(n))
+        self.members: dict[int, set[int]] = {i: {i} for i in range(n)}
+        self.forbid: dict[int, set[int]] = defaultdict(set)
+
+    def find(self, i: int) -> int:
+        while self.parent[i] != i:
+            self.parent[i] = self.parent[self.parent[i]]
+            i = self.parent[i]
+        return i
+
+    def forbid_pair(self, i: int, j: int) -> None:
+        self.forbid[self.find(i)].add(j)
+        self.forbid[self.find(j)].add(i)
+
+    def allowed(self, i: int, j: int) -> bool:
+        ri, rj = self.find(i), self.find(j)
+        if ri == rj:
+            return True
+        return not (self.forbid[ri] & self.members[rj]) and not (self.forbid[rj] & self.members[ri])
+
+    def union(self, i: int, j: int) -> bool:
+        ri, rj = self.find(i), self.find(j)
+        if ri == rj:
+            return False
+        if len(self.members[ri]) < len(self.members[rj]):
+            ri, rj = rj, ri
+        self.parent[rj] = ri
+        self.members[ri] |= self.members.pop(rj)
+        self.forbid[ri] |= self.forbid.pop(rj, set())
+        return True
+
+
+def names_compatible(a: str, b: str) -> bool:
+    """Whether two names may belong to one person (shared token, initial or containment).
+
+    Used to refuse automatic merges through a shared phone or e-mail between
+    people who are clearly different (a family landline, a shared inbox).
+    """
+    na, nb = normalise_name(a).split(), normalise_name(b).split()
+    if not na or not nb:
+        return True
+    if set(na) & set(nb):
+        return True
+    from rapidfuzz import fuzz
+
+    return fuzz.token_set_ratio(" ".join(na), " ".join(nb)) >= 80
+
+
+def _norm_emails(r: Record) -> list[str]:
+    return [e for e in (normalise_email(x) for x in r.emails) if e]
+
+
+def _norm_phones(r: Record, region: str) -> list[str]:
+    return [p for p in (normalise_phone(x, region or None) for x in r.phones) if p]
+
+
+def resolve(
+    stored: list[StoredRecord],
+    previous: dict[str, int],
+    decisions: Decisions,
+    me: Me,
+    next_id: int = 1,
+    default_region: str = "",
+) -> Resolution:
+    """Merge records into contacts.
+
+    Parameters
+    ----------
+    stored : list of StoredRecord
+        Every record in the workspace, in a fixed order.
+    previous : dict
+        Record key -> contact id from the last resolution; ids carry over so
+        that names, groups and decisions keep pointing at the same people.
+    decisions : Decisions
+        The user's merges (``same``) and splits (``different``); these win.
+    me : Me
+        The user's own addresses and names: matching records become "you".
+    next_id : int
+        The next unused contact id (ids are never reused after a person is forgotten).
+    """
+    n = len(stored)
+    uf = _Clusters(n)
+    pos = {s.key: i for i, s in enumerate(stored)}
+    for a, b in decisions.different:
+        if a in pos and b in pos:
+            uf.forbid_pair(pos[a], pos[b])
+    for a, b in decisions.same:
+        if a in pos and b in pos and uf.allowed(pos[a], pos[b]):
+            uf.union(pos[a], pos[b])
+
+    names = [s.record.display_name() for s in stored]
+    emails = [_norm_emails(s.record) for s in stored]
+    phones = [_norm_phones(s.record, s.region or default_region) for s in stored]
+    by_key: dict[str, list[int]] = defaultdict(list)
+    for i, s in enumerate(stored):
+        if s.record.uid.strip():
+            by_key["uid:" + s.record.uid.strip()].append(i)
+        for e in emails[i]:
+            by_key["email:" + e].append(i)
+        for p in phones[i]:
+            by_key["tel:" + p].append(i)
+
+    held_back: dict[tuple[int, int], str] = {}
+    auto = 0
+    for key in sorted(by_key):
+        idx = sorted(set(by_key[key]))
+        first = idx[0]
+        for j in idx[1:]:
+            if uf.find(first) == uf.find(j):
+                continue
+            if not key.startswith("uid:") and not names_compatible(names[first], names[j]):
+                held_back[(first, j)] = f"share {key.split(':', 1)[1]} but the names differ"
+                continue
+            if uf.allowed(first, j) and uf.union(first, j):
+                auto += 1
+
+    # Records that are the user.
+    clusters: dict[int, list[int]] = defaultdict(list)
+    for i in range(n):
+        clusters[uf.find(i)].append(i)
+    me_keys: list[str] = []
+    people: list[list[int]] = []
+    for root in sorted(clusters, key=lambda r: min(clusters[r])):
+        members = clusters[root]
+        if any(me.matches(set(emails[i]), names[i]) for i in members):
+            me_keys.extend(stored[i].key for i in members)
+        else:
+            people.append(members)
+
+    # Stable ids: each cluster takes the id most of its records had, biggest clusters first.
+    taken: set[int] = set()
+    ids: list[int | None] = [None] * len(people)
+    order = sorted(range(len(people)), key=lambda k: (-len(people[k]), min(people[k])))
+    for k in order:
+        votes = Counter(previous[stored[i].key] for i in people[k] if stored[i].key in previous)
+        for cid, _ in sorted(votes.items(), key=lambda kv: (-kv[1], kv[0])):
+            if cid not in taken:
+                ids[k] = cid
+                taken.add(cid)
+                break
+    for k in order:
+        if ids[k] is None:
+            while next_id in taken:
+                next_id += 1
+            ids[k] = next_id
+            taken.add(next_id)
+            next_id += 1
+    next_id = max([next_id, *[i + 1 for i in taken]]) if taken else next_id
+
+    contacts = []
+    mapping: dict[str, int] = {}
+    for k, members in enumerate(people):
+        cid = int(ids[k])  # type: ignore[arg-type]
+        contacts.append(_build_contact(cid, [stored[i] for i in members], emails, phones, members))
+        for i in members:
+            mapping[stored[i].key] = cid
+    contacts.sort(key=lambda c: c.id)
+
+    suggestions = []
+    for (i, j), reason in sorted(held_back.items()):
+        ci, cj = mapping.get(stored[i].key), mapping.get(stored[j].key)
+        if ci and cj and ci != cj:
+            suggestions.append(Suggestion(min(ci, cj), max(ci, cj), 0.5, reason))
+    return Resolution(contacts, mapping, me_keys, next_id, auto, suggestions)
+
+
+def _pick_name(stored: list[StoredRecord]) -> str:
+    """The most informative display name among a contact's records.
+
+    Prefers names with more tokens, then with accents (an export that dropped
+    them carries less), then the most frequent, then the newest source.
+    """
+    counts: Counter[str] = Counter()
+    best: dict[str, tuple] = {}
+    for s in stored:
+        name = s.record.display_name()
+        if not name or "@" in name:
+            continue
+        if "," in name and name.count(",") == 1 and not s.record.full_name.strip().endswith(","):
+            last, first = name.split(",")
+            if first.strip() and last.strip():
+                name = f"{first.strip()} {last.strip()}"
+        counts[name] += 1
+        non_ascii = any(ord(ch) > 127 for ch in name)
+        best[name] = max(best.get(name, ()), (len(name.split()), non_ascii, s.as_of or ""))
+    if not counts:
+        fallback = next((s.record.display_name() for s in stored if s.record.display_name()), "")
+        return fallback or "(no name)"
+    return max(counts, key=lambda nm: (best[nm][0], best[nm][1], counts[nm], best[nm][2], nm))
+
+
+def _unique(items: Iterable[str]) -> list[str]:
+    seen: dict[str, None] = {}
+    for it in items:
+        it = it.strip()
+        if it and it not in seen:
+            seen[it] = None
+    return list(seen)
+
+
+def _build_contact(cid: int, stored: list[StoredRecord], emails, phones, members) -> Contact:
+    """One contact from its records: union of values, current and past organisations.
+
+    An organisation counts as *current* when it appears on a record of the
+    contact's newest dated source (vCard REV, else the source's as-of date);
+    organisations seen only on older records are *past*.
+    """
+    def when(s: StoredRecord) -> str:
+        return (s.record.rev or s.as_of or "")[:10]
+
+    with_orgs = [s for s in stored if s.record.orgs]
+    newest = max((when(s) for s in with_orgs), default="")
+    current, past = [], []
+    seen_norm: dict[str, str] = {}
+    for s in sorted(with_orgs, key=when, reverse=True):
+        for org in s.record.orgs:
+            norm = normalise_org(org)
+            if not norm or norm in seen_norm:
+                continue
+            seen_norm[norm] = org
+            (current if when(s) == newest else past).append(org.strip())
+    email_counts: Counter[str] = Counter(e for i in members for e in emails[i])
+    phone_list = _unique(p for i in members for p in phones[i])
+    raw_phones = _unique(
+        p for s, i in zip(stored, members) if not phones[i] for p in s.record.phones
+    )
+    localities = _unique(
+        a.locality for s in stored for a in s.record.addresses if a.locality
+    )
+    return Contact(
+        id=cid,
+        name=_pick_name(stored),
+        emails=sorted(email_counts, key=lambda e: (-email_counts[e], e)),
+        phones=phone_list + [p for p in raw_phones if p not in phone_list],
+        orgs=current,
+        past_orgs=past,
+        titles=_unique(t for s in stored for t in s.record.titles),
+        tags=_unique(t for s in stored for t in s.record.tags),
+        localities=localities,
+        nicknames=_unique(nk for s in stored for nk in s.record.nicknames),
+        urls=_unique(u for s in stored for u in s.record.urls),
+        notes=_unique(nt for s in stored for nt in s.record.notes),
+        sources=_unique(s.source for s in stored),
+        record_ids=sorted(s.id for s in stored),
+    )
+
+
+def suggest_merges(
+    contacts: list[Contact],
+    rejected: set[tuple[int, int]] = frozenset(),  # type: ignore[assignment]
+    extra_webmail: frozenset[str] = frozenset(),
+    held_back: list[Suggestion] = (),  # type: ignore[assignment]
+) -> list[Suggestion]:
+    """Pairs of contacts that are probably one person; never merged without the user.
+
+    Scores (a documented heuristic, not a published model): same normalised
+    name and same organisation 0.9; same name and same work e-mail domain 0.8;
+    near-identical name (token-set similarity >= 90) and same organisation
+    0.7; shared e-mail or phone with differing names 0.5.
+    """
+    from rapidfuzz import fuzz
+
+    out: dict[tuple[int, int], Suggestion] = {}
+
+    def add(a: int, b: int, score: float, reason: str) -> None:
+        pair = (min(a, b), max(a, b))
+        if pair in rejected or a == b:
+            return
+        if pair not in out or out[pair].score < score:
+            out[pair] = Suggestion(pair[0], pair[1], score, reason)
+
+    by_name: dict[str, list[Contact]] = defaultdict(list)
+    by_org: dict[str, list[Contact]] = defaultdict(list)
+    for c in contacts:
+        nk = name_key(c.name)
+        if nk:
+            by_name[nk].append(c)
+        for org in {normalise_org(o) for o in c.orgs + c.past_orgs} - {""}:
+            by_org[org].append(c)
+    for group in by_name.values():
+        for i, a in enumerate(group):
+            for b in group[i + 1 :]:
+                orgs_a = {normalise_org(o) for o in a.orgs + a.past_orgs} - {""}
+                orgs_b = {normalise_org(o) for o in b.orgs + b.past_orgs} - {""}
+                dom_a = {email_domain(e) for e in a.emails} - {""}
+                dom_b = {email_domain(e) for e in b.emails} - {""}
+                work = {d for d in dom_a & dom_b if not is_webmail(d, extra_webmail)}
+                if orgs_a & orgs_b:
+                    add(a.id, b.id, 0.9, f"same name, both at {sorted(orgs_a & orgs_b)[0]}")
+                elif work:
+                    add(a.id, b.id, 0.8, f"same name, both use {sorted(work)[0]}")
+    for org, group in by_org.items():
+        if len(group) > 2000:
+            continue  # too coarse a block to compare pairwise
+        folded = [normalise_name(c.name) for c in group]
+        for i, a in enumerate(group):
+            for j in range(i + 1, len(group)):
+                b = group[j]
+                if name_key(a.name) == name_key(b.name):
+                    continue
+                if folded[i] and folded[j] and fuzz.token_set_ratio(folded[i], folded[j]) >= 90:
+                    add(a.id, b.id, 0.7, f"similar names ({a.name} / {b.name}), both at {org}")
+    for s in held_back:
+        add(s.a, s.b, s.score, s.reason)
+    return sorted(out.values(), key=lambda s: (-s.score, s.a, s.b))

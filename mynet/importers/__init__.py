@@ -1,0 +1,156 @@
+"""Importers: one entry point that picks the reader by content and suffix.
+
+Each reader takes the file's bytes and its path and returns a
+:class:`mynet.model.ParseResult`; it never touches the workspace.
+"""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+from typing import Iterable, Iterator
+
+from ..errors import InputError, UnknownFormatError
+from ..model import ParseResult
+
+__all__ = ["detect_kind", "parse_file", "iter_input_files", "MAX_FILE_BYTES", "KNOWN_SUFFIXES"]
+
+#: Files larger than this are refused with a clear message (a contact export this
+#: big is almost certainly the wrong file). 512 MiB.
+MAX_FILE_BYTES = 512 * 1024 * 1024
+
+KNOWN_SUFFIXES = {
+    ".vcf": "vcard",
+    ".vcard": "vcard",
+    ".csv": "csv",
+    ".tsv": "csv",
+    ".txt": None,  # decided by content
+    ".ics": "ics",
+    ".ical": "ics",
+    ".ifb": "ics",
+    ".mbox": "mbox",
+    ".eml": "eml",
+}
+
+
+def _sniff(head: bytes) -> str | None:
+    """Guess a file's kind from its first bytes."""
+    text = head.lstrip(b"\xef\xbb\xbf\xff\xfe\x00\r\n\t ")
+    # UTF-16 files: drop NULs so the markers below still show.
+    if b"\x00" in head[:200]:
+        text = head.replace(b"\x00", b"").lstrip(b"\xef\xbb\xbf\xff\xfe\r\n\t ")
+    upper = text[:4096].upper()
+    if upper.startswith(b"BEGIN:VCARD") or b"\nBEGIN:VCARD" in upper[:2048]:
+        return "vcard"
+    if upper.startswith(b"BEGIN:VCALENDAR") or upper.startswith(b"BEGIN:VEVENT"):
+        return "ics"
+    if text.startswith(b"From ") and b"\n" in text:
+        return "mbox"
+    return None
+
+
+def detect_kind(path: str | os.PathLike, head: bytes) -> str:
+    """Return the importer name for a file, from its content first, then its suffix.
+
+    Raises
+    ------
+    UnknownFormatError
+        When neither the content nor the suffix says what the file is.
+    """
+    kind = _sniff(head)
+    if kind:
+        return kind
+    suffix = Path(path).suffix.lower()
+    by_suffix = KNOWN_SUFFIXES.get(suffix)
+    if by_suffix in ("csv", "eml", "mbox"):
+        return by_suffix
+    if by_suffix in ("vcard", "ics"):
+        raise UnknownFormatError(str(path), f"has a {suffix} name but no BEGIN:{'VCARD' if by_suffix == 'vcard' else 'VCALENDAR'} line; it is not a {by_suffix} file")
+    if b"\x00" in head[:1024] and not head.startswith((b"\xff\xfe", b"\xfe\xff")):
+        raise UnknownFormatError(str(path), "is a binary file, not a contact export (vCard, CSV, iCalendar or mailbox)")
+    # Plain text with separators on the first line reads as a table.
+    first = head.split(b"\n", 1)[0]
+    if any(sep in first for sep in (b",", b";", b"\t", b"|")) or b"\x00" in head[:4]:
+        return "csv"
+    if head[:2000].lower().startswith((b"from:", b"received:", b"return-path:", b"message-id:", b"date:", b"delivered-to:")):
+        return "eml"
+    raise UnknownFormatError(str(path), "is not a vCard, CSV, iCalendar or mailbox file (unknown format)")
+
+
+def iter_input_files(paths: Iterable[str | os.PathLike]) -> Iterator[Path]:
+    """Expand the paths a user gave: files as they are, directories recursively.
+
+    Inside a directory only files with a known suffix are taken, in sorted order,
+    and hidden files and folders are left out.
+    """
+    for p in paths:
+        path = Path(p)
+        if path.is_dir():
+            for sub in sorted(path.rglob("*")):
+                rel = sub.relative_to(path)
+                if any(part.startswith(".") for part in rel.parts):
+                    continue
+                if sub.is_file() and sub.suffix.lower() in KNOWN_SUFFIXES and sub.suffix.lower() != ".txt":
+                    yield sub
+        elif path.exists():
+            yield path
+        else:
+            raise InputError(str(path), "no such file or directory")
+
+
+def read_bytes(path: Path) -> bytes:
+    """Read a whole input file, refusing unreadable or oversized ones clearly."""
+    try:
+        size = path.stat().st_size
+    except OSError as exc:
+        raise InputError(str(path), f"cannot be read ({exc.strerror})") from exc
+    if size > MAX_FILE_BYTES:
+        raise InputError(str(path), f"is {size / 2**20:.0f} MiB, larger than the {MAX_FILE_BYTES // 2**20} MiB limit for one export")
+    try:
+        return path.read_bytes()
+    except OSError as exc:
+        raise InputError(str(path), f"cannot be read ({exc.strerror})") from exc
+
+
+def parse_file(
+    path: str | os.PathLike,
+    *,
+    strict: bool = False,
+    mapping: dict[str, str] | None = None,
+    data: bytes | None = None,
+) -> ParseResult:
+    """Parse one file with the importer its content and suffix call for.
+
+    Parameters
+    ----------
+    path : path-like
+        The file. Its text is read here unless ``data`` is given.
+    strict : bool
+        Raise :class:`mynet.errors.RecordError` at the first malformed record
+        instead of skipping it.
+    mapping : dict, optional
+        CSV only: field name -> column header overrides (``--map``).
+    """
+    path = Path(path)
+    if data is None:
+        data = read_bytes(path)
+    if not data.strip():
+        raise InputError(str(path), "is empty")
+    kind = detect_kind(path, data[:8192])
+    if kind == "vcard":
+        from .vcard import parse_vcard
+
+        return parse_vcard(data, str(path), strict=strict)
+    if kind == "csv":
+        from .csv import parse_csv
+
+        return parse_csv(data, str(path), strict=strict, mapping=mapping)
+    if kind == "ics":
+        from .ics import parse_ics
+
+        return parse_ics(data, str(path), strict=strict)
+    if kind in ("mbox", "eml"):
+        from .mbox import parse_mail
+
+        return parse_mail(data, str(path), strict=strict, single=(kind == "eml"))
+    raise UnknownFormatError(str(path), "unknown format")

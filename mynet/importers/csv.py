@@ -1,0 +1,631 @@
+"""CSV importer: one :class:`mynet.model.Record` per data row of a contact table.
+
+The first non-empty row holds the column names. Columns are matched to record
+fields by common header words (case, accents, spaces, punctuation and column
+numbers ignored; English plus a few words of German, French, Spanish, Italian,
+Dutch and Portuguese). Cell text is kept exactly as the file has it, except
+that surrounding whitespace is stripped; nothing is normalised or neutralised.
+
+Mappable fields
+---------------
+``--map FIELD=COLUMN`` (the ``mapping`` argument) accepts these field names
+(also exported as :data:`MAPPABLE_FIELDS`):
+
+* record fields: ``uid``, ``full_name``, ``given``, ``family``, ``additional``,
+  ``prefix``, ``suffix``, ``nicknames``, ``emails``, ``phones``, ``orgs``,
+  ``org_units``, ``titles``, ``roles``, ``tags``, ``notes``, ``urls``, ``related``;
+* short names: ``name`` (= full_name), ``first`` (= given), ``middle``
+  (= additional), ``last`` (= family), ``nickname``, ``email``, ``phone``,
+  ``org``, ``unit`` (= org_units, a department), ``title``, ``role``, ``tag``,
+  ``note``, ``url``;
+* address parts: ``street``, ``locality``, ``region``, ``postcode``, ``country``.
+
+For single-valued fields (names, uid, address parts) a mapped column replaces
+the columns found automatically for that field; for list fields (e-mails,
+phones, ...) it is added to them. Columns naming a past employer ("previous
+company", "former employer") are deliberately left unmapped and reported.
+
+Multi-valued cells are split: tags on ``;``, ``,``, ``|`` and `` ::: ``;
+e-mails on ``;``, ``,`` and `` ::: ``; phones on ``;`` and `` ::: ``; URLs on
+`` ::: ``. Other cells are kept whole.
+"""
+
+from __future__ import annotations
+
+import codecs
+import csv as _csv
+import json
+import re
+import unicodedata
+from dataclasses import dataclass
+from itertools import islice
+from pathlib import Path
+from typing import Callable, Iterator
+
+import pandas as pd
+
+from ..errors import InputError, RecordError
+from ..model import Address, ParseResult, Record, Related, Skipped
+
+__all__ = ["parse_csv", "load_mapping_file", "classify_header", "MAPPABLE_FIELDS"]
+
+_SCALAR = ("uid", "full_name", "given", "family", "additional", "prefix", "suffix")
+_LIST = ("nicknames", "emails", "phones", "orgs", "org_units", "titles", "roles", "tags", "notes", "urls", "related")
+_ADDRESS = ("street", "locality", "region", "postcode", "country")
+_ALIASES = {
+    "name": "full_name", "first": "given", "middle": "additional", "last": "family",
+    "nickname": "nicknames", "email": "emails", "phone": "phones", "org": "orgs",
+    "unit": "org_units", "title": "titles", "role": "roles", "tag": "tags",
+    "note": "notes", "url": "urls",
+}
+#: Field names accepted by ``--map FIELD=COLUMN`` and in a mapping file.
+MAPPABLE_FIELDS: tuple[str, ...] = tuple(sorted({*_SCALAR, *_LIST, *_ADDRESS, *_ALIASES}))
+_NOT_MAPPABLE = ("kind", "source", "index", "line", "addresses", "card_kind", "members", "version", "warnings")
+_IDENTIFYING = {"full_name", "given", "family", "additional", "nicknames", "emails", "phones"}
+
+# Header words per slot. Phrases are reduced by _tokens(), so "E-mail" == "email".
+_SYNONYM_TEXT: dict[str, str] = {
+    "full_name": "name|full name|display name|contact|contact name|person|fullname|nom complet|nombre completo|"
+    "nome completo|volledige naam|vollstandiger name|anzeigename",
+    "given": "first name|given name|forename|first|given|firstname|vorname|prenom|nombre|nome|voornaam|primeiro nome",
+    "family": "last name|surname|family name|last|family|lastname|nachname|familienname|nom|nom de famille|"
+    "apellido|apellidos|cognome|achternaam|sobrenome|apelido",
+    "additional": "middle name|middle|additional name|additional names|middle names|second name|zweiter vorname",
+    "prefix": "prefix|name prefix|honorific|salutation title|anrede|civilite|tratamiento",
+    "suffix": "suffix|name suffix|generation|namenszusatz",
+    "nicknames": "nickname|nick name|nick|alias|known as|preferred name|spitzname|surnom|apodo|soprannome|bijnaam",
+    "emails": "email|mail|email address|mail address|emailaddress|emails|email addresses|courriel|adresse email|"
+    "email adresse|mail adresse|adresse electronique|correo|correo electronico|direccion de correo|"
+    "posta elettronica|indirizzo email|emailadres|epost",
+    "phones": "phone|phones|telephone|tel|phone number|telephone number|mobile|mobile phone|mobile number|cell|"
+    "cell phone|cellphone|fax|pager|telefon|telefonnummer|handy|mobil|mobiltelefon|telephone portable|portable|"
+    "telefono|cellulare|telefone|celular|movil|telefoon|mobiel|gsm|number",
+    "orgs": "company|organisation|organization|org|employer|company name|organisation name|organization name|"
+    "org name|current company|current employer|firma|unternehmen|arbeitgeber|entreprise|societe|organisme|"
+    "empresa|organizacion|azienda|societa|bedrijf|organisatie|werkgever|organizacao",
+    "org_units": "department|dept|unit|division|team|organisation department|organization department|"
+    "company department|abteilung|departement|service|departamento|reparto|afdeling|setor",
+    "titles": "job title|title|position|job|occupation|designation|jobtitle|job position|organisation title|"
+    "organization title|company title|position title|berufsbezeichnung|funktion|beruf|titre|poste|fonction|"
+    "cargo|puesto|titolo|ruolo|functie|functietitel|profissao",
+    "roles": "role|roles|job role|organisation role|organization role|rolle|rol",
+    "tags": "tags|tag|groups|group|categories|category|labels|label|group membership|lists|list|keywords|"
+    "kategorie|kategorien|gruppe|gruppen|etiquettes|etiquette|categories|groupes|groupe|categorias|etiquetas|"
+    "grupos|etichette|gruppi|categorieen|groepen",
+    "notes": "notes|note|comments|comment|remarks|remark|description|memo|about|bemerkung|bemerkungen|notiz|"
+    "notizen|kommentar|remarques|commentaire|commentaires|notas|nota|comentarios|note personali|opmerkingen|"
+    "notities|observacoes",
+    "urls": "website|web site|url|web page|webpage|homepage|home page|web|site|web address|website url|"
+    "profile url|linkedin|linkedin url|profile|webseite|site web|sitio web|pagina web|sito web",
+    "locality": "city|town|locality|municipality|village|stadt|ort|wohnort|ville|ciudad|localidad|citta|"
+    "plaats|woonplaats|cidade",
+    "region": "state|region|province|state province|county|bundesland|provincia|estado|provincie|regione",
+    "country": "country|country region|nation|land|pays|pais|paese|staat",
+    "street": "address|street|street address|address line|addr|street line|adresse|strasse|anschrift|rue|"
+    "direccion|calle|indirizzo|via|adres|straat|endereco|rua|formatted address|full address|postal address",
+    "postcode": "postcode|postal code|zip|zip code|zipcode|post code|plz|postleitzahl|code postal|cp|"
+    "codigo postal|cap|postcode nl|cep",
+    "uid": "uid|unique id|contact uid",
+}
+# Words that qualify a channel ("work phone") and the address type they give.
+_QUALIFIERS = {
+    "home": "home", "personal": "home", "private": "home", "privat": "home", "domicile": "home", "casa": "home",
+    "work": "work", "business": "work", "office": "work", "company": "work", "buro": "work", "travail": "work",
+    "trabajo": "work", "lavoro": "work", "werk": "work", "geschaftlich": "work", "dienstlich": "work",
+    "other": "other", "andere": "other", "autre": "other", "otro": "other",
+    "primary": "", "main": "", "alt": "", "alternate": "", "alternative": "", "secondary": "", "preferred": "",
+    "pref": "", "current": "", "contact": "", "my": "", "default": "", "value": "", "de": "", "du": "",
+}
+# Columns about someone else, or a past employer: never mapped automatically.
+_BLOCK = {
+    "assistant", "assistants", "manager", "managers", "spouse", "partner", "child", "children", "referred",
+    "previous", "former", "past", "ex", "prior", "im", "sip", "skype", "messenger", "ip", "yomi", "phonetic",
+    "type", "label", "birthday", "anniversary", "date",
+}
+# A header ending in one of these slots names that slot ("company phone", "address 1 - city").
+_SUFFIX_OK = {"emails", "phones", "urls", "street", "locality", "region", "postcode", "country"}
+
+_CHUNK_ROWS = 2000
+
+
+_NEWLINE = re.compile(r"\r\n|\r|\n")
+
+
+class _Lines:
+    """Iterate the lines of ``text`` from ``start``, ends kept (``\\r\\n``, ``\\r`` or ``\\n``).
+
+    ``pos`` is the offset of the next line, so a caller knows where a row began.
+    Slicing lazily avoids a second copy of the whole file.
+    """
+
+    def __init__(self, text: str, start: int = 0):
+        self.text = text
+        self.pos = start
+
+    def __iter__(self) -> "_Lines":
+        return self
+
+    def __next__(self) -> str:
+        text, pos = self.text, self.pos
+        if pos >= len(text):
+            raise StopIteration
+        match = _NEWLINE.search(text, pos)
+        self.pos = match.end() if match else len(text)
+        return text[pos:self.pos]
+
+
+def _looks_utf16(head: bytes) -> str | None:
+    """Name a BOM-less UTF-16 byte order when every other byte is mostly NUL."""
+    if len(head) < 4:
+        return None
+    even, odd = head[0::2], head[1::2]
+    if head[0] and not head[1] and odd.count(0) >= 0.3 * len(odd) and even.count(0) <= 0.05 * len(even):
+        return "utf-16-le"
+    if head[1] and not head[0] and even.count(0) >= 0.3 * len(even) and odd.count(0) <= 0.05 * len(odd):
+        return "utf-16-be"
+    return None
+
+
+def decode_table(data: bytes, path: str) -> tuple[str, str, str]:
+    """Decode a table file's bytes.
+
+    A byte-order mark decides first (UTF-8, UTF-16, UTF-32); then a BOM-less
+    UTF-16 pattern; then valid UTF-8; then cp1252 when every byte decodes, else
+    latin-1 (which always does).
+
+    Returns
+    -------
+    tuple of (str, str, str)
+        The text (without BOM), the encoding used, and a note for the user when
+        the encoding was a guess ("" otherwise).
+    """
+    boms = (
+        (codecs.BOM_UTF32_LE, "utf-32-le"), (codecs.BOM_UTF32_BE, "utf-32-be"), (codecs.BOM_UTF8, "utf-8"),
+        (codecs.BOM_UTF16_LE, "utf-16-le"), (codecs.BOM_UTF16_BE, "utf-16-be"),
+    )
+    encoding, body, note = "", data, ""
+    for bom, name in boms:
+        if data.startswith(bom):
+            encoding, body = name, data[len(bom):]
+            break
+    if not encoding:
+        encoding = _looks_utf16(data[:4096]) or ""
+        if encoding:
+            note = f"no byte-order mark; read as {encoding.upper()}"
+    if encoding:
+        try:
+            return body.decode(encoding), encoding, note
+        except UnicodeDecodeError as exc:
+            raise InputError(path, f"is not valid {encoding.upper()} text (bad bytes at offset {exc.start})") from exc
+    try:
+        return data.decode("utf-8"), "utf-8", ""
+    except UnicodeDecodeError:
+        pass
+    for name in ("cp1252", "latin-1"):
+        try:
+            text = data.decode(name)
+        except UnicodeDecodeError:
+            continue
+        return text, name, f"not UTF-8; read as {name} (if names look wrong, export the file again as UTF-8)"
+    raise AssertionError("latin-1 decodes every byte")  # pragma: no cover
+
+
+def detect_delimiter(text: str) -> tuple[str, int, int]:
+    """Choose the delimiter among comma, semicolon, tab and pipe.
+
+    An Excel-style first line ``sep=X`` decides when present. Otherwise each
+    candidate parses the first rows (quotes respected); candidates that split
+    the header into fewer than two columns drop out, and the one whose data
+    rows most often have the header's width wins (then the wider header, then
+    the order above).
+
+    Returns
+    -------
+    tuple of (str, int, int)
+        The delimiter, the text offset where the table starts and its 1-based line.
+    """
+    hint = re.match(r"[ \t]*sep=([^\r\n])[ \t]*(?:\r\n|\r|\n|$)", text, re.IGNORECASE)
+    if hint:
+        return hint.group(1), hint.end(), 2
+    sample = text[:65536]
+    best: tuple[tuple[float, int, int], str] | None = None
+    for order, delimiter in enumerate(",;\t|"):
+        widths: list[int] = []
+        try:
+            for cells in _csv.reader(_Lines(sample), delimiter=delimiter, skipinitialspace=True):
+                if any(c.strip() for c in cells):
+                    widths.append(len(cells))
+                if len(widths) >= 40:
+                    break
+        except _csv.Error:
+            continue
+        if len(text) > len(sample) and len(widths) > 2:
+            widths.pop()  # the sample may cut the last row short
+        if not widths or widths[0] < 2:
+            continue
+        rest = widths[1:]
+        agree = sum(w == widths[0] for w in rest) / len(rest) if rest else 1.0
+        score = (agree, widths[0], -order)
+        if best is None or score > best[0]:
+            best = (score, delimiter)
+    return (best[1] if best else ","), 0, 1
+
+
+def _tokens(text: str) -> list[str]:
+    """Lower-case, accent-free word tokens of a header, without column numbers."""
+    folded = unicodedata.normalize("NFKD", text.casefold())
+    folded = "".join(ch for ch in folded if not unicodedata.combining(ch))
+    folded = re.sub(r"(?<=[^\W\d_])(?=\d)|(?<=\d)(?=[^\W\d_])", " ", folded)
+    return [t for t in re.split(r"[\W_]+", folded) if t and not t.isdigit()]
+
+
+def _build_synonyms() -> dict[str, str]:
+    table: dict[str, str] = {}
+    for slot, text in _SYNONYM_TEXT.items():
+        for phrase in text.split("|"):
+            table.setdefault("".join(_tokens(phrase)), slot)
+    return table
+
+
+_SYNONYMS = _build_synonyms()
+
+
+def classify_header(header: str) -> tuple[str, str] | None:
+    """Match a column header to a record slot.
+
+    Parameters
+    ----------
+    header : str
+        The column name as the file gives it.
+
+    Returns
+    -------
+    tuple of (str, str) or None
+        The slot (a record field name or an address part) and an address type
+        (``"home"``, ``"work"``, ``"other"`` or ``""``), or None when the header
+        names nothing mynet uses.
+    """
+    toks = _tokens(header)
+    if not toks or _BLOCK.intersection(toks):
+        return None
+    slot = _SYNONYMS.get("".join(toks))
+    if slot:
+        return slot, ""
+    kind = next((_QUALIFIERS[t] for t in toks if _QUALIFIERS.get(t)), "")
+    rest = [t for t in toks if t not in _QUALIFIERS]
+    if rest and len(rest) < len(toks):
+        slot = _SYNONYMS.get("".join(rest))
+        if slot:
+            return slot, kind
+    for start in range(1, len(rest)):
+        slot = _SYNONYMS.get("".join(rest[start:]))
+        if slot in _SUFFIX_OK:
+            return slot, kind
+    return None
+
+
+def _field_slot(field_name: str) -> str | None:
+    """The slot for a mappable field name, or None when it is not one."""
+    name = field_name.strip().lower()
+    if name in _ALIASES:
+        return _ALIASES[name]
+    if name in _SCALAR or name in _LIST or name in _ADDRESS:
+        return name
+    return None
+
+
+def _unknown_field_reason(field_name: str) -> str:
+    if field_name.strip().lower() in _NOT_MAPPABLE:
+        return f"field {field_name.strip()!r} is set by the importer and cannot be mapped to a column; mappable fields are: {', '.join(MAPPABLE_FIELDS)}"
+    return f"unknown field {field_name.strip()!r} in a column mapping; mappable fields are: {', '.join(MAPPABLE_FIELDS)}"
+
+
+def load_mapping_file(path: str | Path) -> dict[str, str]:
+    """Read a column mapping file: ``field = Column`` lines or one JSON object.
+
+    Blank lines and lines starting with ``#`` are ignored. A column name may be
+    wrapped in double quotes to keep surrounding spaces.
+
+    Parameters
+    ----------
+    path : path-like
+        The mapping file (UTF-8).
+
+    Returns
+    -------
+    dict of str to str
+        Field name -> column header, as ``parse_csv(mapping=...)`` takes it.
+
+    Raises
+    ------
+    InputError
+        When the file cannot be read, is not a mapping, names an unknown field,
+        names a field twice or has a line without ``=``; the message names the line.
+    """
+    path = str(path)
+    try:
+        text = Path(path).read_bytes().decode("utf-8-sig")
+    except OSError as exc:
+        raise InputError(path, f"cannot be read ({exc.strerror})") from exc
+    except UnicodeDecodeError as exc:
+        raise InputError(path, f"is not UTF-8 text (bad byte at offset {exc.start})") from exc
+    if text.lstrip().startswith("{"):
+        try:
+            obj = json.loads(text)
+        except json.JSONDecodeError as exc:
+            raise InputError(path, f"is not valid JSON ({exc.msg})", exc.lineno) from exc
+        if not isinstance(obj, dict):
+            raise InputError(path, "must hold one JSON object of field: column pairs")
+        result: dict[str, str] = {}
+        for key, value in obj.items():
+            if not isinstance(value, str) or not value.strip():
+                raise InputError(path, f"field {key!r} must map to a column name (a non-empty string)")
+            if _field_slot(key) is None:
+                raise InputError(path, _unknown_field_reason(key))
+            result[key.strip().lower()] = value
+        return result
+    result = {}
+    for lineno, raw in enumerate(text.splitlines(), start=1):
+        line = raw.strip()
+        if not line or line.startswith("#"):
+            continue
+        if "=" not in line:
+            raise InputError(path, f"expected 'field = Column', got {line!r}", lineno)
+        key, _, column = (part.strip() for part in line.partition("="))
+        if len(column) >= 2 and column[0] == column[-1] == '"':
+            column = column[1:-1]
+        if not key or not column:
+            raise InputError(path, f"expected 'field = Column', got {line!r}", lineno)
+        if _field_slot(key) is None:
+            raise InputError(path, _unknown_field_reason(key), lineno)
+        if key.lower() in result:
+            raise InputError(path, f"field {key!r} is mapped twice", lineno)
+        result[key.lower()] = column
+    if not result:
+        raise InputError(path, "holds no 'field = Column' lines")
+    return result
+
+
+@dataclass
+class _Column:
+    pos: int
+    slot: str
+    kind: str = ""  # address type
+
+
+def _plan_columns(header: list[str], mapping: dict[str, str] | None, path: str) -> tuple[list[_Column], list[str]]:
+    """Decide which column feeds which slot; return the plan and the unused headers."""
+    plan: list[_Column] = []
+    for pos, name in enumerate(header):
+        found = classify_header(name) if name else None
+        if found:
+            plan.append(_Column(pos, *found))
+    listed = ", ".join(repr(h) for h in header if h) or "(none)"
+    for field_name, column in (mapping or {}).items():
+        slot = _field_slot(field_name)
+        if slot is None:
+            raise InputError(path, _unknown_field_reason(field_name))
+        pos = _find_column(header, column)
+        if pos is None:
+            raise InputError(path, f"--map {field_name}={column}: no column named {column!r}; the columns are: {listed}")
+        plan = [c for c in plan if c.pos != pos]
+        if slot not in _LIST:
+            plan = [c for c in plan if c.slot != slot]
+        plan.append(_Column(pos, slot))
+    plan.sort(key=lambda c: c.pos)
+    used = {c.pos for c in plan}
+    unused = [h for pos, h in enumerate(header) if h and pos not in used]
+    return plan, unused
+
+
+def _find_column(header: list[str], column: str) -> int | None:
+    if column in header:
+        return header.index(column)
+    loose = [i for i, h in enumerate(header) if h.casefold() == column.strip().casefold()]
+    return loose[0] if len(loose) == 1 else None
+
+
+def _splitter(slot: str) -> Callable[[str], list[str]]:
+    pattern = {
+        "tags": r"\s*(?::::|[;,|])\s*",
+        "emails": r"\s*(?::::|[;,])\s*",
+        "phones": r"\s*(?::::|;)\s*",
+        "urls": r"\s+:::\s+",
+    }.get(slot)
+    if pattern is None:
+        return lambda cell: [cell]
+    regex = re.compile(pattern)
+    return lambda cell: [part for part in regex.split(cell) if part]
+
+
+def _build_record(values: list[str], plan: list[_Column], splitters: dict[str, Callable[[str], list[str]]],
+                  path: str, index: int, line: int) -> Record:
+    """Fill one record from a row's stripped cells following the column plan."""
+    rec = Record(kind="csv", source=path, index=index, line=line)
+    addresses: dict[str, Address] = {}
+    units: list[str] = []
+    for col in plan:
+        cell = values[col.pos]
+        if not cell:
+            continue
+        slot = col.slot
+        if slot in _SCALAR:
+            if not getattr(rec, slot):
+                setattr(rec, slot, cell)
+        elif slot in _ADDRESS:
+            addr = addresses.setdefault(col.kind, Address(types=[col.kind] if col.kind else []))
+            old = getattr(addr, slot)
+            setattr(addr, slot, f"{old}, {cell}" if old and slot == "street" else old or cell)
+        elif slot == "org_units":
+            units.append(cell)
+        elif slot == "related":
+            rec.related.append(Related(cell))
+        else:
+            target = getattr(rec, slot)
+            for part in splitters[slot](cell):
+                if part not in target:
+                    target.append(part)
+    rec.addresses = [a for a in addresses.values() if not a.is_empty()]
+    if units:
+        if rec.orgs:
+            rec.org_units = [units] + [[] for _ in rec.orgs[1:]]
+        else:
+            rec.warnings.append(f"department {', '.join(units)!r} given without a company; not kept")
+    elif rec.orgs:
+        rec.org_units = [[] for _ in rec.orgs]
+    return rec
+
+
+def _has_identity(rec: Record) -> bool:
+    return any(getattr(rec, slot) for slot in _IDENTIFYING)
+
+
+def _read_rows(text: str, start: int, delimiter: str, first_line: int, path: str) -> Iterator[tuple[int, list[str], int]]:
+    """Yield (physical start line, cells, unclosed) per row; blank lines give [].
+
+    ``unclosed`` is 0, or the last line of the file when the row opens a quote
+    that is never closed (it then swallowed the rest of the file).
+    """
+    lines = _Lines(text, start)
+    reader = _csv.reader(lines, delimiter=delimiter, quotechar='"', doublequote=True, skipinitialspace=True)
+    offset = first_line - 1
+    while True:
+        before, row_start = reader.line_num, lines.pos
+        try:
+            cells = next(reader)
+        except StopIteration:
+            return
+        except _csv.Error as exc:
+            raise InputError(path, f"cannot be read as CSV ({exc})", offset + reader.line_num) from exc
+        unclosed = 0
+        if lines.pos >= len(text) and '"' in text[row_start:] and _quote_left_open(text[row_start:], delimiter):
+            unclosed = offset + reader.line_num
+        yield offset + before + 1, cells, unclosed
+
+
+def _quote_left_open(row_text: str, delimiter: str) -> bool:
+    """True when the last row of a file opens a quoted cell it never closes."""
+    try:
+        list(_csv.reader(_Lines(row_text), delimiter=delimiter, skipinitialspace=True, strict=True))
+    except _csv.Error as exc:
+        return "unexpected end of data" in str(exc)
+    return False
+
+
+def parse_csv(data: bytes, path: str, *, strict: bool = False, mapping: dict[str, str] | None = None) -> ParseResult:
+    """Parse a CSV contact export into records.
+
+    Parameters
+    ----------
+    data : bytes
+        The whole file. The encoding is detected (BOM, else UTF-8, else cp1252,
+        else latin-1), as is the delimiter (comma, semicolon, tab or pipe; an
+        Excel ``sep=X`` first line is honoured).
+    path : str
+        The file's path, used in records and messages.
+    strict : bool
+        Raise :class:`mynet.errors.RecordError` at the first row that would be
+        skipped (wrong number of cells, no name/e-mail/phone, unclosed quote).
+    mapping : dict of str to str, optional
+        Field name -> column header overrides (see the module docstring).
+
+    Returns
+    -------
+    ParseResult
+        ``kind="csv"``; one record per data row, ``index`` counting non-blank
+        data rows from 0 and ``line`` the 1-based physical line where the row
+        starts. Blank rows are ignored; unused columns are named in ``warnings``.
+
+    Raises
+    ------
+    InputError
+        When the file cannot be decoded, has no header row, a mapping names an
+        unknown field or column, or no column gives a name, e-mail or phone.
+    """
+    result = ParseResult(path=path, kind="csv")
+    text, encoding, note = decode_table(data, path)
+    if note:
+        result.warnings.append(note)
+    delimiter, start, first_line = detect_delimiter(text)
+    rows = _read_rows(text, start, delimiter, first_line, path)
+    header_line, header = 0, []
+    for header_line, cells, unclosed in rows:
+        if unclosed:
+            raise InputError(path, "a quote opened in the header row is never closed", header_line)
+        if any(c.strip() for c in cells):
+            header = [c.strip() for c in cells]
+            break
+    if not header:
+        raise InputError(path, "has no header row (the first non-empty row must name the columns)")
+    plan, unused = _plan_columns(header, mapping, path)
+    if not any(c.slot in _IDENTIFYING for c in plan):
+        found = ", ".join(repr(h) for h in header if h) or "(none)"
+        hint = " The first row looks like data, not column names: add a header row." if any("@" in h for h in header) else ""
+        raise InputError(
+            path,
+            f"no column gives a name, e-mail or phone (columns found: {found}).{hint} "
+            "Say which column holds one with --map, e.g. --map name=COLUMN or --map email=COLUMN",
+            header_line,
+        )
+    if unused:
+        result.warnings.append(f"columns not used: {', '.join(repr(h) for h in unused)} (use --map FIELD=COLUMN to import one)")
+    width = len(header)
+    named_width = max(i for i, h in enumerate(header) if h) + 1
+    splitters = {c.slot: _splitter(c.slot) for c in plan}
+    counter = [0]
+
+    def skip(line: int, reason: str) -> None:
+        if strict:
+            raise RecordError(path, reason, line)
+        result.skipped.append(Skipped(path, line, reason, counter[0]))
+        counter[0] += 1
+
+    while True:
+        chunk = list(islice(rows, _CHUNK_ROWS))
+        if not chunk:
+            break
+        _parse_chunk(chunk, width, named_width, plan, splitters, path, result, skip, counter)
+    return result
+
+
+def _parse_chunk(chunk, width, named_width, plan, splitters, path, result, skip, counter) -> None:
+    """Turn one chunk of (line, cells) rows into records and skips, in file order."""
+    # Pass 1: equal-width rows go to a frame; ragged or unclosed rows are decided here.
+    verdict: list[tuple[int, str | None]] = []  # (line, reason or None when framed)
+    framed: list[list[str]] = []
+    for line, cells, unclosed in chunk:
+        if not cells:
+            continue
+        if unclosed:
+            verdict.append((line, f"a quote opened in this row is never closed, so lines {line}-{unclosed} were read as one row"))
+            continue
+        if len(cells) > width and not any(c.strip() for c in cells[width:]):
+            cells = cells[:width]
+        if len(cells) < width and len(cells) >= named_width:
+            cells = cells + [""] * (width - len(cells))
+        if len(cells) != width:
+            if any(c.strip() for c in cells):
+                verdict.append((line, f"row has {len(cells)} cells but the header has {named_width}"))
+            continue
+        verdict.append((line, None))
+        framed.append(cells)
+    if not framed and not verdict:
+        return
+    frame = pd.DataFrame(framed, columns=range(width), dtype=object).map(str.strip)
+    non_blank = frame.ne("").any(axis=1).tolist()
+    values = frame.to_numpy().tolist()
+    row = 0
+    for line, reason in verdict:
+        if reason is not None:
+            skip(line, reason)
+            continue
+        cells, keep = values[row], non_blank[row]
+        row += 1
+        if not keep:
+            continue
+        rec = _build_record(cells, plan, splitters, path, counter[0], line)
+        if not _has_identity(rec):
+            skip(line, "row has no name, e-mail or phone")
+            continue
+        result.records.append(rec)
+        counter[0] += 1

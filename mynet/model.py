@@ -1,0 +1,236 @@
+"""Plain data shared by every layer: records, contacts, evidence, ties, interactions.
+
+Only dataclasses and (de)serialisation live here; no I/O and no logic beyond
+what a value needs to describe itself.
+"""
+
+from __future__ import annotations
+
+from dataclasses import asdict, dataclass, field, fields
+from typing import Any
+
+__all__ = [
+    "Address",
+    "Related",
+    "Record",
+    "Skipped",
+    "ParseResult",
+    "Contact",
+    "Interaction",
+    "Evidence",
+    "Tie",
+]
+
+
+@dataclass
+class Address:
+    """A postal address, reduced to the parts the network uses."""
+
+    street: str = ""
+    locality: str = ""
+    region: str = ""
+    postcode: str = ""
+    country: str = ""
+    types: list[str] = field(default_factory=list)
+
+    def is_empty(self) -> bool:
+        return not any((self.street, self.locality, self.region, self.postcode, self.country))
+
+
+@dataclass
+class Related:
+    """A relation named on a card (vCard 4.0 RELATED, vendor relation fields)."""
+
+    value: str
+    types: list[str] = field(default_factory=list)
+
+
+@dataclass
+class Record:
+    """One raw entry of a source (a card, a row), with where it came from.
+
+    Importers fill the text fields exactly as the file says (decoded, unescaped),
+    without normalising: normalisation belongs to :mod:`mynet.identity`.
+
+    Attributes
+    ----------
+    kind : str
+        ``"vcard"`` or ``"csv"`` (later ``"ics"``, ``"mbox"``).
+    source : str
+        Path of the file as given to the importer.
+    index : int
+        0-based position of the record in its file (card number, data row number).
+    line : int
+        1-based physical line of the file where the record starts.
+    orgs : list of str
+        Organisation names, one per ORG property or company column. Units of a
+        vCard ORG are kept apart in ``org_units`` (same length as ``orgs``).
+    """
+
+    kind: str
+    source: str
+    index: int
+    line: int
+    uid: str = ""
+    full_name: str = ""
+    given: str = ""
+    family: str = ""
+    additional: str = ""
+    prefix: str = ""
+    suffix: str = ""
+    nicknames: list[str] = field(default_factory=list)
+    emails: list[str] = field(default_factory=list)
+    phones: list[str] = field(default_factory=list)
+    orgs: list[str] = field(default_factory=list)
+    org_units: list[list[str]] = field(default_factory=list)
+    titles: list[str] = field(default_factory=list)
+    roles: list[str] = field(default_factory=list)
+    addresses: list[Address] = field(default_factory=list)
+    tags: list[str] = field(default_factory=list)
+    notes: list[str] = field(default_factory=list)
+    urls: list[str] = field(default_factory=list)
+    related: list[Related] = field(default_factory=list)
+    card_kind: str = ""
+    members: list[str] = field(default_factory=list)
+    version: str = ""
+    rev: str = ""  # vCard REV (last revision, ISO 8601) when the card has one
+    warnings: list[str] = field(default_factory=list)
+
+    def display_name(self) -> str:
+        """Best human name the record offers (FN, else N parts, else e-mail)."""
+        if self.full_name.strip():
+            return self.full_name.strip()
+        parts = [self.prefix, self.given, self.additional, self.family, self.suffix]
+        joined = " ".join(p.strip() for p in parts if p and p.strip())
+        if joined:
+            return joined
+        if self.nicknames:
+            return self.nicknames[0]
+        if self.emails:
+            return self.emails[0]
+        if self.orgs:
+            return self.orgs[0]
+        return ""
+
+    def to_dict(self) -> dict[str, Any]:
+        return asdict(self)
+
+    @classmethod
+    def from_dict(cls, data: dict[str, Any]) -> "Record":
+        known = {f.name for f in fields(cls)}
+        kwargs = {k: v for k, v in data.items() if k in known}
+        kwargs["addresses"] = [Address(**a) for a in kwargs.get("addresses", [])]
+        kwargs["related"] = [Related(**r) for r in kwargs.get("related", [])]
+        return cls(**kwargs)
+
+
+@dataclass
+class Skipped:
+    """A record that could not be imported, with where and why."""
+
+    source: str
+    line: int
+    reason: str
+    index: int | None = None
+
+    def __str__(self) -> str:
+        return f"{self.source}:{self.line}: {self.reason}"
+
+
+@dataclass
+class ParseResult:
+    """What one importer got out of one file."""
+
+    path: str
+    kind: str
+    records: list[Record] = field(default_factory=list)
+    skipped: list[Skipped] = field(default_factory=list)
+    warnings: list[str] = field(default_factory=list)
+    interactions: list["Interaction"] = field(default_factory=list)
+
+
+@dataclass
+class Contact:
+    """One real person after duplicate records are merged."""
+
+    id: int
+    name: str
+    emails: list[str] = field(default_factory=list)
+    phones: list[str] = field(default_factory=list)
+    orgs: list[str] = field(default_factory=list)
+    past_orgs: list[str] = field(default_factory=list)
+    titles: list[str] = field(default_factory=list)
+    tags: list[str] = field(default_factory=list)
+    localities: list[str] = field(default_factory=list)
+    nicknames: list[str] = field(default_factory=list)
+    urls: list[str] = field(default_factory=list)
+    notes: list[str] = field(default_factory=list)
+    sources: list[str] = field(default_factory=list)
+    record_ids: list[int] = field(default_factory=list)
+
+    def to_dict(self) -> dict[str, Any]:
+        return asdict(self)
+
+    @classmethod
+    def from_dict(cls, data: dict[str, Any]) -> "Contact":
+        known = {f.name for f in fields(cls)}
+        return cls(**{k: v for k, v in data.items() if k in known})
+
+
+@dataclass
+class Interaction:
+    """A dated event (meeting, message) with its participants' addresses.
+
+    ``participants`` are normalised e-mail addresses (lower case), ``names``
+    maps an address to the display name the file gave it.
+    """
+
+    kind: str  # "meeting" or "message"
+    source: str
+    index: int
+    line: int
+    when: str  # ISO 8601 date-time (UTC) or date
+    key: str = ""  # event UID + occurrence, or Message-ID
+    thread: str = ""  # thread root Message-ID for messages
+    title: str = ""
+    organizer: str = ""
+    sender: str = ""
+    participants: list[str] = field(default_factory=list)
+    names: dict[str, str] = field(default_factory=dict)
+    bulk: bool = False
+
+    def to_dict(self) -> dict[str, Any]:
+        return asdict(self)
+
+    @classmethod
+    def from_dict(cls, data: dict[str, Any]) -> "Interaction":
+        known = {f.name for f in fields(cls)}
+        return cls(**{k: v for k, v in data.items() if k in known})
+
+
+@dataclass
+class Evidence:
+    """One reason to believe two contacts know each other, with its provenance."""
+
+    a: int
+    b: int
+    kind: str
+    detail: str
+    count: int = 1
+    weight: float = 0.0
+    date: str | None = None
+    provenance: list[str] = field(default_factory=list)
+
+    def to_dict(self) -> dict[str, Any]:
+        return asdict(self)
+
+
+@dataclass
+class Tie:
+    """The link between two contacts, aggregated from its evidence."""
+
+    a: int
+    b: int
+    strength: float
+    evidence: list[Evidence] = field(default_factory=list)
+    manual: bool = False

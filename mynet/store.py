@@ -1,0 +1,388 @@
+"""The SQLite workspace: schema, migrations, transactions.
+
+One file holds everything: the imported records (inputs), the user's decisions
+(inputs that no re-import may lose), settings, the derived contacts and cached
+analysis results keyed by a data version.
+
+The file and its journal are readable by the owner only (mode 0600). Writes run
+in ``BEGIN IMMEDIATE`` transactions in WAL mode, so a second process reading
+the workspace sees either the state before an import or after it, never half.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import sqlite3
+import stat
+from contextlib import contextmanager
+from datetime import datetime, timezone
+from pathlib import Path
+from typing import Any, Iterator
+
+from .errors import WorkspaceError
+from .model import Contact, Interaction, Record
+
+__all__ = ["Store", "SCHEMA_VERSION", "SourceRow"]
+
+SCHEMA_VERSION = 1
+
+# Each entry migrates from version i to i+1 (index 0 creates version 1).
+MIGRATIONS: list[str] = [
+    """
+    CREATE TABLE meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
+    CREATE TABLE sources (
+        id INTEGER PRIMARY KEY,
+        path TEXT NOT NULL UNIQUE,
+        kind TEXT NOT NULL,
+        sha256 TEXT NOT NULL,
+        size INTEGER NOT NULL,
+        as_of TEXT,
+        region TEXT,
+        imported_at TEXT NOT NULL,
+        n_records INTEGER NOT NULL DEFAULT 0,
+        n_skipped INTEGER NOT NULL DEFAULT 0
+    );
+    CREATE TABLE records (
+        id INTEGER PRIMARY KEY,
+        source_id INTEGER NOT NULL REFERENCES sources(id) ON DELETE CASCADE,
+        idx INTEGER NOT NULL,
+        line INTEGER NOT NULL,
+        rkey TEXT NOT NULL UNIQUE,
+        data TEXT NOT NULL
+    );
+    CREATE INDEX records_source ON records(source_id);
+    CREATE TABLE interactions (
+        id INTEGER PRIMARY KEY,
+        source_id INTEGER NOT NULL REFERENCES sources(id) ON DELETE CASCADE,
+        idx INTEGER NOT NULL,
+        line INTEGER NOT NULL,
+        kind TEXT NOT NULL,
+        data TEXT NOT NULL
+    );
+    CREATE INDEX interactions_source ON interactions(source_id);
+    CREATE TABLE contact_map (rkey TEXT PRIMARY KEY, contact_id INTEGER NOT NULL);
+    CREATE TABLE contacts (id INTEGER PRIMARY KEY, name TEXT NOT NULL, data TEXT NOT NULL);
+    CREATE TABLE decisions (
+        id INTEGER PRIMARY KEY,
+        kind TEXT NOT NULL,
+        a TEXT NOT NULL DEFAULT '',
+        b TEXT NOT NULL DEFAULT '',
+        value TEXT NOT NULL DEFAULT '',
+        created_at TEXT NOT NULL
+    );
+    CREATE INDEX decisions_kind ON decisions(kind);
+    CREATE TABLE settings (key TEXT PRIMARY KEY, value TEXT NOT NULL);
+    CREATE TABLE cache (key TEXT PRIMARY KEY, version INTEGER NOT NULL, data TEXT NOT NULL);
+    """,
+]
+
+
+def _now() -> str:
+    return datetime.now(timezone.utc).replace(microsecond=0).isoformat()
+
+
+class SourceRow(dict):
+    """A row of the sources table (a dict with attribute access)."""
+
+    __getattr__ = dict.__getitem__
+
+
+def _create_private_file(path: Path) -> None:
+    """Create an empty file readable by the owner only, if it does not exist."""
+    path.parent.mkdir(parents=True, exist_ok=True, mode=0o700)
+    fd = os.open(path, os.O_CREAT | os.O_RDWR, 0o600)
+    os.close(fd)
+
+
+class Store:
+    """The workspace file.
+
+    Parameters
+    ----------
+    path : path-like
+        The SQLite file; created (mode 0600) when missing unless ``create`` is false.
+    create : bool
+        When false, a missing file raises :class:`WorkspaceError` instead.
+    timeout : float
+        Seconds to wait for another process's write transaction to finish.
+    """
+
+    def __init__(self, path: str | os.PathLike, *, create: bool = True, timeout: float = 30.0):
+        self.path = Path(path)
+        if not self.path.exists():
+            if not create:
+                raise WorkspaceError(f"no workspace at {self.path}; import something first (mynet import FILE)")
+            _create_private_file(self.path)
+        self._tighten_permissions()
+        self._in_tx = False
+        try:
+            self.conn = sqlite3.connect(self.path, timeout=timeout, isolation_level=None)
+            self.conn.row_factory = sqlite3.Row
+            self.conn.execute("PRAGMA foreign_keys = ON")
+            self.conn.execute("PRAGMA secure_delete = ON")
+            mode = self.conn.execute("PRAGMA journal_mode = WAL").fetchone()[0]
+            self.conn.execute("PRAGMA synchronous = NORMAL")
+            self._migrate()
+        except sqlite3.DatabaseError as exc:
+            raise WorkspaceError(f"{self.path} is not a mynet workspace or is damaged ({exc})") from exc
+        self.journal_mode = mode
+
+    # -- life cycle -----------------------------------------------------------
+    def _tighten_permissions(self) -> None:
+        try:
+            st = self.path.stat()
+            if stat.S_IMODE(st.st_mode) & 0o077:
+                os.chmod(self.path, 0o600)
+        except OSError:
+            pass
+
+    def close(self) -> None:
+        self.conn.close()
+
+    def __enter__(self) -> "Store":
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        self.close()
+
+    def _migrate(self) -> None:
+        version = self.conn.execute("PRAGMA user_version").fetchone()[0]
+        if version > SCHEMA_VERSION:
+            raise WorkspaceError(
+                f"{self.path} was written by a newer mynet (schema {version}, this one knows {SCHEMA_VERSION}); upgrade mynet"
+            )
+        if version == SCHEMA_VERSION:
+            return
+        with self.transaction():
+            version = self.conn.execute("PRAGMA user_version").fetchone()[0]
+            for target in range(version, SCHEMA_VERSION):
+                for statement in MIGRATIONS[target].split(";"):
+                    if statement.strip():
+                        self.conn.execute(statement)
+                self.conn.execute(f"PRAGMA user_version = {target + 1}")
+            self.conn.execute("INSERT OR IGNORE INTO meta(key, value) VALUES ('data_version', '0')")
+            self.conn.execute("INSERT OR IGNORE INTO meta(key, value) VALUES ('next_contact_id', '1')")
+            self.conn.execute("INSERT OR IGNORE INTO meta(key, value) VALUES ('created_at', ?)", (_now(),))
+
+    @contextmanager
+    def transaction(self) -> Iterator[sqlite3.Connection]:
+        """One write transaction; nested calls join the outer one.
+
+        Raises
+        ------
+        WorkspaceError
+            When another process holds the write lock for longer than the timeout.
+        """
+        if self._in_tx:
+            yield self.conn
+            return
+        try:
+            self.conn.execute("BEGIN IMMEDIATE")
+        except sqlite3.OperationalError as exc:
+            if "locked" in str(exc) or "busy" in str(exc):
+                raise WorkspaceError(
+                    f"{self.path} is busy: another mynet process is writing to it (an import?); try again when it is done"
+                ) from exc
+            raise
+        self._in_tx = True
+        try:
+            yield self.conn
+        except BaseException:
+            self.conn.execute("ROLLBACK")
+            raise
+        else:
+            self.conn.execute("COMMIT")
+        finally:
+            self._in_tx = False
+
+    # -- meta, settings, cache -------------------------------------------------
+    def meta(self, key: str, default: str | None = None) -> str | None:
+        row = self.conn.execute("SELECT value FROM meta WHERE key = ?", (key,)).fetchone()
+        return row[0] if row else default
+
+    def set_meta(self, key: str, value: str) -> None:
+        with self.transaction():
+            self.conn.execute("INSERT OR REPLACE INTO meta(key, value) VALUES (?, ?)", (key, value))
+
+    @property
+    def data_version(self) -> int:
+        return int(self.meta("data_version", "0") or 0)
+
+    def bump_data_version(self) -> int:
+        """Mark every cached result as stale (call inside the changing transaction)."""
+        with self.transaction():
+            new = self.data_version + 1
+            self.conn.execute("UPDATE meta SET value = ? WHERE key = 'data_version'", (str(new),))
+        return new
+
+    def setting(self, key: str, default: Any = None) -> Any:
+        row = self.conn.execute("SELECT value FROM settings WHERE key = ?", (key,)).fetchone()
+        return json.loads(row[0]) if row else default
+
+    def settings(self) -> dict[str, Any]:
+        return {r[0]: json.loads(r[1]) for r in self.conn.execute("SELECT key, value FROM settings ORDER BY key")}
+
+    def set_setting(self, key: str, value: Any) -> None:
+        with self.transaction():
+            self.conn.execute(
+                "INSERT OR REPLACE INTO settings(key, value) VALUES (?, ?)", (key, json.dumps(value, sort_keys=True))
+            )
+            self.bump_data_version()
+
+    def cached(self, key: str) -> Any:
+        """The cached value for ``key`` if it was computed at the current data version."""
+        row = self.conn.execute("SELECT version, data FROM cache WHERE key = ?", (key,)).fetchone()
+        if row is None or row[0] != self.data_version:
+            return None
+        return json.loads(row[1])
+
+    def put_cache(self, key: str, value: Any, version: int | None = None) -> None:
+        with self.transaction():
+            self.conn.execute(
+                "INSERT OR REPLACE INTO cache(key, version, data) VALUES (?, ?, ?)",
+                (key, self.data_version if version is None else version, json.dumps(value)),
+            )
+
+    # -- sources and records ---------------------------------------------------
+    def sources(self) -> list[SourceRow]:
+        rows = self.conn.execute("SELECT * FROM sources ORDER BY id").fetchall()
+        return [SourceRow(dict(r)) for r in rows]
+
+    def source_by_path(self, path: str) -> SourceRow | None:
+        row = self.conn.execute("SELECT * FROM sources WHERE path = ?", (path,)).fetchone()
+        return SourceRow(dict(row)) if row else None
+
+    def replace_source(
+        self,
+        path: str,
+        kind: str,
+        sha256: str,
+        size: int,
+        records: list[tuple[str, Record]],
+        interactions: list[Interaction],
+        *,
+        as_of: str | None,
+        region: str | None,
+        n_skipped: int,
+    ) -> int:
+        """Insert or replace one source with its records and interactions.
+
+        ``records`` pairs each record with its stable key. Must run inside a
+        transaction opened by the caller (the whole import is one transaction).
+        """
+        assert self._in_tx, "replace_source must run inside Store.transaction()"
+        old = self.source_by_path(path)
+        if old is not None:
+            self.conn.execute("DELETE FROM records WHERE source_id = ?", (old["id"],))
+            self.conn.execute("DELETE FROM interactions WHERE source_id = ?", (old["id"],))
+            self.conn.execute(
+                "UPDATE sources SET kind=?, sha256=?, size=?, as_of=?, region=?, imported_at=?, n_records=?, n_skipped=? WHERE id=?",
+                (kind, sha256, size, as_of, region, _now(), len(records) + len(interactions), n_skipped, old["id"]),
+            )
+            source_id = old["id"]
+        else:
+            cur = self.conn.execute(
+                "INSERT INTO sources(path, kind, sha256, size, as_of, region, imported_at, n_records, n_skipped) VALUES (?,?,?,?,?,?,?,?,?)",
+                (path, kind, sha256, size, as_of, region, _now(), len(records) + len(interactions), n_skipped),
+            )
+            source_id = cur.lastrowid
+        self.conn.executemany(
+            "INSERT INTO records(source_id, idx, line, rkey, data) VALUES (?, ?, ?, ?, ?)",
+            ((source_id, r.index, r.line, key, json.dumps(r.to_dict(), ensure_ascii=False)) for key, r in records),
+        )
+        self.conn.executemany(
+            "INSERT INTO interactions(source_id, idx, line, kind, data) VALUES (?, ?, ?, ?, ?)",
+            ((source_id, i.index, i.line, i.kind, json.dumps(i.to_dict(), ensure_ascii=False)) for i in interactions),
+        )
+        self.bump_data_version()
+        return int(source_id)
+
+    def remove_source(self, source_id: int) -> None:
+        with self.transaction():
+            self.conn.execute("DELETE FROM sources WHERE id = ?", (source_id,))
+            self.bump_data_version()
+
+    def records(self) -> list[tuple[int, str, SourceRow, Record]]:
+        """Every stored record as (record id, key, source row, record), in file order."""
+        srcs = {s["id"]: s for s in self.sources()}
+        out = []
+        for rid, sid, rkey, data in self.conn.execute(
+            "SELECT id, source_id, rkey, data FROM records ORDER BY source_id, idx"
+        ):
+            out.append((rid, rkey, srcs[sid], Record.from_dict(json.loads(data))))
+        return out
+
+    def records_by_id(self, ids: list[int]) -> list[tuple[int, str, SourceRow, Record]]:
+        if not ids:
+            return []
+        srcs = {s["id"]: s for s in self.sources()}
+        marks = ",".join("?" * len(ids))
+        rows = self.conn.execute(
+            f"SELECT id, source_id, rkey, data FROM records WHERE id IN ({marks}) ORDER BY source_id, idx", ids
+        )
+        return [(rid, rkey, srcs[sid], Record.from_dict(json.loads(d))) for rid, sid, rkey, d in rows]
+
+    def interactions(self) -> list[Interaction]:
+        return [
+            Interaction.from_dict(json.loads(d))
+            for (d,) in self.conn.execute("SELECT data FROM interactions ORDER BY source_id, idx")
+        ]
+
+    # -- contacts ----------------------------------------------------------------
+    def contact_map(self) -> dict[str, int]:
+        return {k: v for k, v in self.conn.execute("SELECT rkey, contact_id FROM contact_map")}
+
+    def write_contacts(self, contacts: list[Contact], mapping: dict[str, int], next_id: int) -> None:
+        """Replace the derived contacts and the record -> contact map."""
+        with self.transaction():
+            self.conn.execute("DELETE FROM contacts")
+            self.conn.execute("DELETE FROM contact_map")
+            self.conn.executemany(
+                "INSERT INTO contacts(id, name, data) VALUES (?, ?, ?)",
+                ((c.id, c.name, json.dumps(c.to_dict(), ensure_ascii=False)) for c in contacts),
+            )
+            self.conn.executemany("INSERT INTO contact_map(rkey, contact_id) VALUES (?, ?)", mapping.items())
+            self.conn.execute("UPDATE meta SET value = ? WHERE key = 'next_contact_id'", (str(next_id),))
+
+    def contacts(self) -> list[Contact]:
+        return [Contact.from_dict(json.loads(d)) for (d,) in self.conn.execute("SELECT data FROM contacts ORDER BY id")]
+
+    def contact(self, contact_id: int) -> Contact | None:
+        row = self.conn.execute("SELECT data FROM contacts WHERE id = ?", (contact_id,)).fetchone()
+        return Contact.from_dict(json.loads(row[0])) if row else None
+
+    # -- decisions -----------------------------------------------------------------
+    def add_decision(self, kind: str, a: str = "", b: str = "", value: Any = "") -> int:
+        """Record one user decision (an input that no re-import may lose)."""
+        with self.transaction():
+            cur = self.conn.execute(
+                "INSERT INTO decisions(kind, a, b, value, created_at) VALUES (?, ?, ?, ?, ?)",
+                (kind, a, b, json.dumps(value), _now()),
+            )
+            self.bump_data_version()
+        return int(cur.lastrowid)
+
+    def decisions(self, kind: str | None = None) -> list[dict[str, Any]]:
+        sql = "SELECT id, kind, a, b, value, created_at FROM decisions"
+        args: tuple = ()
+        if kind:
+            sql += " WHERE kind = ?"
+            args = (kind,)
+        rows = self.conn.execute(sql + " ORDER BY id", args).fetchall()
+        return [dict(r) | {"value": json.loads(r["value"])} for r in rows]
+
+    def delete_decisions(self, kind: str, a: str | None = None, b: str | None = None) -> int:
+        with self.transaction():
+            sql = "DELETE FROM decisions WHERE kind = ?"
+            args: list[Any] = [kind]
+            if a is not None:
+                sql += " AND a = ?"
+                args.append(a)
+            if b is not None:
+                sql += " AND b = ?"
+                args.append(b)
+            n = self.conn.execute(sql, args).rowcount
+            if n:
+                self.bump_data_version()
+        return n

@@ -1,0 +1,38 @@
+"""The core never imports the user interfaces (DESIGN.md: dependencies point one way)."""
+
+from __future__ import annotations
+
+import pkgutil
+import subprocess
+import sys
+
+import mynet
+
+FORBIDDEN = ("textual", "rich", "click", "typer", "mynet.cli", "mynet.tui")
+
+
+def core_modules() -> list[str]:
+    names = []
+    for info in pkgutil.walk_packages(mynet.__path__, "mynet."):
+        if info.name.startswith(("mynet.cli", "mynet.tui", "mynet.__main__")):
+            continue
+        names.append(info.name)
+    return sorted(names)
+
+
+def test_core_modules_found():
+    mods = core_modules()
+    assert "mynet.store" in mods and "mynet.identity" in mods and "mynet.importers.vcard" in mods
+
+
+def test_core_never_imports_ui_or_cli():
+    code = (
+        "import importlib, sys, json\n"
+        f"bad = {{}}\n"
+        f"for name in {core_modules()!r}:\n"
+        "    importlib.import_module(name)\n"
+        f"hits = sorted(m for m in sys.modules if m.split('.')[0] in {{'textual','rich','click','typer'}} or m.startswith(('mynet.cli','mynet.tui')))\n"
+        "print(json.dumps(hits))\n"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "[]", out.stdout

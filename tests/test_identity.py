@@ -1,0 +1,103 @@
+"""Duplicate merging on invented records, and the user's decisions over it."""
+
+from __future__ import annotations
+
+from mynet.identity import Decisions, Me, StoredRecord, names_compatible, record_keys, resolve, suggest_merges
+from mynet.model import Record
+
+
+def rec(i, name="", emails=(), phones=(), orgs=(), source="a.vcf", uid="", rev=""):
+    return Record(kind="vcard", source=source, index=i, line=i + 1, full_name=name, emails=list(emails),
+                  phones=list(phones), orgs=list(orgs), uid=uid, rev=rev)
+
+
+def stored(records, as_of="2026-01-01", region="GB"):
+    keys = record_keys(records, "src")
+    return [StoredRecord(i + 1, k, r.source, as_of, region, r) for i, (k, r) in enumerate(zip(keys, records))]
+
+
+def test_shared_email_and_phone_merge_across_spellings():
+    rs = stored([
+        rec(0, "Ana Lind", ["Ana.Lind@Quillon.example"]),
+        rec(1, "Lind, Ana", ["ana.lind@quillon.example"], ["07700 900123"]),
+        rec(2, "Ána Lind", [], ["+44 7700 900123"]),
+        rec(3, "Tom Reyes", ["tom@velvane.example"]),
+    ])
+    res = resolve(rs, {}, Decisions(), Me())
+    assert len(res.contacts) == 2
+    ana = next(c for c in res.contacts if "ana.lind@quillon.example" in c.emails)
+    assert len(ana.record_ids) == 3 and ana.phones == ["+447700900123"]
+    assert ana.name == "Ána Lind"  # the spelling with accents keeps more information
+    assert res.auto_merges == 2
+
+
+def test_shared_phone_with_different_names_is_held_back():
+    rs = stored([rec(0, "Ana Lind", phones=["+44 7700 900123"]), rec(1, "Bo Karlsson", phones=["+44 7700 900123"])])
+    res = resolve(rs, {}, Decisions(), Me())
+    assert len(res.contacts) == 2
+    assert len(res.held_back) == 1 and "names differ" in res.held_back[0].reason
+
+
+def test_ids_are_stable_and_decisions_win():
+    rs = stored([rec(0, "Ana Lind", ["ana@q.example"]), rec(1, "A. Lind", ["ana@q.example"]), rec(2, "Bo Ek", ["bo@q.example"])])
+    first = resolve(rs, {}, Decisions(), Me())
+    ids = dict(first.mapping)
+    # Re-resolving with the previous map keeps the ids.
+    again = resolve(rs, ids, Decisions(), Me(), first.next_id)
+    assert again.mapping == ids
+    # Splitting record 1 off Ana is honoured even though they share an e-mail.
+    d = Decisions(different=[(rs[0].key, rs[1].key)])
+    split = resolve(rs, ids, d, Me(), first.next_id)
+    assert split.mapping[rs[0].key] != split.mapping[rs[1].key]
+    assert split.mapping[rs[0].key] == ids[rs[0].key]  # Ana keeps her id
+    # A manual merge joins people who share nothing.
+    d = Decisions(same=[(rs[0].key, rs[2].key)])
+    merged = resolve(rs, ids, d, Me(), first.next_id)
+    assert len({merged.mapping[r.key] for r in rs}) == 1
+
+
+def test_you_are_not_a_contact():
+    rs = stored([rec(0, "Robin Vale", ["you@example.org"]), rec(1, "Robin Vale", ["robin@work.example"], ["+44 7700 900001"]),
+                 rec(2, "Robin V.", [], ["+44 7700 900001"]), rec(3, "Ana Lind", ["ana@q.example"])])
+    res = resolve(rs, {}, Decisions(), Me(emails={"you@example.org"}))
+    assert [c.name for c in res.contacts] == ["Robin Vale", "Ana Lind"] and len(res.me_keys) == 1
+    res = resolve(rs, {}, Decisions(), Me(emails={"you@example.org", "robin@work.example"}))
+    assert len(res.me_keys) == 3 and [c.name for c in res.contacts] == ["Ana Lind"]
+
+
+def test_current_and_past_organisations():
+    rs = [
+        StoredRecord(1, "k1", "old.vcf", "2019-05-01", "", rec(0, "Ana Lind", ["ana@x.example"], orgs=["Corrimont Labs"])),
+        StoredRecord(2, "k2", "new.vcf", "2026-01-01", "", rec(0, "Ana Lind", ["ana@x.example"], orgs=["Quillon Labs Inc."])),
+    ]
+    c = resolve(rs, {}, Decisions(), Me()).contacts[0]
+    assert c.orgs == ["Quillon Labs Inc."] and c.past_orgs == ["Corrimont Labs"]
+
+
+def test_suggestions_need_name_and_org_or_domain_and_respect_rejections():
+    rs = stored([
+        rec(0, "Ana Lind", ["ana@home.example"], orgs=["Quillon Labs"]),
+        rec(1, "Lind, Ana", ["a.lind@other.example"], orgs=["Quillon Labs Ltd"]),
+        rec(2, "Ana Lind", ["ana.lind@gmail.com"], orgs=["Velvane"]),
+        rec(3, "Ana Lind", ["al@gmail.com"], orgs=["Harrowgate"]),
+    ])
+    res = resolve(rs, {}, Decisions(), Me())
+    sugg = suggest_merges(res.contacts)
+    ids = {r.key: res.mapping[r.key] for r in rs}
+    pair = tuple(sorted((ids[rs[0].key], ids[rs[1].key])))
+    assert [(s.a, s.b) for s in sugg] == [pair]  # gmail.com says nothing about an employer
+    assert sugg[0].score == 0.9
+    assert suggest_merges(res.contacts, {pair}) == []
+
+
+def test_names_compatible():
+    assert names_compatible("Ana Lind", "Lind, Ana")
+    assert names_compatible("Ana Lind", "")
+    assert not names_compatible("Ana Lind", "Bo Karlsson")
+
+
+def test_record_keys_stable_under_edits():
+    a = [rec(0, "Ana", ["ana@x.example"]), rec(1, "Bo", ["bo@x.example"])]
+    b = [rec(0, "Bo Ek", ["bo@x.example"], phones=["+44 7700 900555"]), rec(1, "Ana Lind", ["ana@x.example"])]
+    ka, kb = record_keys(a, "f"), record_keys(b, "f")
+    assert ka[0] == kb[1] and ka[1] == kb[0]
