@@ -15,6 +15,7 @@ from ..errors import MynetError
 from ._common import Ctx
 from .contacts import register as _register_contacts
 from .demo import register as _register_demo
+from .network import register as _register_network
 
 __all__ = ["main", "cli"]
 
@@ -35,6 +36,7 @@ def cli(ctx: click.Context, workspace: str | None) -> None:
 
 
 _register_contacts(cli)
+_register_network(cli)
 _register_demo(cli)
 
 

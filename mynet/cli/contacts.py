@@ -40,6 +40,16 @@ def contact_json(c: Contact, extra: dict | None = None) -> dict:
     return out
 
 
+def extra_fields(c: Contact, warmth) -> dict:
+    """Your warmth to a contact and when you last interacted, for ``--json``."""
+    w = warmth.get(c.id)
+    return {
+        "warmth": round(w.warmth, 4) if w else 0.0,
+        "last_interaction": w.last if w else None,
+        "tier": w.tier if w else "none",
+    }
+
+
 def _parse_map(items: tuple[str, ...]) -> dict[str, str]:
     mapping = {}
     for item in items:
@@ -162,12 +172,29 @@ def register(cli: click.Group) -> None:
     @cli.command("contacts")
     @click.option("--search", "search", metavar="TEXT", help="Only people whose name, e-mail, phone, organisation, tag or place contains TEXT.")
     @click.option("--suggested", is_flag=True, help="List possible duplicates to merge or keep apart instead.")
+    @click.option("--unlisted", is_flag=True, help="List people you met or wrote with who are not in your address book.")
+    @click.option("--sort", type=click.Choice(["id", "name", "warmth", "last"]), default="id", show_default=True)
     @click.option("--limit", type=int, default=0, help="Show at most this many.")
     @json_option
     @click.pass_obj
-    def contacts_cmd(obj, search, suggested, limit, as_json):
-        """List the people in your network."""
+    def contacts_cmd(obj, search, suggested, unlisted, sort, limit, as_json):
+        """List the people in your network, with your warmth to each."""
         store = obj.store()
+        if unlisted:
+            from ..network import _me_emails
+            from ..warmth import unlisted_people
+
+            threshold = int((store.setting("warmth_model", {}) or {}).get("unlisted_threshold", 3))
+            people = unlisted_people(store.contacts(), store.interactions(), _me_emails(store), threshold)
+            if as_json:
+                emit_json(people)
+                return
+            if not people:
+                click.echo(f"Nobody outside your address book shows up {threshold} or more times.")
+                return
+            click.echo(table(["seen", "last", "name", "e-mail"], [(p["count"], p["last"], p["name"], p["email"]) for p in people]))
+            note(f"{len(people)} people met {threshold}+ times who are not in your address book")
+            return
         if suggested:
             sugg = merge_suggestions(store)
             names = {c.id: c for c in store.contacts()}
@@ -185,17 +212,27 @@ def register(cli: click.Group) -> None:
         contacts = store.contacts()
         if search:
             contacts = search_contacts(contacts, search)
+        from ..network import load_warmth
+
+        warmth = load_warmth(store)
+        if sort == "name":
+            contacts.sort(key=lambda c: (c.name.casefold(), c.id))
+        elif sort == "warmth":
+            contacts.sort(key=lambda c: (-warmth[c.id].warmth, c.id))
+        elif sort == "last":
+            contacts.sort(key=lambda c: (warmth[c.id].last or "", c.id), reverse=True)
         if limit:
             contacts = contacts[:limit]
         if as_json:
-            emit_json([contact_json(c) for c in contacts])
+            emit_json([contact_json(c, extra_fields(c, warmth)) for c in contacts])
             return
         if not contacts:
             click.echo("No contacts match." if search else "No contacts yet: mynet import FILE...")
             return
-        click.echo(table(["id", "name", "organisation", "e-mail", "sources"], [
+        click.echo(table(["id", "name", "organisation", "warmth", "last seen", "e-mail"], [
             (c.id, c.name, ", ".join(c.orgs) or (f"(was {c.past_orgs[0]})" if c.past_orgs else ""),
-             c.emails[0] if c.emails else (c.phones[0] if c.phones else ""), len(c.sources))
+             f"{warmth[c.id].warmth:.2f}" if warmth[c.id].warmth else "-", warmth[c.id].last or "-",
+             c.emails[0] if c.emails else (c.phones[0] if c.phones else ""))
             for c in contacts
         ]))
         note(f"{len(contacts)} contact(s)")

@@ -53,10 +53,9 @@ _SCALAR = ("uid", "full_name", "given", "family", "additional", "prefix", "suffi
 _LIST = ("nicknames", "emails", "phones", "orgs", "org_units", "titles", "roles", "tags", "notes", "urls", "related")
 _ADDRESS = ("street", "locality", "region", "postcode", "country")
 _ALIASES = {
-    "name": "full_name", "first": "given", "middle": "additional", "last": "family",
-    "nickname": "nicknames", "email": "emails", "phone": "phones", "org": "orgs",
-    "unit": "org_units", "title": "titles", "role": "roles", "tag": "tags",
-    "note": "notes", "url": "urls",
+    "name": "full_name", "first": "given", "middle": "additional", "last": "family", "nickname": "nicknames",
+    "email": "emails", "phone": "phones", "org": "orgs", "unit": "org_units", "title": "titles", "role": "roles",
+    "tag": "tags", "note": "notes", "url": "urls",
 }
 #: Field names accepted by ``--map FIELD=COLUMN`` and in a mapping file.
 MAPPABLE_FIELDS: tuple[str, ...] = tuple(sorted({*_SCALAR, *_LIST, *_ADDRESS, *_ALIASES}))
@@ -79,7 +78,7 @@ _SYNONYM_TEXT: dict[str, str] = {
     "posta elettronica|indirizzo email|emailadres|epost",
     "phones": "phone|phones|telephone|tel|phone number|telephone number|mobile|mobile phone|mobile number|cell|"
     "cell phone|cellphone|fax|pager|telefon|telefonnummer|handy|mobil|mobiltelefon|telephone portable|portable|"
-    "telefono|cellulare|telefone|celular|movil|telefoon|mobiel|gsm|number",
+    "telefono|cellulare|telefone|celular|movil|telefoon|mobiel|gsm",
     "orgs": "company|organisation|organization|org|employer|company name|organisation name|organization name|"
     "org name|current company|current employer|firma|unternehmen|arbeitgeber|entreprise|societe|organisme|"
     "empresa|organizacion|azienda|societa|bedrijf|organisatie|werkgever|organizacao",
@@ -95,16 +94,16 @@ _SYNONYM_TEXT: dict[str, str] = {
     "notes": "notes|note|comments|comment|remarks|remark|description|memo|about|bemerkung|bemerkungen|notiz|"
     "notizen|kommentar|remarques|commentaire|commentaires|notas|nota|comentarios|note personali|opmerkingen|"
     "notities|observacoes",
-    "urls": "website|web site|url|web page|webpage|homepage|home page|web|site|web address|website url|"
-    "profile url|linkedin|linkedin url|profile|webseite|site web|sitio web|pagina web|sito web",
+    "urls": "website|web site|url|web page|webpage|homepage|home page|web|web address|website url|"
+    "profile url|linkedin|linkedin url|webseite|site web|sitio web|pagina web|sito web",
     "locality": "city|town|locality|municipality|village|stadt|ort|wohnort|ville|ciudad|localidad|citta|"
     "plaats|woonplaats|cidade",
     "region": "state|region|province|state province|county|bundesland|provincia|estado|provincie|regione",
     "country": "country|country region|nation|land|pays|pais|paese|staat",
     "street": "address|street|street address|address line|addr|street line|adresse|strasse|anschrift|rue|"
-    "direccion|calle|indirizzo|via|adres|straat|endereco|rua|formatted address|full address|postal address",
+    "direccion|calle|indirizzo|adres|straat|endereco|rua|formatted address|full address|postal address",
     "postcode": "postcode|postal code|zip|zip code|zipcode|post code|plz|postleitzahl|code postal|cp|"
-    "codigo postal|cap|postcode nl|cep",
+    "codigo postal|cap|cep",
     "uid": "uid|unique id|contact uid",
 }
 # Words that qualify a channel ("work phone") and the address type they give.
@@ -132,11 +131,7 @@ _NEWLINE = re.compile(r"\r\n|\r|\n")
 
 
 class _Lines:
-    """Iterate the lines of ``text`` from ``start``, ends kept (``\\r\\n``, ``\\r`` or ``\\n``).
-
-    ``pos`` is the offset of the next line, so a caller knows where a row began.
-    Slicing lazily avoids a second copy of the whole file.
-    """
+    """Lazily iterate the lines of ``text`` from ``start``, ends kept; ``pos`` is the next line's offset."""
 
     def __init__(self, text: str, start: int = 0):
         self.text = text
@@ -201,13 +196,11 @@ def decode_table(data: bytes, path: str) -> tuple[str, str, str]:
         return data.decode("utf-8"), "utf-8", ""
     except UnicodeDecodeError:
         pass
-    for name in ("cp1252", "latin-1"):
-        try:
-            text = data.decode(name)
-        except UnicodeDecodeError:
-            continue
-        return text, name, f"not UTF-8; read as {name} (if names look wrong, export the file again as UTF-8)"
-    raise AssertionError("latin-1 decodes every byte")  # pragma: no cover
+    try:
+        text, encoding = data.decode("cp1252"), "cp1252"
+    except UnicodeDecodeError:
+        text, encoding = data.decode("latin-1"), "latin-1"  # decodes every byte
+    return text, encoding, f"not UTF-8; read as {encoding} (if names look wrong, export the file again as UTF-8)"
 
 
 def detect_delimiter(text: str) -> tuple[str, int, int]:
@@ -286,11 +279,11 @@ def classify_header(header: str) -> tuple[str, str] | None:
         names nothing mynet uses.
     """
     toks = _tokens(header)
-    if not toks or _BLOCK.intersection(toks):
-        return None
     slot = _SYNONYMS.get("".join(toks))
     if slot:
         return slot, ""
+    if not toks or _BLOCK.intersection(toks):
+        return None
     kind = next((_QUALIFIERS[t] for t in toks if _QUALIFIERS.get(t)), "")
     rest = [t for t in toks if t not in _QUALIFIERS]
     if rest and len(rest) < len(toks):
@@ -315,9 +308,11 @@ def _field_slot(field_name: str) -> str | None:
 
 
 def _unknown_field_reason(field_name: str) -> str:
-    if field_name.strip().lower() in _NOT_MAPPABLE:
-        return f"field {field_name.strip()!r} is set by the importer and cannot be mapped to a column; mappable fields are: {', '.join(MAPPABLE_FIELDS)}"
-    return f"unknown field {field_name.strip()!r} in a column mapping; mappable fields are: {', '.join(MAPPABLE_FIELDS)}"
+    fields_list = ", ".join(MAPPABLE_FIELDS)
+    name = field_name.strip()
+    if name.lower() in _NOT_MAPPABLE:
+        return f"field {name!r} is set by the importer and cannot be mapped to a column; mappable fields are: {fields_list}"
+    return f"unknown field {name!r} in a column mapping; mappable fields are: {fields_list}"
 
 
 def load_mapping_file(path: str | Path) -> dict[str, str]:
@@ -349,7 +344,7 @@ def load_mapping_file(path: str | Path) -> dict[str, str]:
         raise InputError(path, f"cannot be read ({exc.strerror})") from exc
     except UnicodeDecodeError as exc:
         raise InputError(path, f"is not UTF-8 text (bad byte at offset {exc.start})") from exc
-    if text.lstrip().startswith("{"):
+    if text.lstrip().startswith(("{", "[")):
         try:
             obj = json.loads(text)
         except json.JSONDecodeError as exc:
@@ -395,11 +390,12 @@ class _Column:
 
 def _plan_columns(header: list[str], mapping: dict[str, str] | None, path: str) -> tuple[list[_Column], list[str]]:
     """Decide which column feeds which slot; return the plan and the unused headers."""
-    plan: list[_Column] = []
+    auto: list[_Column] = []
     for pos, name in enumerate(header):
         found = classify_header(name) if name else None
         if found:
-            plan.append(_Column(pos, *found))
+            auto.append(_Column(pos, *found))
+    chosen: list[_Column] = []
     listed = ", ".join(repr(h) for h in header if h) or "(none)"
     for field_name, column in (mapping or {}).items():
         slot = _field_slot(field_name)
@@ -407,12 +403,11 @@ def _plan_columns(header: list[str], mapping: dict[str, str] | None, path: str) 
             raise InputError(path, _unknown_field_reason(field_name))
         pos = _find_column(header, column)
         if pos is None:
-            raise InputError(path, f"--map {field_name}={column}: no column named {column!r}; the columns are: {listed}")
-        plan = [c for c in plan if c.pos != pos]
-        if slot not in _LIST:
-            plan = [c for c in plan if c.slot != slot]
-        plan.append(_Column(pos, slot))
-    plan.sort(key=lambda c: c.pos)
+            reason = f"--map {field_name}={column}: no column named {column!r}; the columns are: {listed}"
+            raise InputError(path, reason)
+        auto = [c for c in auto if c.pos != pos and (slot in _LIST or c.slot != slot)]
+        chosen.append(_Column(pos, slot))
+    plan = sorted(auto + chosen, key=lambda c: c.pos)
     used = {c.pos for c in plan}
     unused = [h for pos, h in enumerate(header) if h and pos not in used]
     return plan, unused
@@ -429,7 +424,7 @@ def _splitter(slot: str) -> Callable[[str], list[str]]:
     pattern = {
         "tags": r"\s*(?::::|[;,|])\s*",
         "emails": r"\s*(?::::|[;,])\s*",
-        "phones": r"\s*(?::::|;)\s*",
+        
         "urls": r"\s+:::\s+",
     }.get(slot)
     if pattern is None:
@@ -480,7 +475,10 @@ def _has_identity(rec: Record) -> bool:
     return any(getattr(rec, slot) for slot in _IDENTIFYING)
 
 
-def _read_rows(text: str, start: int, delimiter: str, first_line: int, path: str) -> Iterator[tuple[int, list[str], int]]:
+_Row = tuple[int, list[str], int]  # (physical start line, cells, unclosed)
+
+
+def _read_rows(text: str, start: int, delimiter: str, first_line: int, path: str) -> Iterator[_Row]:
     """Yield (physical start line, cells, unclosed) per row; blank lines give [].
 
     ``unclosed`` is 0, or the last line of the file when the row opens a quote
@@ -498,7 +496,7 @@ def _read_rows(text: str, start: int, delimiter: str, first_line: int, path: str
         except _csv.Error as exc:
             raise InputError(path, f"cannot be read as CSV ({exc})", offset + reader.line_num) from exc
         unclosed = 0
-        if lines.pos >= len(text) and '"' in text[row_start:] and _quote_left_open(text[row_start:], delimiter):
+        if lines.pos >= len(text) and text.find('"', row_start) >= 0 and _quote_left_open(text[row_start:], delimiter):
             unclosed = offset + reader.line_num
         yield offset + before + 1, cells, unclosed
 
@@ -543,7 +541,7 @@ def parse_csv(data: bytes, path: str, *, strict: bool = False, mapping: dict[str
         unknown field or column, or no column gives a name, e-mail or phone.
     """
     result = ParseResult(path=path, kind="csv")
-    text, encoding, note = decode_table(data, path)
+    text, _encoding, note = decode_table(data, path)
     if note:
         result.warnings.append(note)
     delimiter, start, first_line = detect_delimiter(text)
@@ -560,7 +558,9 @@ def parse_csv(data: bytes, path: str, *, strict: bool = False, mapping: dict[str
     plan, unused = _plan_columns(header, mapping, path)
     if not any(c.slot in _IDENTIFYING for c in plan):
         found = ", ".join(repr(h) for h in header if h) or "(none)"
-        hint = " The first row looks like data, not column names: add a header row." if any("@" in h for h in header) else ""
+        hint = ""
+        if any("@" in h for h in header):
+            hint = " The first row looks like data, not column names: add a header row."
         raise InputError(
             path,
             f"no column gives a name, e-mail or phone (columns found: {found}).{hint} "
@@ -568,64 +568,62 @@ def parse_csv(data: bytes, path: str, *, strict: bool = False, mapping: dict[str
             header_line,
         )
     if unused:
-        result.warnings.append(f"columns not used: {', '.join(repr(h) for h in unused)} (use --map FIELD=COLUMN to import one)")
-    width = len(header)
-    named_width = max(i for i, h in enumerate(header) if h) + 1
-    splitters = {c.slot: _splitter(c.slot) for c in plan}
-    counter = [0]
-
-    def skip(line: int, reason: str) -> None:
-        if strict:
-            raise RecordError(path, reason, line)
-        result.skipped.append(Skipped(path, line, reason, counter[0]))
-        counter[0] += 1
-
-    while True:
-        chunk = list(islice(rows, _CHUNK_ROWS))
-        if not chunk:
-            break
-        _parse_chunk(chunk, width, named_width, plan, splitters, path, result, skip, counter)
+        names = ", ".join(repr(h) for h in unused)
+        result.warnings.append(f"columns not used: {names} (use --map FIELD=COLUMN to import one)")
+    rows_out = _Rows(header, plan, path, strict, result)
+    while chunk := list(islice(rows, _CHUNK_ROWS)):
+        rows_out.add_chunk(chunk)
     return result
 
 
-def _parse_chunk(chunk, width, named_width, plan, splitters, path, result, skip, counter) -> None:
-    """Turn one chunk of (line, cells) rows into records and skips, in file order."""
-    # Pass 1: equal-width rows go to a frame; ragged or unclosed rows are decided here.
-    verdict: list[tuple[int, str | None]] = []  # (line, reason or None when framed)
-    framed: list[list[str]] = []
-    for line, cells, unclosed in chunk:
-        if not cells:
-            continue
-        if unclosed:
-            verdict.append((line, f"a quote opened in this row is never closed, so lines {line}-{unclosed} were read as one row"))
-            continue
-        if len(cells) > width and not any(c.strip() for c in cells[width:]):
-            cells = cells[:width]
-        if len(cells) < width and len(cells) >= named_width:
-            cells = cells + [""] * (width - len(cells))
-        if len(cells) != width:
-            if any(c.strip() for c in cells):
-                verdict.append((line, f"row has {len(cells)} cells but the header has {named_width}"))
-            continue
-        verdict.append((line, None))
-        framed.append(cells)
-    if not framed and not verdict:
-        return
-    frame = pd.DataFrame(framed, columns=range(width), dtype=object).map(str.strip)
-    non_blank = frame.ne("").any(axis=1).tolist()
-    values = frame.to_numpy().tolist()
-    row = 0
-    for line, reason in verdict:
-        if reason is not None:
-            skip(line, reason)
-            continue
-        cells, keep = values[row], non_blank[row]
-        row += 1
-        if not keep:
-            continue
-        rec = _build_record(cells, plan, splitters, path, counter[0], line)
-        if not _has_identity(rec):
-            skip(line, "row has no name, e-mail or phone")
-            continue
-        result.records.append(rec)
-        counter[0] += 1
+class _Rows:
+    """Turns chunks of (line, cells, unclosed) rows into records and skips, in file order."""
+
+    def __init__(self, header: list[str], plan: list[_Column], path: str, strict: bool, result: ParseResult):
+        self.width = len(header)
+        self.named_width = max(i for i, h in enumerate(header) if h) + 1
+        self.plan, self.path, self.strict, self.result = plan, path, strict, result
+        self.splitters = {c.slot: _splitter(c.slot) for c in plan}
+        self.index = 0
+
+    def skip(self, line: int, reason: str) -> None:
+        if self.strict:
+            raise RecordError(self.path, reason, line)
+        self.result.skipped.append(Skipped(self.path, line, reason, self.index))
+        self.index += 1
+
+    def add_chunk(self, chunk: list[_Row]) -> None:
+        # Ragged and unclosed rows are decided here; rows of the header's width go to one
+        # frame for the column-wise work (strip, blank rows), then become records.
+        width, verdicts, framed = self.width, [], []
+        for line, cells, unclosed in chunk:
+            if unclosed:
+                reason = f"a quote opened in this row is never closed, so lines {line}-{unclosed} were read as one row"
+                verdicts.append((line, reason))
+                continue
+            if len(cells) > width and not any(c.strip() for c in cells[width:]):
+                cells = cells[:width]
+            elif self.named_width <= len(cells) < width:
+                cells = cells + [""] * (width - len(cells))
+            if len(cells) == width:
+                verdicts.append((line, None))
+                framed.append(cells)
+            elif any(c.strip() for c in cells):
+                verdicts.append((line, f"row has {len(cells)} cells but the header has {self.named_width}"))
+        if not verdicts:
+            return
+        frame = pd.DataFrame(framed, columns=range(width), dtype=object).map(str.strip)
+        rows = iter(zip(frame.to_numpy().tolist(), frame.ne("").any(axis=1).tolist()))
+        for line, reason in verdicts:
+            if reason is not None:
+                self.skip(line, reason)
+                continue
+            cells, non_blank = next(rows)
+            if not non_blank:
+                continue
+            rec = _build_record(cells, self.plan, self.splitters, self.path, self.index, line)
+            if not _has_identity(rec):
+                self.skip(line, "row has no name, e-mail or phone")
+                continue
+            self.result.records.append(rec)
+            self.index += 1

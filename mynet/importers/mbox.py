@@ -58,7 +58,7 @@ _HEADER_LINE = re.compile(rb"[!-9;-~]+[ \t]*:")
 _ENVELOPE = re.compile(rb"From \S+[ \t]+(?:Mon|Tue|Wed|Thu|Fri|Sat|Sun)\b")
 _BLANK_LINE = re.compile(rb"\n\r?\n")
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
-_ENCODED_WORD = re.compile(r"=\?[^?\s]+\?[qQbB]\?[^?\s]*\?=(?:[ \t]+(?==\?[^?\s]+\?[qQbB]\?))?")
+_ENCODED_WORD = re.compile(r"=\?[^?\s]+\?[qQbB]\?[^?\s]*\?=")
 _MSG_ID = re.compile(r"<\s*([^<>\s]+?)\s*>")
 _ADDRESS = re.compile(r"[^\s@<>,;:\"]+@[^\s@<>,;:\"]+")
 _PARSER = BytesHeaderParser(policy=compat32)
@@ -98,12 +98,22 @@ def _decode_part(raw: bytes | str, charset: str | None) -> str:
         return raw.decode("cp1252", errors="replace")
 
 
-def _decode_one(match: re.Match[str]) -> str:
-    word = match.group(0).rstrip(" \t")
-    try:
-        return "".join(_decode_part(raw, cs) for raw, cs in decode_header(word))
-    except (HeaderParseError, ValueError, LookupError, UnicodeError):
-        return match.group(0)
+def _decode_each(text: str) -> str:
+    """Decode encoded words one at a time, keeping malformed ones as written."""
+    out: list[str] = []
+    pos, previous_ok = 0, False
+    for match in _ENCODED_WORD.finditer(text):
+        gap, word = text[pos : match.start()], match.group(0)
+        try:
+            decoded = "".join(_decode_part(raw, cs) for raw, cs in decode_header(word))
+        except (HeaderParseError, ValueError, LookupError, UnicodeError):
+            decoded = None
+        if not (previous_ok and decoded is not None and not gap.strip()):
+            out.append(gap)  # whitespace between two good words goes (RFC 2047 6.2)
+        out.append(word if decoded is None else decoded)
+        pos, previous_ok = match.end(), decoded is not None
+    out.append(text[pos:])
+    return "".join(out)
 
 
 def decode_words(text: str) -> str:
@@ -131,7 +141,7 @@ def decode_words(text: str) -> str:
     except (HeaderParseError, ValueError, LookupError, UnicodeError):
         # One bad word spoils decode_header for the whole value: decode the
         # words one at a time, keeping the bad ones as written.
-        return _ENCODED_WORD.sub(_decode_one, text)
+        return _decode_each(text)
 
 
 def _squash(text: str) -> str:
@@ -353,7 +363,7 @@ def _message(
     if defects:
         notes.add("a line in the header block that is not a header field; the fields after it are ignored", line)
     senders, bad_from = _addresses(fields.get("from", []))
-    recipients, bad_to = _addresses(fields.get("to", []) + fields.get("cc", []))
+    recipients, bad_to = _addresses(fields.get("to", []) + fields.get("cc", []) + fields.get("bcc", []))
     if bad_from or bad_to:
         notes.add("an address that is not an e-mail address, left out", line)
     if not senders and not recipients:

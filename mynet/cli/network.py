@@ -1,0 +1,153 @@
+"""Commands about ties and warmth: ties, why, tie, untie, rate, settings."""
+
+from __future__ import annotations
+
+import click
+import numpy as np
+
+from ..errors import MynetError
+from ..network import describe, evidence_summary, explain_tie, load_network
+from ..workspace import find_contact
+from ..workspace_ties import SETTING_GROUPS, add_tie, rate_contact, remove_tie, update_settings
+from ._common import emit_json, json_option, note, table
+
+
+def register(cli: click.Group) -> None:
+    @cli.command("ties")
+    @click.option("--all", "show_all", is_flag=True, help="Every pair with any evidence, however weak (no threshold, no backbone filter).")
+    @click.option("--of", "of", metavar="WHO", help="Only the ties of this person.")
+    @click.option("--limit", type=int, default=30, show_default=True, help="Show at most this many (0: all).")
+    @json_option
+    @click.pass_obj
+    def ties_cmd(obj, show_all, of, limit, as_json):
+        """List inferred ties between your contacts, strongest first."""
+        store = obj.store()
+        net = load_network(store)
+        t = net.all_ties if show_all else net.ties
+        order = t.order()
+        if of:
+            cid = find_contact(store, of).id
+            order = order[(t.a[order] == cid) | (t.b[order] == cid)]
+        total = len(order)
+        if limit and not as_json:
+            order = order[:limit]
+        if as_json:
+            emit_json([
+                {"a": int(t.a[i]), "b": int(t.b[i]), "strength": round(float(t.strength[i]), 4),
+                 "evidence": evidence_summary(net, int(i), t)}
+                for i in order
+            ])
+            return
+        if not total:
+            click.echo("No ties yet: import exports that share organisations, tags, meetings or mail threads.")
+            return
+        click.echo(table(["strength", "between", "and", "why"], [
+            (f"{t.strength[i]:.2f}", f"{net.name(int(t.a[i]))} ({t.a[i]})", f"{net.name(int(t.b[i]))} ({t.b[i]})",
+             "; ".join(describe(e) for e in evidence_summary(net, int(i), t)))
+            for i in order
+        ]))
+        note(f"{len(order)} of {total} ties shown" + ("" if show_all else f" (strength >= {net.model.min_strength}; --all for every pair)"))
+
+    @cli.command("why")
+    @click.argument("a")
+    @click.argument("b")
+    @json_option
+    @click.pass_obj
+    def why_cmd(obj, a, b, as_json):
+        """Explain why mynet thinks two people know each other, evidence by evidence."""
+        store = obj.store()
+        ca, cb = find_contact(store, a), find_contact(store, b)
+        if ca.id == cb.id:
+            raise MynetError(f"{a!r} and {b!r} are the same person ({ca.name})")
+        net = load_network(store)
+        ex = explain_tie(store, net, ca.id, cb.id)
+        if as_json:
+            emit_json(ex)
+            return
+        click.echo(f"{ca.name} ({ca.id}) and {cb.name} ({cb.id}): strength {ex['strength']:.2f}"
+                   + ("" if ex["in_graph"] or not ex["strength"] else " (below the threshold, not in the graph)"))
+        if not ex["evidence"]:
+            click.echo("  No evidence that they know each other.")
+            click.echo(f"  If they do: mynet tie {ca.id} {cb.id} --note \"how they know each other\"")
+            return
+        for ev in ex["evidence"]:
+            line = describe(ev)
+            if ev.get("provenance") and isinstance(ev["provenance"], list):
+                line += " per " + ", ".join(ev["provenance"][:6]) + ("..." if len(ev["provenance"]) > 6 else "")
+            click.echo(f"  - {line}")
+            for r in ev.get("recent", []):
+                click.echo(f"      {r['date']}  {r.get('title') or r.get('subject') or ''}  ({r['provenance']})")
+        if ex["contributions"]:
+            parts = ", ".join(f"{k} {v:.2f}" for k, v in ex["contributions"].items())
+            click.echo(f"  How the strength adds up: {parts}; combined as 1 - product of (1 - each) = {ex['strength']:.2f}")
+        if ex["suppressed"]:
+            click.echo("  You suppressed this tie (mynet tie A B brings it back).")
+
+    @cli.command("tie")
+    @click.argument("a")
+    @click.argument("b")
+    @click.option("--note", default="", help="How they know each other.")
+    @click.option("--strength", type=float, default=None, help="How strong the tie is, 0-1 (default 0.8).")
+    @click.pass_obj
+    def tie_cmd(obj, a, b, note, strength):
+        """Add a tie you know of between two contacts (kept across re-imports)."""
+        store = obj.store()
+        ca, cb = find_contact(store, a), find_contact(store, b)
+        add_tie(store, ca.id, cb.id, note, strength)
+        click.echo(f"Tie added: {ca.name} - {cb.name}")
+
+    @cli.command("untie")
+    @click.argument("a")
+    @click.argument("b")
+    @click.pass_obj
+    def untie_cmd(obj, a, b):
+        """Suppress a wrong tie between two contacts (kept across re-imports)."""
+        store = obj.store()
+        ca, cb = find_contact(store, a), find_contact(store, b)
+        remove_tie(store, ca.id, cb.id)
+        click.echo(f"Tie suppressed: {ca.name} - {cb.name}")
+
+    @cli.command("rate")
+    @click.argument("who")
+    @click.argument("closeness", required=False)
+    @click.option("--clear", is_flag=True, help="Forget your rating; warmth comes from interactions again.")
+    @click.pass_obj
+    def rate_cmd(obj, who, closeness, clear):
+        """Set your own closeness to a person, from 0 (distant) to 1 (closest)."""
+        store = obj.store()
+        c = find_contact(store, who)
+        if clear:
+            rate_contact(store, c.id, None)
+            click.echo(f"Rating cleared for {c.name}")
+            return
+        if closeness is None:
+            raise MynetError("give a closeness between 0 and 1, or --clear")
+        try:
+            value = float(closeness)
+        except ValueError as exc:
+            raise MynetError(f"closeness must be a number between 0 and 1, got {closeness!r}") from exc
+        rate_contact(store, c.id, value)
+        click.echo(f"{c.name}: closeness {value:.2f}")
+
+    @cli.command("settings")
+    @click.argument("assignment", required=False, metavar="[GROUP.KEY=VALUE]")
+    @json_option
+    @click.pass_obj
+    def settings_cmd(obj, assignment, as_json):
+        """Show or change the model settings (e.g. tie_model.broadcast_cap=40)."""
+        store = obj.store()
+        if assignment:
+            if "=" not in assignment or "." not in assignment.split("=", 1)[0]:
+                raise MynetError("write the change as GROUP.KEY=VALUE, e.g. warmth_model.half_life_days=90")
+            lhs, value = assignment.split("=", 1)
+            group, key = lhs.strip().split(".", 1)
+            update_settings(store, group, key.strip(), value.strip())
+        data = {}
+        for group, cls in SETTING_GROUPS.items():
+            data[group] = cls().__dict__ | (store.setting(group, {}) or {})
+        if as_json:
+            emit_json(data)
+            return
+        for group, values in data.items():
+            for k, v in values.items():
+                click.echo(f"{group}.{k} = {v}")

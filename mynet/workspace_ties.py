@@ -1,0 +1,74 @@
+"""Workspace operations on ties and warmth: manual ties, suppressed ties, ratings, settings."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from .errors import MynetError
+from .network import anchor_key
+from .store import Store
+from .ties import TieModel
+from .warmth import WarmthModel
+
+__all__ = ["add_tie", "remove_tie", "rate_contact", "update_settings", "SETTING_GROUPS"]
+
+SETTING_GROUPS = {"tie_model": TieModel, "warmth_model": WarmthModel}
+
+
+def _pair_keys(store: Store, a: int, b: int) -> tuple[str, str]:
+    if a == b:
+        raise MynetError("a tie needs two different people")
+    return anchor_key(store, a), anchor_key(store, b)
+
+
+def add_tie(store: Store, a: int, b: int, note: str = "", strength: float | None = None) -> None:
+    """Say that two contacts know each other (kept across re-imports)."""
+    if strength is not None and not 0 < strength <= 1:
+        raise MynetError("a tie's strength is between 0 (exclusive) and 1")
+    ka, kb = _pair_keys(store, a, b)
+    with store.transaction():
+        store.delete_decisions("untie", ka, kb)
+        store.delete_decisions("untie", kb, ka)
+        store.delete_decisions("tie", ka, kb)
+        store.delete_decisions("tie", kb, ka)
+        store.add_decision("tie", ka, kb, {"note": note, "strength": strength})
+
+
+def remove_tie(store: Store, a: int, b: int) -> None:
+    """Suppress the tie between two contacts, whatever the evidence says (kept across re-imports)."""
+    ka, kb = _pair_keys(store, a, b)
+    with store.transaction():
+        for kind in ("tie", "untie"):
+            store.delete_decisions(kind, ka, kb)
+            store.delete_decisions(kind, kb, ka)
+        store.add_decision("untie", ka, kb, None)
+
+
+def rate_contact(store: Store, cid: int, value: float | None) -> None:
+    """Set (or, with None, clear) your own closeness to a contact, 0-1."""
+    if value is not None and not 0 <= value <= 1:
+        raise MynetError("a rating is between 0 (not close) and 1 (closest)")
+    key = anchor_key(store, cid)
+    with store.transaction():
+        store.delete_decisions("rate", key)
+        store.add_decision("rate", key, "", value)
+
+
+def update_settings(store: Store, group: str, key: str, value: str) -> dict[str, Any]:
+    """Change one model setting (``tie_model.meeting_scale = 3``); returns the new settings."""
+    if group not in SETTING_GROUPS:
+        raise MynetError(f"unknown settings group {group!r}; choose from {', '.join(SETTING_GROUPS)}")
+    cls = SETTING_GROUPS[group]
+    defaults = cls().__dict__
+    if key not in defaults:
+        raise MynetError(f"unknown setting {group}.{key}; known: {', '.join(sorted(defaults))}")
+    try:
+        parsed = type(defaults[key])(float(value)) if isinstance(defaults[key], (int, float)) else value
+    except ValueError as exc:
+        raise MynetError(f"{group}.{key} takes a number, got {value!r}") from exc
+    if isinstance(parsed, (int, float)) and parsed < 0:
+        raise MynetError(f"{group}.{key} cannot be negative")
+    current = dict(store.setting(group, {}) or {})
+    current[key] = parsed
+    store.set_setting(group, current)
+    return current
