@@ -36,6 +36,7 @@ __all__ = [
     "resolve",
     "suggest_merges",
     "names_compatible",
+    "canonical_orgs",
 ]
 
 
@@ -169,6 +170,12 @@ def names_compatible(a: str, b: str) -> bool:
     return fuzz.token_set_ratio(" ".join(na), " ".join(nb)) >= 80
 
 
+def _norm_uid(uid: str) -> str:
+    """UIDs compare without case and without a ``urn:uuid:`` prefix (RFC 6350 §6.7.6 allows both forms)."""
+    u = uid.strip().lower()
+    return u[9:] if u.startswith("urn:uuid:") else u
+
+
 def _norm_emails(r: Record) -> list[str]:
     return [e for e in (normalise_email(x) for x in r.emails) if e]
 
@@ -184,6 +191,7 @@ def resolve(
     me: Me,
     next_id: int = 1,
     default_region: str = "",
+    org_aliases: dict[str, str] | None = None,
 ) -> Resolution:
     """Merge records into contacts.
 
@@ -200,6 +208,10 @@ def resolve(
         The user's own addresses and names: matching records become "you".
     next_id : int
         The next unused contact id (ids are never reused after a person is forgotten).
+    default_region : str
+        Country for phone numbers written without one, when their source has none.
+    org_aliases : dict, optional
+        The user's organisation aliases (alias -> canonical name).
     """
     n = len(stored)
     uf = _Clusters(n)
@@ -216,8 +228,9 @@ def resolve(
     phones = [_norm_phones(s.record, s.region or default_region) for s in stored]
     by_key: dict[str, list[int]] = defaultdict(list)
     for i, s in enumerate(stored):
-        if s.record.uid.strip():
-            by_key["uid:" + s.record.uid.strip()].append(i)
+        uid = _norm_uid(s.record.uid)
+        if uid:
+            by_key["uid:" + uid].append(i)
         for e in emails[i]:
             by_key["email:" + e].append(i)
         for p in phones[i]:
@@ -270,11 +283,12 @@ def resolve(
             next_id += 1
     next_id = max([next_id, *[i + 1 for i in taken]]) if taken else next_id
 
+    orgmap = canonical_orgs((o for s in stored for o in s.record.orgs), org_aliases)
     contacts = []
     mapping: dict[str, int] = {}
     for k, members in enumerate(people):
         cid = int(ids[k])  # type: ignore[arg-type]
-        contacts.append(_build_contact(cid, [stored[i] for i in members], emails, phones, members))
+        contacts.append(_build_contact(cid, [stored[i] for i in members], emails, phones, members, orgmap))
         for i in members:
             mapping[stored[i].key] = cid
     contacts.sort(key=lambda c: c.id)
@@ -285,6 +299,43 @@ def resolve(
         if ci and cj and ci != cj:
             suggestions.append(Suggestion(min(ci, cj), max(ci, cj), 0.5, reason))
     return Resolution(contacts, mapping, me_keys, next_id, auto, suggestions)
+
+
+def canonical_orgs(names: Iterable[str], aliases: dict[str, str] | None = None) -> dict[str, str]:
+    """Map every organisation spelling to one display name per organisation.
+
+    Spellings that fold to the same text (case, accents, punctuation, legal
+    forms) are one organisation, shown with the most frequent spelling. A name
+    whose words begin exactly one longer name ("Quillon" and "Quillon Labs") is
+    taken as a short form of it; when two longer names start the same way
+    ("Corrimont Labs", "Corrimont Bank") the short form is left alone. The
+    user's aliases (folded alias -> display name) come first.
+
+    Returns
+    -------
+    dict
+        folded name -> display name of its organisation.
+    """
+    counts: Counter[str] = Counter(n.strip() for n in names if n and n.strip())
+    spellings: dict[str, Counter[str]] = defaultdict(Counter)
+    for name, k in counts.items():
+        folded = normalise_org(name)
+        if folded:
+            spellings[folded][name] += k
+    display = {f: max(c, key=lambda s: (c[s], not s.isupper(), -len(s), s)) for f, c in spellings.items()}
+    out = dict(display)
+    tokens = {f: f.split() for f in display}
+    for short, st in tokens.items():
+        longer = [f for f, ft in tokens.items() if len(ft) > len(st) and ft[: len(st)] == st]
+        if len(longer) == 1:
+            out[short] = display[longer[0]]
+    for alias, target in (aliases or {}).items():
+        folded_alias, folded_target = normalise_org(alias), normalise_org(target)
+        out[folded_alias] = display.get(folded_target, target)
+        for f, d in list(out.items()):
+            if normalise_org(d) == folded_alias:
+                out[f] = out[folded_alias]
+    return out
 
 
 def _pick_name(stored: list[StoredRecord]) -> str:
@@ -321,7 +372,7 @@ def _unique(items: Iterable[str]) -> list[str]:
     return list(seen)
 
 
-def _build_contact(cid: int, stored: list[StoredRecord], emails, phones, members) -> Contact:
+def _build_contact(cid: int, stored: list[StoredRecord], emails, phones, members, orgmap: dict[str, str]) -> Contact:
     """One contact from its records: union of values, current and past organisations.
 
     An organisation counts as *current* when it appears on a record of the
@@ -338,10 +389,12 @@ def _build_contact(cid: int, stored: list[StoredRecord], emails, phones, members
     for s in sorted(with_orgs, key=when, reverse=True):
         for org in s.record.orgs:
             norm = normalise_org(org)
+            name = orgmap.get(norm, org.strip())
+            norm = normalise_org(name)
             if not norm or norm in seen_norm:
                 continue
-            seen_norm[norm] = org
-            (current if when(s) == newest else past).append(org.strip())
+            seen_norm[norm] = name
+            (current if when(s) == newest else past).append(name)
     email_counts: Counter[str] = Counter(e for i in members for e in emails[i])
     phone_list = _unique(p for i in members for p in phones[i])
     raw_phones = _unique(

@@ -229,6 +229,7 @@ def refresh_contacts(store: Store) -> Resolution:
             get_me(store),
             int(store.meta("next_contact_id", "1") or 1),
             default_region=store.setting("region", "") or "",
+            org_aliases=store.setting("org_aliases", {}) or {},
         )
         store.write_contacts(res.contacts, res.mapping, res.next_id)
         store.set_meta("held_back", json.dumps([s.__dict__ for s in res.held_back]))

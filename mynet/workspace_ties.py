@@ -10,7 +10,7 @@ from .store import Store
 from .ties import TieModel
 from .warmth import WarmthModel
 
-__all__ = ["add_tie", "remove_tie", "rate_contact", "update_settings", "SETTING_GROUPS"]
+__all__ = ["add_tie", "remove_tie", "rate_contact", "update_settings", "update_list_setting", "SETTING_GROUPS", "LIST_SETTINGS"]
 
 SETTING_GROUPS = {"tie_model": TieModel, "warmth_model": WarmthModel}
 
@@ -52,6 +52,39 @@ def rate_contact(store: Store, cid: int, value: float | None) -> None:
     with store.transaction():
         store.delete_decisions("rate", key)
         store.add_decision("rate", key, "", value)
+
+
+LIST_SETTINGS = {
+    "webmail_domains": "mail domains that say nothing about an employer, besides the built-in list",
+    "org_aliases": "organisation aliases, ALIAS=NAME pairs",
+}
+
+
+def update_list_setting(store: Store, name: str, value: str) -> Any:
+    """Set ``webmail_domains`` (comma-separated) or ``org_aliases`` (``A=B`` pairs, comma-separated).
+
+    A leading ``+`` adds to the current value instead of replacing it.
+    """
+    from .workspace import refresh_contacts
+
+    add = value.startswith("+")
+    items = [v.strip() for v in value.lstrip("+").split(",") if v.strip()]
+    if name == "webmail_domains":
+        current = list(store.setting(name, []) or []) if add else []
+        new: Any = sorted({*current, *(i.lower().lstrip("@") for i in items)})
+    elif name == "org_aliases":
+        new = dict(store.setting(name, {}) or {}) if add else {}
+        for item in items:
+            if "=" not in item:
+                raise MynetError(f"an organisation alias is written ALIAS=NAME, got {item!r}")
+            alias, target = item.split("=", 1)
+            new[alias.strip()] = target.strip()
+    else:
+        raise MynetError(f"unknown setting {name!r}; known lists: {', '.join(LIST_SETTINGS)}")
+    with store.transaction():
+        store.set_setting(name, new)
+        refresh_contacts(store)
+    return new
 
 
 def update_settings(store: Store, group: str, key: str, value: str) -> dict[str, Any]:

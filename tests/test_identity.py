@@ -101,3 +101,14 @@ def test_record_keys_stable_under_edits():
     b = [rec(0, "Bo Ek", ["bo@x.example"], phones=["+44 7700 900555"]), rec(1, "Ana Lind", ["ana@x.example"])]
     ka, kb = record_keys(a, "f"), record_keys(b, "f")
     assert ka[0] == kb[1] and ka[1] == kb[0]
+
+
+def test_canonical_orgs_short_forms_and_aliases():
+    from mynet.identity import canonical_orgs
+
+    m = canonical_orgs(["Quillon Labs", "Quillon Labs Ltd", "Quillon", "QUILLON LABS", "Corrimont Labs", "Corrimont Bank",
+                        "Corrimont", "Velvane Robotics GmbH"])
+    assert m["quillon"] == "Quillon Labs" and m["quillon labs"] == "Quillon Labs"
+    assert m["corrimont"] == "Corrimont"  # two longer names start the same way: left alone
+    m = canonical_orgs(["Velvane Robotics", "VR"], {"VR": "Velvane Robotics"})
+    assert m["vr"] == "Velvane Robotics"

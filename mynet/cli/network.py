@@ -8,7 +8,7 @@ import numpy as np
 from ..errors import MynetError
 from ..network import describe, evidence_summary, explain_tie, load_network
 from ..workspace import find_contact
-from ..workspace_ties import SETTING_GROUPS, add_tie, rate_contact, remove_tie, update_settings
+from ..workspace_ties import LIST_SETTINGS, SETTING_GROUPS, add_tie, rate_contact, remove_tie, update_list_setting, update_settings
 from ._common import emit_json, json_option, note, table
 
 
@@ -130,24 +130,37 @@ def register(cli: click.Group) -> None:
         click.echo(f"{c.name}: closeness {value:.2f}")
 
     @cli.command("settings")
-    @click.argument("assignment", required=False, metavar="[GROUP.KEY=VALUE]")
+    @click.argument("assignment", required=False, metavar="[NAME=VALUE]")
     @json_option
     @click.pass_obj
     def settings_cmd(obj, assignment, as_json):
-        """Show or change the model settings (e.g. tie_model.broadcast_cap=40)."""
+        """Show or change settings: tie_model.broadcast_cap=40, webmail_domains=+mail.example, org_aliases=+QL=Quillon Labs."""
         store = obj.store()
         if assignment:
-            if "=" not in assignment or "." not in assignment.split("=", 1)[0]:
-                raise MynetError("write the change as GROUP.KEY=VALUE, e.g. warmth_model.half_life_days=90")
+            if "=" not in assignment:
+                raise MynetError("write the change as NAME=VALUE, e.g. warmth_model.half_life_days=90")
             lhs, value = assignment.split("=", 1)
-            group, key = lhs.strip().split(".", 1)
-            update_settings(store, group, key.strip(), value.strip())
+            lhs = lhs.strip()
+            if lhs in LIST_SETTINGS:
+                update_list_setting(store, lhs, value.strip())
+            elif "." in lhs:
+                group, key = lhs.split(".", 1)
+                update_settings(store, group, key.strip(), value.strip())
+            else:
+                raise MynetError(f"unknown setting {lhs!r}; see mynet settings")
         data = {}
         for group, cls in SETTING_GROUPS.items():
             data[group] = cls().__dict__ | (store.setting(group, {}) or {})
+        for name in LIST_SETTINGS:
+            data[name] = store.setting(name, [] if name == "webmail_domains" else {}) or ([] if name == "webmail_domains" else {})
         if as_json:
             emit_json(data)
             return
         for group, values in data.items():
-            for k, v in values.items():
-                click.echo(f"{group}.{k} = {v}")
+            if isinstance(values, dict) and group in SETTING_GROUPS:
+                for k, v in values.items():
+                    click.echo(f"{group}.{k} = {v}")
+            elif isinstance(values, dict):
+                click.echo(f"{group} = " + (", ".join(f"{k}={v}" for k, v in values.items()) or "(none)"))
+            else:
+                click.echo(f"{group} = " + (", ".join(values) or "(none)"))

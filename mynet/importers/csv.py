@@ -424,7 +424,7 @@ def _splitter(slot: str) -> Callable[[str], list[str]]:
     pattern = {
         "tags": r"\s*(?::::|[;,|])\s*",
         "emails": r"\s*(?::::|[;,])\s*",
-        
+        "phones": r"\s*(?::::|;)\s*",
         "urls": r"\s+:::\s+",
     }.get(slot)
     if pattern is None:

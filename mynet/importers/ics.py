@@ -11,6 +11,7 @@ from __future__ import annotations
 import datetime as dt
 import hashlib
 import io
+import math
 import re
 import warnings
 import zoneinfo
@@ -35,6 +36,11 @@ _FREQ_SECONDS = {
     "YEARLY": 365 * 86400, "MONTHLY": 28 * 86400, "WEEKLY": 7 * 86400, "DAILY": 86400,
     "HOURLY": 3600, "MINUTELY": 60, "SECONDLY": 1,
 }
+_BY_RANGES = {  # RFC 5545 section 3.3.10 (absolute values; BYMONTH, BYHOUR... may not be negative)
+    "BYMONTH": (1, 12), "BYMONTHDAY": (1, 31), "BYYEARDAY": (1, 366), "BYWEEKNO": (1, 53),
+    "BYHOUR": (0, 23), "BYMINUTE": (0, 59), "BYSECOND": (0, 60), "BYSETPOS": (1, 366),
+}
+_SIGNED = {"BYMONTHDAY", "BYYEARDAY", "BYWEEKNO", "BYSETPOS"}
 #: A recurrence that would step through more periods than this up to today is not
 #: expanded (dateutil walks every period, even those that yield nothing).
 MAX_PERIODS = 100_000
@@ -171,6 +177,8 @@ def _parse_moment(text: str, params: dict, zones: _Zones) -> _Moment:
         raise _EventError(f"{text.strip()!r} is not an iCalendar date or date-time")
     year, month, day, hour, minute, second, zulu = m.groups()
     kinds = [v.upper() for v in params.get("VALUE", [])]
+    if not 2 <= int(year) <= 9997:  # leaves room for any UTC offset
+        raise _EventError(f"{text.strip()!r} is outside the years 0002-9997")
     try:
         if hour is None or "DATE" in kinds:
             return _Moment(dt.datetime(int(year), int(month), int(day)), None, True)
@@ -191,31 +199,37 @@ def _moments(line: ContentLine, zones: _Zones) -> list[_Moment]:
 
 def _rule(text: str, start: _Moment, cutoff: dt.datetime) -> du_rrule.rrule:
     """A dateutil rule in the event's wall-clock time, ending at ``cutoff`` at the latest."""
-    keep, until = [], None
+    fields: dict[str, str] = {}  # a repeated part: the last one counts
     for part in text.strip().removeprefix("RRULE:").split(";"):
         key, _, value = part.partition("=")
-        key = key.strip().upper()
-        if not key:
-            continue
-        if key == "UNTIL":
-            until = value.strip()
-        else:
-            keep.append(f"{key}={value.strip().upper()}")
-    spec = ";".join(keep)
+        if key.strip():
+            fields[key.strip().upper()] = value.strip().upper()
+    until = fields.pop("UNTIL", None)
+    spec = ";".join(f"{k}={v}" for k, v in fields.items())
     try:
         rule = du_rrule.rrulestr(spec, dtstart=start.value)
     except (ValueError, TypeError, KeyError, IndexError, OverflowError) as exc:
         raise _EventError(f"RRULE {text.strip()!r} cannot be read ({exc})") from exc
-    freq = re.search(r"FREQ=([A-Z]+)", spec)
-    interval = re.search(r"INTERVAL=(\d+)", spec)
-    step = _FREQ_SECONDS.get(freq.group(1) if freq else "", 86400) * max(int(interval.group(1)) if interval else 1, 1)
+    for key, (low, high) in _BY_RANGES.items():
+        for item in filter(None, fields.get(key, "").split(",")):
+            number = item.lstrip("+-")
+            if not number.isdigit() or not low <= int(number) <= high or (item[0] == "-" and key not in _SIGNED):
+                raise _EventError(f"RRULE {text.strip()!r} cannot be read ({key}={item} is out of range)")
+    interval = fields.get("INTERVAL", "1")
+    if not (interval.isdigit() and int(interval) >= 1):
+        raise _EventError(f"RRULE {text.strip()!r} cannot be read (INTERVAL must be a positive integer)")
+    step = _FREQ_SECONDS.get(fields.get("FREQ", ""), 86400) * int(interval)
     periods = (cutoff - start.value).total_seconds() / step
     if periods > MAX_PERIODS:
         raise _EventError(
             f"RRULE {text.strip()!r} steps through {periods:,.0f} periods up to today "
             f"(more than {MAX_PERIODS:,}); too fine a recurrence to be a meeting"
         )
+    if _never_occurs(rule, fields, start.value, step):
+        raise _EventError(f"RRULE {text.strip()!r} never occurs")
     end = cutoff
+    if until and until[:4].isdigit() and int(until[:4]) > 9997:
+        until = None  # "until the end of time": today's cutoff is earlier anyway
     if until:
         try:
             limit = _parse_moment(until, {}, _Zones([], []))
@@ -236,6 +250,48 @@ def _rule(text: str, start: _Moment, cutoff: dt.datetime) -> du_rrule.rrule:
             return rule
 
 
+def _never_occurs(rule: du_rrule.rrule, fields: dict[str, str], start: dt.datetime, step: int) -> bool:
+    """True when a rule with BY* filters yields nothing, probed in the last 400 years before 9999.
+
+    dateutil checks UNTIL only on dates that pass the filters, so an impossible
+    rule (``FREQ=DAILY;BYMONTH=2;BYMONTHDAY=30``) walks every period up to year
+    9999. The probe starts a whole number of intervals later, which keeps the
+    rule's lattice (for months and years: a multiple of 400 years, the Gregorian
+    cycle, so the start date stays valid), and so it ends quickly.
+    """
+    if not any(key.startswith("BY") for key in fields):
+        return False
+    last = dt.MAXYEAR - 400
+    freq = fields.get("FREQ", "")
+    if freq in ("MONTHLY", "YEARLY"):
+        months = int(fields.get("INTERVAL", "1")) * (12 if freq == "YEARLY" else 1)
+        years = math.lcm(months, 4800) // 12
+        probe_start = start.replace(year=start.year + max((last - start.year) // years, 0) * years)
+    else:
+        periods = max(int((dt.datetime(last, 1, 1) - start).total_seconds() // step), 0)
+        probe_start = start + dt.timedelta(seconds=periods * step)
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            probe = rule.replace(dtstart=probe_start, until=None, count=1)
+        return next(iter(probe), None) is None
+    except (ValueError, OverflowError, TypeError, IndexError) as exc:
+        raise _EventError(f"RRULE cannot be expanded ({exc})") from exc
+
+
+def _expand(text: str, start: _Moment, cutoff: dt.datetime) -> tuple[list[dt.datetime], bool]:
+    """The starts one RRULE/EXRULE gives up to ``cutoff``, and whether MAX_GENERATED cut them."""
+    out: list[dt.datetime] = []
+    try:
+        for when in _rule(text, start, cutoff):
+            if len(out) >= MAX_GENERATED:
+                return out, True
+            out.append(when)
+    except (ValueError, OverflowError, TypeError, IndexError) as exc:  # dateutil at the ends of the calendar
+        raise _EventError(f"RRULE {text.strip()!r} cannot be expanded ({exc})") from exc
+    return out, False
+
+
 def _local_starts(ev: _Event, cutoff: dt.datetime) -> tuple[list[dt.datetime], bool]:
     """Wall-clock starts of an event's occurrences up to ``cutoff`` (sorted, exdates removed)."""
     tz = ev.start.tz
@@ -243,16 +299,11 @@ def _local_starts(ev: _Event, cutoff: dt.datetime) -> tuple[list[dt.datetime], b
     starts.update(r.local_in(tz) for r in ev.rdates)
     truncated = False
     for text in ev.rrules:
-        for n, when in enumerate(_rule(text, ev.start, cutoff)):
-            if n >= MAX_GENERATED:
-                truncated = True
-                break
-            starts.add(when)
+        more, cut = _expand(text, ev.start, cutoff)
+        starts.update(more)
+        truncated |= cut
     for text in ev.exrules:
-        for n, when in enumerate(_rule(text, ev.start, cutoff)):
-            if n >= MAX_GENERATED:
-                break
-            starts.discard(when)
+        starts.difference_update(_expand(text, ev.start, cutoff)[0])
     for ex in ev.exdates:
         if ex.all_day and not ev.start.all_day:
             starts = {s for s in starts if s.date() != ex.value.date()}

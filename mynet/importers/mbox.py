@@ -363,7 +363,7 @@ def _message(
     if defects:
         notes.add("a line in the header block that is not a header field; the fields after it are ignored", line)
     senders, bad_from = _addresses(fields.get("from", []))
-    recipients, bad_to = _addresses(fields.get("to", []) + fields.get("cc", []) + fields.get("bcc", []))
+    recipients, bad_to = _addresses(fields.get("to", []) + fields.get("cc", []))
     if bad_from or bad_to:
         notes.add("an address that is not an e-mail address, left out", line)
     if not senders and not recipients:

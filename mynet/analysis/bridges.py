@@ -1,0 +1,552 @@
+"""Bridges: the ties that hold groups together, and the people the network hangs on.
+
+* :func:`neighbourhood_overlap`: Onnela's overlap of every tie, vectorised.
+* :func:`local_bridges`: ties whose ends share no neighbour, with their span.
+* :func:`group_bridges`: ties between two different groups, ranked.
+* :func:`group_links`: per pair of groups, how many ties and who carries them.
+* :func:`single_points_of_access`: the people through whom alone you reach a
+  group or a part of your network.
+
+Ties are keyed ``(a, b)`` with ``a < b`` (contact ids sort naturally).
+Groups are given as a mapping ``group id -> members`` or as a
+:class:`mynet.analysis.groups.GroupResult`.
+
+References
+----------
+.. [1] M. S. Granovetter, "The strength of weak ties", Am. J. Sociol. 78(6),
+   1360-1380 (1973).
+.. [2] J.-P. Onnela, J. Saramäki, J. Hyvönen, G. Szabó, D. Lazer, K. Kaski,
+   J. Kertész, A.-L. Barabási, "Structure and tie strengths in mobile
+   communication networks", PNAS 104(18), 7332-7336 (2007).
+.. [3] J. Hopcroft, R. Tarjan, "Algorithm 447: efficient algorithms for graph
+   manipulation", Commun. ACM 16(6), 372-378 (1973).
+"""
+
+from __future__ import annotations
+
+import math
+from collections import defaultdict
+from typing import Any, Hashable, Iterable, Mapping
+
+import networkx as nx
+import numpy as np
+import scipy.sparse as sp
+
+from .groups import _edge_arrays, sorted_nodes
+
+__all__ = [
+    "EGO",
+    "neighbourhood_overlap",
+    "local_bridges",
+    "group_bridges",
+    "group_links",
+    "single_points_of_access",
+]
+
+EGO = 0  # the user's node in single_points_of_access; never a contact id
+
+# Budget of entries of one block of A @ A (memory of one chunk, ~12 bytes each).
+_BLOCK_NNZ = 4_000_000
+
+
+def _common_neighbours(n: int, lo: np.ndarray, hi: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Degrees and, for each edge ``(lo[e], hi[e])``, the number of common neighbours.
+
+    Computes ``A @ A`` block by block of rows (each block sized so it holds
+    about ``_BLOCK_NNZ`` entries) and reads it only at the edges.
+    """
+    ones = np.ones(len(lo), dtype=np.int32)
+    A = sp.coo_matrix((np.concatenate([ones, ones]), (np.concatenate([lo, hi]), np.concatenate([hi, lo]))), shape=(n, n))
+    A = A.tocsr()
+    A.sum_duplicates()
+    A.data[:] = 1
+    deg = np.diff(A.indptr).astype(np.int64)
+    common = np.zeros(len(lo), dtype=np.int64)
+    if len(lo) == 0:
+        return deg, common
+    # Cost of row i of A @ A: the sum of its neighbours' degrees.
+    cost = np.cumsum(A @ deg)
+    # Edges are sorted by lo, so each row block owns a contiguous run of edges.
+    start = 0
+    while start < n:
+        base = cost[start - 1] if start else 0
+        stop = int(np.searchsorted(cost, base + _BLOCK_NNZ, side="right"))
+        stop = min(n, max(stop, start + 1))
+        e0, e1 = np.searchsorted(lo, [start, stop])
+        if e1 > e0:
+            P = (A[start:stop] @ A).tocsr()
+            P.sort_indices()
+            rows = np.repeat(np.arange(stop - start, dtype=np.int64), np.diff(P.indptr))
+            keys = rows * n + P.indices
+            want = (lo[e0:e1] - start) * n + hi[e0:e1]
+            pos = np.searchsorted(keys, want)
+            pos_ok = pos < len(keys)
+            found = np.zeros(e1 - e0, dtype=bool)
+            found[pos_ok] = keys[pos[pos_ok]] == want[pos_ok]
+            vals = np.zeros(e1 - e0, dtype=np.int64)
+            vals[found] = P.data[pos[found]]
+            common[e0:e1] = vals
+        start = stop
+    return deg, common
+
+
+def _key(nodes: list, i: int, j: int) -> tuple:
+    return (nodes[i], nodes[j])
+
+
+def neighbourhood_overlap(G: nx.Graph) -> dict[tuple, float]:
+    """Onnela's neighbourhood overlap of every tie.
+
+    ``O_ij = n_ij / ((k_i - 1) + (k_j - 1) - n_ij)``, where ``n_ij`` is the
+    number of common neighbours: the share of the two ends' other contacts
+    that they share, ``|N(i) & N(j)| / (|N(i) | N(j)| - 2)``. 0 when the
+    denominator is 0 (a tie whose ends have no other tie). Weights are not
+    used. A tie with low overlap is a weak-tie bridge in Granovetter's sense;
+    overlap 0 means a local bridge.
+
+    Parameters
+    ----------
+    G : networkx.Graph
+        Undirected; self-loops are ignored.
+
+    Returns
+    -------
+    dict of (a, b) to float
+        One entry per tie, ``a < b``.
+
+    Notes
+    -----
+    Common neighbours are read off the sparse product ``A @ A`` at the
+    positions of the ties, computed in blocks of rows so memory stays bounded;
+    200,000 ties on 10,000 contacts take well under a second.
+
+    References
+    ----------
+    .. [1] J.-P. Onnela et al., "Structure and tie strengths in mobile
+       communication networks", PNAS 104(18), 7332-7336 (2007).
+    .. [2] M. S. Granovetter, "The strength of weak ties", Am. J. Sociol.
+       78(6), 1360-1380 (1973).
+    """
+    nodes, lo, hi, _ = _edge_arrays(G, weight="__none__")
+    deg, common = _common_neighbours(len(nodes), lo, hi)
+    denom = deg[lo] + deg[hi] - 2 - common
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ov = np.where(denom > 0, common / np.maximum(denom, 1), 0.0)
+    return {(nodes[i], nodes[j]): float(o) for i, j, o in zip(lo.tolist(), hi.tolist(), ov.tolist())}
+
+
+def _span(adj: Mapping, u: Hashable, v: Hashable) -> float:
+    """Hops from ``u`` to ``v`` once the tie ``u - v`` is removed (inf if none).
+
+    Bidirectional breadth-first search, expanding the smaller frontier. The
+    balls grown from both ends stay disjoint until the first meeting, so the
+    first meeting gives the exact distance.
+    """
+    dist_u = {u: 0}
+    dist_v = {v: 0}
+    front_u, front_v = [u], [v]
+    du = dv = 0
+    while front_u and front_v:
+        if len(front_u) <= len(front_v):
+            front, dist, other, here, end_a, end_b = front_u, dist_u, dist_v, du, u, v
+        else:
+            front, dist, other, here, end_a, end_b = front_v, dist_v, dist_u, dv, v, u
+        nxt = []
+        for x in front:
+            nbrs = adj[x]
+            for y in nbrs:
+                if y in dist:
+                    continue
+                if x == end_a and y == end_b:
+                    continue  # the hidden tie
+                if y in other:
+                    return here + 1 + other[y]
+                dist[y] = here + 1
+                nxt.append(y)
+        if front is front_u:
+            front_u, du = nxt, du + 1
+        else:
+            front_v, dv = nxt, dv + 1
+    return math.inf
+
+
+def local_bridges(G: nx.Graph) -> dict[tuple, float]:
+    """Ties whose ends have no common neighbour, with their span.
+
+    The span is the number of hops between the two ends once the tie itself
+    is removed (``inf`` when nothing else joins them); it is at least 3.
+    Weights are not used: the same answer as
+    ``networkx.local_bridges(G, with_span=True)`` with its default
+    ``weight=None`` (tested). networkx computes spans with a
+    Dijkstra search per local bridge, which took a minute for 154 of the
+    85,000 local bridges of a 10,000-contact, 200,000-tie graph; here common
+    neighbours come from one sparse product and each span from a
+    bidirectional breadth-first search that stops at the first meeting.
+    networkx's ``weight`` argument, when given, would add up the attribute
+    as a distance along the path; for tie strengths (larger = closer) that
+    is meaningless, so no weighted span is offered.
+
+    Parameters
+    ----------
+    G : networkx.Graph
+
+    Returns
+    -------
+    dict of (a, b) to float
+        Local bridge ``(a, b)``, ``a < b`` -> span (an int as float, or inf).
+
+    References
+    ----------
+    .. [1] M. S. Granovetter, "The strength of weak ties", Am. J. Sociol.
+       78(6), 1360-1380 (1973).
+    .. [2] D. Easley, J. Kleinberg, *Networks, Crowds, and Markets*, ch. 3,
+       Cambridge University Press (2010).
+    """
+    nodes, lo, hi, _ = _edge_arrays(G, weight="__none__")
+    _, common = _common_neighbours(len(nodes), lo, hi)
+    adj = G.adj
+    out = {}
+    for i, j in zip(lo[common == 0].tolist(), hi[common == 0].tolist()):
+        a, b = nodes[i], nodes[j]
+        out[(a, b)] = float(_span(adj, a, b))
+    return out
+
+
+def _group_sets(groups: Any) -> dict[int, frozenset]:
+    groups = getattr(groups, "groups", groups)
+    return {g: frozenset(m) for g, m in groups.items()}
+
+
+def _membership(groups: Mapping[int, frozenset]) -> dict[Hashable, int]:
+    member_of: dict[Hashable, int] = {}
+    for g in sorted(groups):
+        for v in groups[g]:
+            if v in member_of:
+                raise ValueError(f"{v!r} is in two groups ({member_of[v]} and {g})")
+            member_of[v] = g
+    return member_of
+
+
+def _pair(g: int, h: int) -> tuple[int, int]:
+    return (g, h) if g < h else (h, g)
+
+
+def group_links(G: nx.Graph, groups: Any) -> dict[tuple[int, int], dict[str, Any]]:
+    """The ties between each pair of groups, for a group-to-group map.
+
+    Parameters
+    ----------
+    G : networkx.Graph
+        Edge attribute ``weight`` is the strength (missing means 1).
+    groups : mapping of int to set of node, or GroupResult
+        Disjoint groups; unclustered contacts are simply absent.
+
+    Returns
+    -------
+    dict of (g, h) to dict
+        For each pair ``g < h`` with at least one tie: ``ties`` (count),
+        ``strength`` (sum of strengths), ``density`` (``ties / (|g| |h|)``)
+        and ``carriers``, a pair of sorted lists: the members of ``g`` with a
+        tie into ``h``, and the members of ``h`` with a tie into ``g``.
+    """
+    sets = _group_sets(groups)
+    member_of = _membership(sets)
+    acc: dict[tuple[int, int], dict[str, Any]] = {}
+    carriers: dict[tuple[int, int], tuple[set, set]] = {}
+    for u, v, w in G.edges(data="weight", default=1.0):
+        g, h = member_of.get(u), member_of.get(v)
+        if g is None or h is None or g == h:
+            continue
+        key = _pair(g, h)
+        rec = acc.setdefault(key, {"ties": 0, "strength": 0.0})
+        rec["ties"] += 1
+        rec["strength"] += float(w)
+        side = carriers.setdefault(key, (set(), set()))
+        if g == key[0]:
+            side[0].add(u), side[1].add(v)
+        else:
+            side[0].add(v), side[1].add(u)
+    out = {}
+    for key in sorted(acc):
+        g, h = key
+        rec = acc[key]
+        out[key] = {
+            "ties": rec["ties"],
+            "strength": rec["strength"],
+            "density": rec["ties"] / (len(sets[g]) * len(sets[h])),
+            "carriers": (sorted_nodes(carriers[key][0]), sorted_nodes(carriers[key][1])),
+        }
+    return out
+
+
+def group_bridges(G: nx.Graph, groups: Any) -> list[dict[str, Any]]:
+    """Ties between two different groups, the ones that matter most first.
+
+    A tie that is the only one between its two groups matters more than one
+    of fifty; a strong one more than a weak one; a local bridge (its ends
+    share no neighbour, so nothing else joins them nearby) more than one
+    inside a dense mesh. The score is our own rule of thumb, not a published
+    measure::
+
+        score = strength / ties_between(g, h) * (2 if local bridge else 1)
+
+    and ties with equal score come in order of lower neighbourhood overlap
+    (Onnela et al. 2007; low overlap = a weak-tie bridge in Granovetter's
+    1973 sense), then ``(a, b)``.
+
+    Parameters
+    ----------
+    G : networkx.Graph
+    groups : mapping of int to set of node, or GroupResult
+
+    Returns
+    -------
+    list of dict
+        Each with ``a``, ``b`` (``a < b``), ``groups`` (group of ``a``, group
+        of ``b``), ``strength``, ``overlap``, ``local_bridge`` (bool), ``span``
+        (hops without this tie, ``inf`` if none; ``None`` unless a local
+        bridge), ``ties_between`` and ``score``.
+
+    References
+    ----------
+    .. [1] M. S. Granovetter, "The strength of weak ties", Am. J. Sociol.
+       78(6), 1360-1380 (1973).
+    .. [2] J.-P. Onnela et al., "Structure and tie strengths in mobile
+       communication networks", PNAS 104(18), 7332-7336 (2007).
+    """
+    sets = _group_sets(groups)
+    member_of = _membership(sets)
+    nodes, lo, hi, w = _edge_arrays(G)
+    deg, common = _common_neighbours(len(nodes), lo, hi)
+    denom = deg[lo] + deg[hi] - 2 - common
+    overlap = np.where(denom > 0, common / np.maximum(denom, 1), 0.0)
+    gid = np.array([member_of.get(v, -1) for v in nodes], dtype=np.int64) if nodes else np.zeros(0, dtype=np.int64)
+    between = (gid[lo] >= 0) & (gid[hi] >= 0) & (gid[lo] != gid[hi])
+    idx = np.flatnonzero(between)
+    counts: dict[tuple[int, int], int] = defaultdict(int)
+    for e in idx.tolist():
+        counts[_pair(int(gid[lo[e]]), int(gid[hi[e]]))] += 1
+    adj = G.adj
+    out = []
+    for e in idx.tolist():
+        a, b = nodes[lo[e]], nodes[hi[e]]
+        g, h = int(gid[lo[e]]), int(gid[hi[e]])
+        is_lb = bool(common[e] == 0)
+        n_between = counts[_pair(g, h)]
+        out.append(
+            {
+                "a": a,
+                "b": b,
+                "groups": (g, h),
+                "strength": float(w[e]),
+                "overlap": float(overlap[e]),
+                "local_bridge": is_lb,
+                "span": float(_span(adj, a, b)) if is_lb else None,
+                "ties_between": n_between,
+                "score": float(w[e]) / n_between * (2.0 if is_lb else 1.0),
+            }
+        )
+    order = {v: k for k, v in enumerate(nodes)}
+    out.sort(key=lambda r: (-r["score"], r["overlap"], order[r["a"]], order[r["b"]]))
+    return out
+
+
+def _dfs_cuts(roots: Iterable[Hashable], neighbours) -> tuple[list, dict, dict, dict, list]:
+    """Iterative depth-first search (Hopcroft & Tarjan) from each root in turn.
+
+    Returns the preorder, the preorder index and subtree size of every node
+    reached, for each node the children whose subtree it separates from the
+    root side (``low[child] >= tin[node]``), and the roots actually used (one
+    per component reached, in preorder).
+    """
+    order: list = []
+    tin: dict = {}
+    low: dict = {}
+    size: dict = {}
+    separated: dict = defaultdict(list)
+    started: list = []
+    for root in roots:
+        if root in tin:
+            continue
+        started.append(root)
+        tin[root] = low[root] = len(order)
+        order.append(root)
+        stack = [(root, None, iter(neighbours(root)))]
+        while stack:
+            x, parent, it = stack[-1]
+            for y in it:
+                if y == x:
+                    continue
+                if y not in tin:
+                    tin[y] = low[y] = len(order)
+                    order.append(y)
+                    stack.append((y, x, iter(neighbours(y))))
+                    break
+                if y != parent and tin[y] < low[x]:
+                    low[x] = tin[y]
+            else:
+                stack.pop()
+                size[x] = len(order) - tin[x]
+                if parent is not None:
+                    if low[x] < low[parent]:
+                        low[parent] = low[x]
+                    if low[x] >= tin[parent]:
+                        separated[parent].append(x)
+    return order, tin, size, separated, started
+
+
+def single_points_of_access(
+    G: nx.Graph,
+    groups: Any,
+    ego_ties: Mapping[Hashable, float] | None = None,
+) -> list[dict[str, Any]]:
+    """People through whom alone a group, or a part of the network, is reached.
+
+    Two checks, merged per person:
+
+    * **groups**: a group whose ties to everyone outside it (and to you, when
+      ``ego_ties`` is given) all leave from a single member, or all arrive at
+      a single outside contact. That person alone gives access to the group;
+      without them the rest of the group (for a member) or the whole group
+      (for an outside contact) is cut off.
+    * **articulation points**: with ``ego_ties``, you are added as node
+      :data:`EGO` (0) tied to every contact of positive warmth, and for each
+      articulation point (a person whose removal disconnects the graph) the
+      contacts that could no longer be reached from you are cut off. Without
+      ``ego_ties``, the cut-off contacts are those no longer joined to the
+      largest remaining part of that person's component (ties of size go to
+      the part with the smallest contact). A group all of whose other members
+      are cut off is one that person alone gives access to.
+
+    Parameters
+    ----------
+    G : networkx.Graph
+        Undirected; weights are not used.
+    groups : mapping of int to set of node, or GroupResult
+    ego_ties : mapping of node to float, optional
+        Your own warmth to each contact; contacts with warmth > 0 are tied to
+        you. Node 0 must not be a contact when this is given.
+
+    Returns
+    -------
+    list of dict
+        One entry per person: ``person``, ``member_of`` (their group or
+        ``None``), ``groups`` (sorted ids of the groups they alone give access
+        to) and ``cut_off`` (sorted contacts cut off without them); the most
+        cut off first, then by person.
+
+    Notes
+    -----
+    Articulation points and the parts they cut off come from one depth-first
+    search with low points (Hopcroft & Tarjan 1973), the method of
+    ``networkx.articulation_points``, in linear time: the subtree of a
+    child ``c`` of ``p`` in the search tree is cut off from the root when
+    ``low[c] >= tin[p]``.
+
+    References
+    ----------
+    .. [1] J. Hopcroft, R. Tarjan, "Algorithm 447: efficient algorithms for
+       graph manipulation", Commun. ACM 16(6), 372-378 (1973).
+    """
+    sets = _group_sets(groups)
+    member_of = _membership(sets)
+    ego_set: set = set()
+    if ego_ties is not None:
+        if EGO in G:
+            raise ValueError(f"node {EGO} stands for you and cannot be a contact when ego_ties is given")
+        ego_set = {v for v, warmth in ego_ties.items() if v in G and warmth and warmth > 0}
+    ego_list = sorted_nodes(ego_set)
+    adj = G.adj
+
+    def neighbours(x):
+        if ego_ties is not None and x == EGO:
+            return ego_list
+        if x in ego_set:
+            return [*adj[x], EGO]
+        return adj[x]
+
+    found: dict[Hashable, dict[str, set]] = defaultdict(lambda: {"groups": set(), "cut_off": set()})
+
+    # Groups reached through one member or one outside contact.
+    for g in sorted(sets):
+        S = sets[g]
+        inside, outside = set(), set()
+        for v in S:
+            for y in neighbours(v):
+                if y not in S and y != v:
+                    inside.add(v)
+                    outside.add(y)
+        if not inside:
+            continue
+        if len(inside) == 1 and len(S) > 1:
+            (p,) = inside
+            found[p]["groups"].add(g)
+            found[p]["cut_off"] |= S - {p}
+        if len(outside) == 1:
+            (x,) = outside
+            if not (ego_ties is not None and x == EGO):
+                found[x]["groups"].add(g)
+                found[x]["cut_off"] |= set(S)
+
+    # Articulation points.
+    roots = [EGO] if ego_ties is not None else sorted_nodes(G.nodes)
+    order, tin, size, separated, started = _dfs_cuts(roots, neighbours)
+    # Each component is one block of the preorder, starting at its root.
+    blocks = [(tin[r], size[r]) for r in started]
+    block_starts = [b[0] for b in blocks]
+
+    def subtree(c) -> list:
+        return order[tin[c] : tin[c] + size[c]]
+
+    for p, children in separated.items():
+        if ego_ties is not None:
+            if p == EGO:
+                continue
+            cut = [v for c in children for v in subtree(c)]
+        else:
+            k = int(np.searchsorted(block_starts, tin[p], side="right")) - 1
+            s0, n0 = blocks[k]
+            if tin[p] == s0 and len(children) < 2:
+                continue  # a root with a single child cuts nothing off
+            below = sum(size[c] for c in children)
+            rest = n0 - 1 - below  # the part holding the root (0 when p is the root)
+            pieces = [(size[c], c) for c in children] + ([(rest, None)] if rest > 0 else [])
+            biggest = max(t[0] for t in pieces)
+            tied = [t for t in pieces if t[0] == biggest]
+            if len(tied) == 1:
+                keep = tied[0][1]
+            elif any(c is None for _, c in tied):
+                keep = None  # the root side holds the component's smallest contact
+            else:
+                keep = min((c for _, c in tied), key=lambda c: _sort_key(min(subtree(c), key=_sort_key)))
+            cut = [v for _, c in pieces if c is not None and c != keep for v in subtree(c)]
+            if keep is not None and rest > 0:
+                gone = set(v for c in children for v in subtree(c))
+                gone.add(p)
+                cut.extend(v for v in order[s0 : s0 + n0] if v not in gone)
+        if cut:
+            found[p]["cut_off"].update(cut)
+
+    for p, rec in found.items():
+        rec["cut_off"].discard(p)
+        for g in sorted(sets):
+            others = sets[g] - {p}
+            if others and others <= rec["cut_off"]:
+                rec["groups"].add(g)
+
+    entries = [
+        {
+            "person": p,
+            "member_of": member_of.get(p),
+            "groups": sorted(rec["groups"]),
+            "cut_off": sorted_nodes(rec["cut_off"]),
+        }
+        for p, rec in found.items()
+        if rec["cut_off"]
+    ]
+    entries.sort(key=lambda e: (-len(e["cut_off"]), _sort_key(e["person"])))
+    return entries
+
+
+def _sort_key(v: Hashable):
+    return (0, v, "") if isinstance(v, (int, float)) and not isinstance(v, bool) else (1, type(v).__name__, repr(v))
