@@ -42,9 +42,11 @@ such path is left are paths with a repeated second intermediary admitted, again
 best first. The returned list is sorted by score. Candidate scores can only fall
 as the used set grows, so the greedy choice is made lazily from a heap.
 
-Determinism: contacts are indexed in increasing id order; equal costs are broken
-by the smaller node id, equal scores among candidates by the smaller first
-intermediary id, and an equal-cost path with fewer steps is preferred.
+Determinism: contacts are indexed in increasing id order. Equal scores among
+candidates go to the smaller first intermediary id, and each step of a path picks
+the smaller node id among equal-cost continuations, preferring fewer steps (in the
+hop-limited search); without a hop limit the steps after the second person follow
+the predecessors of scipy's Dijkstra, which are deterministic for a given index.
 
 References
 ----------
@@ -135,7 +137,8 @@ class PathIndex:
     Parameters
     ----------
     ids : array_like of int
-        Contact ids (any order; they are sorted).
+        Contact ids, any order (tie ends and the keys of ``warmth`` are added, so this
+        only needs to name contacts without ties).
     src, dst : array_like of int
         The ends of each tie, as contact ids (each undirected tie once).
     strength : array_like of float
@@ -158,17 +161,17 @@ class PathIndex:
     Raises
     ------
     ValueError
-        On a strength outside (0, 1], a warmth outside [0, 1], a self tie, or a tie
-        end missing from ``ids``.
+        On a strength outside (0, 1], a warmth outside [0, 1], a self tie, or ``src``,
+        ``dst`` and ``strength`` of different lengths.
     """
 
     def __init__(self, ids: Iterable[int], src: Iterable[int], dst: Iterable[int], strength: Iterable[float], warmth: Mapping[int, float]):
-        all_ids = np.unique(np.concatenate([np.asarray(list(ids), dtype=np.int64), np.asarray(list(warmth), dtype=np.int64)]))
-        src = np.asarray(list(src) if not isinstance(src, np.ndarray) else src, dtype=np.int64)
-        dst = np.asarray(list(dst) if not isinstance(dst, np.ndarray) else dst, dtype=np.int64)
-        w = np.asarray(list(strength) if not isinstance(strength, np.ndarray) else strength, dtype=np.float64)
+        src = _as_array(src, np.int64)
+        dst = _as_array(dst, np.int64)
+        w = _as_array(strength, np.float64)
         if not (len(src) == len(dst) == len(w)):
             raise ValueError("src, dst and strength must have the same length")
+        all_ids = np.unique(np.concatenate([_as_array(ids, np.int64), src, dst, _as_array(list(warmth), np.int64)]))
         if len(w) and not (np.all(w > 0) and np.all(w <= 1)):
             raise ValueError("every tie strength must be in (0, 1]")
         if np.any(src == dst):
@@ -176,8 +179,6 @@ class PathIndex:
         n = len(all_ids)
         i = np.searchsorted(all_ids, src)
         j = np.searchsorted(all_ids, dst)
-        if len(w) and (np.any(i >= n) or np.any(j >= n) or np.any(all_ids[np.minimum(i, n - 1)] != src) or np.any(all_ids[np.minimum(j, n - 1)] != dst)):
-            raise ValueError("a tie names a contact that is not in ids")
         rows = np.concatenate([i, j])
         cols = np.concatenate([j, i])
         vals = np.concatenate([w, w])
@@ -187,9 +188,7 @@ class PathIndex:
         keep = np.ones(len(rows), dtype=bool)
         keep[1:] = (rows[1:] != rows[:-1]) | (cols[1:] != cols[:-1])
         rows, cols, vals = rows[keep], cols[keep], vals[keep]
-        indptr = np.zeros(n + 1, dtype=np.int64)
-        np.add.at(indptr, rows + 1, 1)
-        indptr = np.cumsum(indptr)
+        indptr = np.concatenate([[0], np.cumsum(np.bincount(rows, minlength=n))]).astype(np.int64)
         self.ids = all_ids
         self.n = n
         self.indptr = indptr
@@ -197,6 +196,7 @@ class PathIndex:
         self.strengths = vals
         self.cost_data = -np.log(vals)
         self.costs = sp.csr_matrix((self.cost_data, self.indices, self.indptr), shape=(n, n))
+        self.rows = np.repeat(np.arange(n), np.diff(indptr))  # row of each stored entry
         warm = np.zeros(n)
         for cid, value in warmth.items():
             value = float(value)
@@ -222,12 +222,15 @@ class PathIndex:
         -------
         PathIndex
         """
-        edges = list(ties.edges(data="weight"))
-        src = np.fromiter((u for u, _, _ in edges), dtype=np.int64, count=len(edges))
-        dst = np.fromiter((v for _, v, _ in edges), dtype=np.int64, count=len(edges))
-        if any(s is None for _, _, s in edges):
-            raise ValueError("every tie needs a 'weight' (its strength)")
-        w = np.fromiter((s for _, _, s in edges), dtype=np.float64, count=len(edges))
+        src: list[int] = []
+        dst: list[int] = []
+        w: list[float] = []
+        for u, v, s in ties.edges(data="weight"):
+            if s is None:
+                raise ValueError(f"the tie {u}-{v} has no 'weight' (its strength)")
+            src.append(u)
+            dst.append(v)
+            w.append(s)
         return cls(list(ties.nodes), src, dst, w, warmth)
 
     def pos(self, contact: int) -> int | None:
@@ -286,12 +289,14 @@ class _Search:
 
     def _dijkstra(self, targets, node_ok, edge_ok):
         ix = self.index
-        rows = np.repeat(np.arange(ix.n), np.diff(ix.indptr))
-        keep = edge_ok & node_ok[rows] & node_ok[ix.indices]
-        # Build the masked CSR directly so that zero costs (strength 1) stay explicit edges.
-        counts = np.bincount(rows[keep], minlength=ix.n)
-        indptr = np.concatenate([[0], np.cumsum(counts)])
-        g = sp.csr_matrix((ix.cost_data[keep], ix.indices[keep], indptr), shape=(ix.n, ix.n))
+        keep = edge_ok & node_ok[ix.rows] & node_ok[ix.indices]
+        if keep.all():
+            g = ix.costs
+        else:
+            # Build the masked CSR directly so that zero costs (strength 1) stay explicit edges.
+            counts = np.bincount(ix.rows[keep], minlength=ix.n)
+            indptr = np.concatenate([[0], np.cumsum(counts)])
+            g = sp.csr_matrix((ix.cost_data[keep], ix.indices[keep], indptr), shape=(ix.n, ix.n))
         dist, pred, _ = dijkstra(g, directed=True, indices=targets, min_only=True, return_predecessors=True)
         self.dist = dist
         self.pred = pred  # next hop towards the nearest target; -9999 at targets and unreached
@@ -354,6 +359,12 @@ class _Search:
             layer = j - 1
             out.append(u)
         return out
+
+
+def _as_array(values, dtype) -> np.ndarray:
+    if isinstance(values, np.ndarray):
+        return values.astype(dtype, copy=False)
+    return np.asarray(list(values), dtype=dtype)
 
 
 def _row_edges(indptr: np.ndarray, rows: np.ndarray) -> tuple[np.ndarray, np.ndarray]:

@@ -47,7 +47,7 @@ import numpy as np
 import scipy.sparse as sp
 
 from .model import Contact, Interaction
-from .normalise import email_domain, fold_text, is_webmail, normalise_email, normalise_org
+from .normalise import email_domain, fold_text, is_webmail, normalise_org
 
 __all__ = [
     "TieModel",
@@ -176,6 +176,7 @@ def cooccurrence(B: sp.csr_matrix, weights: np.ndarray | None = None) -> sp.coo_
 
 
 def _pairs_key(coo: sp.coo_matrix, n: int) -> np.ndarray:
+    """Row-major pair keys ``i * n + j``; sorted when ``coo`` came from :func:`_clean`."""
     return coo.row.astype(np.int64) * n + coo.col.astype(np.int64)
 
 
@@ -234,16 +235,17 @@ def infer_ties(
         if it.bulk:
             continue
         if it.kind == "meeting":
-            people = {normalise_email(p) for p in it.participants} - {""}
+            people = set(it.participants)  # importers give normalised addresses
+            people.discard("")
             size = len(people)
             if size < 2 or size > model.broadcast_cap:
                 continue  # nobody to pair, or a broadcast
-            members = sorted({by_email[p] for p in people if p in by_email})
+            members = [by_email[p] for p in people if p in by_email]  # distinct: one contact per address
             if len(members) >= 2:
                 meetings.append(members)
                 meeting_sizes.append(size)
         elif it.kind == "message":
-            threads[it.thread or it.key].update(normalise_email(p) for p in it.participants)
+            threads[it.thread or it.key].update(it.participants)
     for kind, groups, sizes in (
         ("meeting", meetings, meeting_sizes),
         ("thread", *_thread_groups(threads, by_email, model.broadcast_cap)),
@@ -251,8 +253,8 @@ def infer_ties(
         if groups:
             B = incidence(groups, n)
             w = 1.0 / (np.asarray(sizes, dtype=float) - 1.0)
-            mats[kind] = cooccurrence(B, w)
-            counts[kind] = cooccurrence(B)
+            mats[kind] = _clean(cooccurrence(B, w))
+            counts[kind] = _clean(cooccurrence(B))
 
     # Organisations: current (both now) and past (either only in the past).
     cur_groups: dict[str, list[int]] = defaultdict(list)
@@ -294,9 +296,9 @@ def infer_ties(
     rel = [(min(pos[a], pos[b]), max(pos[a], pos[b])) for a, b in related if a in pos and b in pos and a != b]
     if rel:
         r = np.array(sorted(set(rel)))
-        mats["related"] = sp.coo_matrix(
+        mats["related"] = _clean(sp.coo_matrix(
             (np.full(len(r), -math.log1p(-model.related)), (r[:, 0], r[:, 1])), shape=(n, n)
-        )
+        ))
 
     return _assemble(ids, pos, n, mats, counts, model, manual or {}, suppressed)
 
@@ -315,8 +317,10 @@ def _thread_groups(threads: dict[str, set[str]], by_email: dict[str, int], cap: 
 
 
 def _clean(m: sp.coo_matrix) -> sp.coo_matrix:
+    """Drop explicit zeros and sort entries row-major (so pair keys come out sorted)."""
     m = m.tocsr()
     m.eliminate_zeros()
+    m.sort_indices()
     return m.tocoo()
 
 
@@ -331,7 +335,8 @@ def _assemble(ids, pos, n, mats, counts, model: TieModel, manual, suppressed) ->
         empty = np.zeros(0, dtype=np.int64)
         return TieTable(empty, empty.copy(), np.zeros(0), {k: np.zeros(0) for k in KINDS},
                         {"meeting": empty.copy(), "thread": empty.copy()}, np.zeros(0, dtype=bool))
-    keys = np.unique(np.concatenate(keys_all))
+    # Each array is sorted and unique already; one kind alone needs no merge.
+    keys = keys_all[0] if len(keys_all) == 1 else np.unique(np.concatenate(keys_all))
     parts = {}
     for kind in KINDS:
         arr = np.zeros(keys.shape[0])
@@ -368,7 +373,7 @@ def _assemble(ids, pos, n, mats, counts, model: TieModel, manual, suppressed) ->
                 keep[k] = False
     keep &= strength > 0
     table = TieTable(a, b, strength, parts, cnt, man)
-    return table.select(keep)
+    return table if keep.all() else table.select(keep)
 
 
 def disparity_filter(table: TieTable, alpha: float) -> np.ndarray:

@@ -200,12 +200,21 @@ def test_sampled_estimators_are_unbiased():
     # 2 for undirected pairs) would be off by ~0.1 here.
     G = weighted_random_graph(40, 120, 5)
     nodes = sorted(G)
-    exact_b = np.array([betweenness(G)[v] for v in nodes])
-    exact_c = np.array([harmonic_closeness(G)[v] for v in nodes])
-    draws_b = np.mean([[betweenness(G, k=8, seed=s)[v] for v in nodes] for s in range(300)], axis=0)
-    draws_c = np.mean([[harmonic_closeness(G, k=8, seed=s)[v] for v in nodes] for s in range(300)], axis=0)
+
+    def vector(d: dict) -> np.ndarray:
+        return np.array([d[v] for v in nodes])
+
+    exact_b, exact_c = vector(betweenness(G)), vector(harmonic_closeness(G))
+    draws_b = np.mean([vector(betweenness(G, k=8, seed=s)) for s in range(300)], axis=0)
+    draws_c = np.mean([vector(harmonic_closeness(G, k=8, seed=s)) for s in range(300)], axis=0)
     assert np.abs(draws_b - exact_b).max() < 0.02
     assert np.abs(draws_c - exact_c).max() < 0.02
+    # Complete graph, all strengths 1: every distance is 1, so every estimate must be exactly 1
+    # (a pivot's distance to itself must not count) and no node lies on a shortest path.
+    K = nx.complete_graph(30)
+    nx.set_edge_attributes(K, 1.0, "weight")
+    assert set(harmonic_closeness(K, k=7, seed=1).values()) == {1.0}
+    assert set(betweenness(K, k=7, seed=1).values()) == {0.0}
 
 
 def test_exact_below_the_limit_and_reported():

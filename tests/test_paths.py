@@ -325,6 +325,8 @@ def test_avoid_and_min_strength_and_hop_limit():
     assert find_paths(idx, {11}, avoid={3, 2, 10}) == []
     # B's step 0.6 is below 0.65; A's route via 3 has steps 0.9, 0.9, 0.95
     assert [p.nodes for p in find_paths(idx, {11}, min_strength=0.65)] == [(1, 3, 11)]
+    # a step exactly at min_strength is kept (only steps *below* it are dropped)
+    assert [p.nodes for p in find_paths(idx, {11}, min_strength=0.6)] == [(1, 3, 11), (2, 11)]
     assert [p.nodes for p in find_paths(idx, {11}, max_intermediaries=1)] == [(2, 11)]
     assert find_paths(idx, {11}, min_strength=0.96) == []  # every warmth is below it
     assert find_paths(idx, {11}, avoid={11}) == []

@@ -49,21 +49,48 @@ EGO = 0  # the user's node in single_points_of_access; never a contact id
 _BLOCK_NNZ = 4_000_000
 
 
-def _common_neighbours(n: int, lo: np.ndarray, hi: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+def _adjacency(n: int, lo: np.ndarray, hi: np.ndarray) -> sp.csr_matrix:
+    ones = np.ones(len(lo), dtype=np.int32)
+    A = sp.csr_matrix(
+        (np.concatenate([ones, ones]), (np.concatenate([lo, hi]), np.concatenate([hi, lo]))), shape=(n, n)
+    )
+    A.sum_duplicates()
+    A.sort_indices()
+    return A
+
+
+def _lookup(keys: np.ndarray, data: np.ndarray, want: np.ndarray) -> np.ndarray:
+    """``data`` at the positions of ``want`` in the sorted ``keys`` (0 where absent)."""
+    pos = np.searchsorted(keys, want)
+    inside = pos < len(keys)
+    hit = np.zeros(len(want), dtype=bool)
+    hit[inside] = keys[pos[inside]] == want[inside]
+    out = np.zeros(len(want), dtype=np.int64)
+    out[hit] = data[pos[hit]]
+    return out
+
+
+def _common_neighbours(
+    A: sp.csr_matrix, lo: np.ndarray, hi: np.ndarray, *, squares: bool = False
+) -> tuple[np.ndarray, np.ndarray, np.ndarray | None]:
     """Degrees and, for each edge ``(lo[e], hi[e])``, the number of common neighbours.
 
-    Computes ``A @ A`` block by block of rows (each block sized so it holds
-    about ``_BLOCK_NNZ`` entries) and reads it only at the edges.
+    Computes ``P = A @ A`` block by block of rows (each block sized to hold
+    about ``_BLOCK_NNZ`` entries) and reads it only at the edges (masked by
+    the block of ``A`` first, unless ``squares`` needs more of it). With
+    ``squares``, also counts for each edge without a common neighbour the
+    paths ``lo - a - b - hi`` of three hops avoiding the edge itself, read off
+    the same block: ``sum_{b in N(hi)} P[lo, b] - k_lo - k_hi + 1`` (the
+    walks through the edge are ``a = hi`` for every ``b``, and ``b = lo`` for
+    every ``a``, counted once together). Such an edge has span 3 exactly when
+    this count is positive.
     """
-    ones = np.ones(len(lo), dtype=np.int32)
-    A = sp.coo_matrix((np.concatenate([ones, ones]), (np.concatenate([lo, hi]), np.concatenate([hi, lo]))), shape=(n, n))
-    A = A.tocsr()
-    A.sum_duplicates()
-    A.data[:] = 1
+    n = A.shape[0]
     deg = np.diff(A.indptr).astype(np.int64)
     common = np.zeros(len(lo), dtype=np.int64)
+    paths3 = np.zeros(len(lo), dtype=np.int64) if squares else None
     if len(lo) == 0:
-        return deg, common
+        return deg, common, paths3
     # Cost of row i of A @ A: the sum of its neighbours' degrees.
     cost = np.cumsum(A @ deg)
     # Edges are sorted by lo, so each row block owns a contiguous run of edges.
@@ -72,26 +99,79 @@ def _common_neighbours(n: int, lo: np.ndarray, hi: np.ndarray) -> tuple[np.ndarr
         base = cost[start - 1] if start else 0
         stop = int(np.searchsorted(cost, base + _BLOCK_NNZ, side="right"))
         stop = min(n, max(stop, start + 1))
-        e0, e1 = np.searchsorted(lo, [start, stop])
+        e0, e1 = (int(x) for x in np.searchsorted(lo, [start, stop]))
         if e1 > e0:
-            P = (A[start:stop] @ A).tocsr()
+            block = A[start:stop]
+            P = block @ A
+            r = lo[e0:e1] - start
+            if not squares:
+                # Keep P only at the ties (elementwise product with the block of A): no sort of P needed.
+                P = P.multiply(block).tocsr()
+            P.sum_duplicates()
             P.sort_indices()
-            rows = np.repeat(np.arange(stop - start, dtype=np.int64), np.diff(P.indptr))
-            keys = rows * n + P.indices
-            want = (lo[e0:e1] - start) * n + hi[e0:e1]
-            pos = np.searchsorted(keys, want)
-            pos_ok = pos < len(keys)
-            found = np.zeros(e1 - e0, dtype=bool)
-            found[pos_ok] = keys[pos[pos_ok]] == want[pos_ok]
-            vals = np.zeros(e1 - e0, dtype=np.int64)
-            vals[found] = P.data[pos[found]]
-            common[e0:e1] = vals
+            keys = np.repeat(np.arange(stop - start, dtype=np.int64), np.diff(P.indptr)) * n + P.indices
+            common[e0:e1] = _lookup(keys, P.data, r * n + hi[e0:e1])
+            if squares:
+                bare = np.flatnonzero(common[e0:e1] == 0)
+                if len(bare):
+                    far = hi[e0:e1][bare]
+                    lens = deg[far]
+                    owner = np.repeat(np.arange(len(bare)), lens)
+                    # positions of the neighbours of each far end in A.indices
+                    offs = np.arange(lens.sum()) - np.repeat(np.cumsum(lens) - lens, lens)
+                    cols = A.indices[np.repeat(A.indptr[far], lens) + offs]
+                    walks = _lookup(keys, P.data, r[bare][owner] * n + cols)
+                    total = np.bincount(owner, weights=walks, minlength=len(bare)).astype(np.int64)
+                    near = lo[e0:e1][bare]
+                    paths3[e0 + bare] = total - deg[near] - deg[far] + 1
         start = stop
-    return deg, common
+    return deg, common, paths3
 
 
-def _key(nodes: list, i: int, j: int) -> tuple:
-    return (nodes[i], nodes[j])
+def _two_step_meets(A: sp.csr_matrix, u: np.ndarray, v: np.ndarray) -> np.ndarray:
+    """For ties ``u - v`` known to have span above 3: whether the span is 4.
+
+    Row by row, the 2-hop walks from ``u`` whose first step is not the tie
+    itself, and the same from ``v``; the span is 4 exactly when they reach a
+    common node. (Walks from ``u`` can only come back to ``u``, never reach
+    ``v``, since there is no common neighbour and no 3-hop path; likewise
+    from ``v``; so no other correction is needed.)
+    """
+    out = np.zeros(len(u), dtype=bool)
+    reach = A @ np.diff(A.indptr)
+    cost = np.cumsum(reach[u] + reach[v])
+    start = 0
+    while start < len(u):
+        base = cost[start - 1] if start else 0
+        stop = min(len(u), max(int(np.searchsorted(cost, base + _BLOCK_NNZ, side="right")), start + 1))
+        rows = np.arange(stop - start)
+        balls = []
+        for x, y in ((u[start:stop], v[start:stop]), (v[start:stop], u[start:stop])):
+            first = A[x].tocsr()
+            hidden = sp.csr_matrix((np.ones(len(x), dtype=first.dtype), (rows, y)), shape=first.shape)
+            first = first - first.multiply(hidden)
+            balls.append(first @ A)
+        out[start:stop] = balls[0].multiply(balls[1]).getnnz(axis=1) > 0
+        start = stop
+    return out
+
+
+def _spans(G: nx.Graph, A: sp.csr_matrix, nodes: list, lo: np.ndarray, hi: np.ndarray, paths3: np.ndarray) -> np.ndarray:
+    """Span of each given tie without common neighbours.
+
+    3 when a 3-hop path exists (``paths3 > 0``), 4 when the 2-hop balls of
+    both ends meet (sparse products, :func:`_two_step_meets`), else a
+    bidirectional search (:func:`_span`), which also finds ``inf`` at once
+    for a tie to a contact with no other tie.
+    """
+    out = np.full(len(lo), 3.0)
+    rest = np.flatnonzero(paths3 <= 0)
+    four = _two_step_meets(A, lo[rest], hi[rest])
+    out[rest[four]] = 4.0
+    adj = G._adj  # the plain dict of dicts: its key views intersect in C
+    for e in rest[~four].tolist():
+        out[e] = _span(adj, nodes[lo[e]], nodes[hi[e]])
+    return out
 
 
 def neighbourhood_overlap(G: nx.Graph) -> dict[tuple, float]:
@@ -117,8 +197,8 @@ def neighbourhood_overlap(G: nx.Graph) -> dict[tuple, float]:
     Notes
     -----
     Common neighbours are read off the sparse product ``A @ A`` at the
-    positions of the ties, computed in blocks of rows so memory stays bounded;
-    200,000 ties on 10,000 contacts take well under a second.
+    positions of the ties, computed in blocks of rows so memory stays bounded
+    (see ``benchmarks/bench_groups.py`` for times).
 
     References
     ----------
@@ -127,8 +207,8 @@ def neighbourhood_overlap(G: nx.Graph) -> dict[tuple, float]:
     .. [2] M. S. Granovetter, "The strength of weak ties", Am. J. Sociol.
        78(6), 1360-1380 (1973).
     """
-    nodes, lo, hi, _ = _edge_arrays(G, weight="__none__")
-    deg, common = _common_neighbours(len(nodes), lo, hi)
+    nodes, lo, hi, _ = _edge_arrays(G, weight=None)
+    deg, common, _ = _common_neighbours(_adjacency(len(nodes), lo, hi), lo, hi)
     denom = deg[lo] + deg[hi] - 2 - common
     with np.errstate(divide="ignore", invalid="ignore"):
         ov = np.where(denom > 0, common / np.maximum(denom, 1), 0.0)
@@ -138,9 +218,12 @@ def neighbourhood_overlap(G: nx.Graph) -> dict[tuple, float]:
 def _span(adj: Mapping, u: Hashable, v: Hashable) -> float:
     """Hops from ``u`` to ``v`` once the tie ``u - v`` is removed (inf if none).
 
-    Bidirectional breadth-first search, expanding the smaller frontier. The
-    balls grown from both ends stay disjoint until the first meeting, so the
-    first meeting gives the exact distance.
+    Bidirectional breadth-first search expanding the smaller frontier (the
+    plain dict-of-dicts adjacency ``G._adj`` is passed for speed). Its two
+    balls stay disjoint until the first meeting,
+    and before it ``dist(u, v) > du + dv``; a meeting while growing one side
+    by a layer gives a path of at most ``du + dv + 1`` hops, so the first
+    meeting gives the exact distance and the search stops there.
     """
     dist_u = {u: 0}
     dist_v = {v: 0}
@@ -151,18 +234,19 @@ def _span(adj: Mapping, u: Hashable, v: Hashable) -> float:
             front, dist, other, here, end_a, end_b = front_u, dist_u, dist_v, du, u, v
         else:
             front, dist, other, here, end_a, end_b = front_v, dist_v, dist_u, dv, v, u
-        nxt = []
+        nxt: list = []
+        step = here + 1
         for x in front:
-            nbrs = adj[x]
-            for y in nbrs:
-                if y in dist:
-                    continue
-                if x == end_a and y == end_b:
-                    continue  # the hidden tie
-                if y in other:
-                    return here + 1 + other[y]
-                dist[y] = here + 1
-                nxt.append(y)
+            new = adj[x].keys() - dist.keys()
+            if x == end_a:
+                new.discard(end_b)  # the hidden tie
+            if not new:
+                continue
+            meet = new & other.keys()
+            if meet:
+                return float(step + other[next(iter(meet))])
+            dist.update(dict.fromkeys(new, step))
+            nxt.extend(new)
         if front is front_u:
             front_u, du = nxt, du + 1
         else:
@@ -202,14 +286,12 @@ def local_bridges(G: nx.Graph) -> dict[tuple, float]:
     .. [2] D. Easley, J. Kleinberg, *Networks, Crowds, and Markets*, ch. 3,
        Cambridge University Press (2010).
     """
-    nodes, lo, hi, _ = _edge_arrays(G, weight="__none__")
-    _, common = _common_neighbours(len(nodes), lo, hi)
-    adj = G.adj
-    out = {}
-    for i, j in zip(lo[common == 0].tolist(), hi[common == 0].tolist()):
-        a, b = nodes[i], nodes[j]
-        out[(a, b)] = float(_span(adj, a, b))
-    return out
+    nodes, lo, hi, _ = _edge_arrays(G, weight=None)
+    A = _adjacency(len(nodes), lo, hi)
+    _, common, paths3 = _common_neighbours(A, lo, hi, squares=True)
+    bare = common == 0
+    spans = _spans(G, A, nodes, lo[bare], hi[bare], paths3[bare])
+    return {(nodes[i], nodes[j]): float(x) for i, j, x in zip(lo[bare].tolist(), hi[bare].tolist(), spans.tolist())}
 
 
 def _group_sets(groups: Any) -> dict[int, frozenset]:
@@ -317,37 +399,43 @@ def group_bridges(G: nx.Graph, groups: Any) -> list[dict[str, Any]]:
     sets = _group_sets(groups)
     member_of = _membership(sets)
     nodes, lo, hi, w = _edge_arrays(G)
-    deg, common = _common_neighbours(len(nodes), lo, hi)
+    A = _adjacency(len(nodes), lo, hi)
+    deg, common, paths3 = _common_neighbours(A, lo, hi, squares=True)
     denom = deg[lo] + deg[hi] - 2 - common
     overlap = np.where(denom > 0, common / np.maximum(denom, 1), 0.0)
-    gid = np.array([member_of.get(v, -1) for v in nodes], dtype=np.int64) if nodes else np.zeros(0, dtype=np.int64)
-    between = (gid[lo] >= 0) & (gid[hi] >= 0) & (gid[lo] != gid[hi])
-    idx = np.flatnonzero(between)
-    counts: dict[tuple[int, int], int] = defaultdict(int)
-    for e in idx.tolist():
-        counts[_pair(int(gid[lo[e]]), int(gid[hi[e]]))] += 1
-    adj = G.adj
+    ids = sorted(sets)  # group ids as dense indices 0..len-1, so any int ids work
+    dense = {g: k for k, g in enumerate(ids)}
+    gid = np.array([dense.get(member_of.get(v), -1) for v in nodes], dtype=np.int64)
+    idx = np.flatnonzero((gid[lo] >= 0) & (gid[hi] >= 0) & (gid[lo] != gid[hi]))
+    if len(idx) == 0:
+        return []
+    g_lo, g_hi = gid[lo[idx]], gid[hi[idx]]
+    pair_key = np.minimum(g_lo, g_hi) * len(ids) + np.maximum(g_lo, g_hi)
+    _, inverse, counts = np.unique(pair_key, return_inverse=True, return_counts=True)
+    n_between = counts[inverse]
+    is_lb = common[idx] == 0
+    span = np.full(len(idx), np.nan)
+    lb = np.flatnonzero(is_lb)
+    span[lb] = _spans(G, A, nodes, lo[idx[lb]], hi[idx[lb]], paths3[idx[lb]])
+    score = w[idx] / n_between * np.where(is_lb, 2.0, 1.0)
+    # best first: score down, overlap up, then the pair (edges are already in (lo, hi) order)
+    ranked = np.lexsort((np.arange(len(idx)), overlap[idx], -score))
     out = []
-    for e in idx.tolist():
-        a, b = nodes[lo[e]], nodes[hi[e]]
-        g, h = int(gid[lo[e]]), int(gid[hi[e]])
-        is_lb = bool(common[e] == 0)
-        n_between = counts[_pair(g, h)]
+    for k in ranked.tolist():
+        e = int(idx[k])
         out.append(
             {
-                "a": a,
-                "b": b,
-                "groups": (g, h),
+                "a": nodes[lo[e]],
+                "b": nodes[hi[e]],
+                "groups": (ids[g_lo[k]], ids[g_hi[k]]),
                 "strength": float(w[e]),
                 "overlap": float(overlap[e]),
-                "local_bridge": is_lb,
-                "span": float(_span(adj, a, b)) if is_lb else None,
-                "ties_between": n_between,
-                "score": float(w[e]) / n_between * (2.0 if is_lb else 1.0),
+                "local_bridge": bool(is_lb[k]),
+                "span": float(span[k]) if is_lb[k] else None,
+                "ties_between": int(n_between[k]),
+                "score": float(score[k]),
             }
         )
-    order = {v: k for k, v in enumerate(nodes)}
-    out.sort(key=lambda r: (-r["score"], r["overlap"], order[r["a"]], order[r["b"]]))
     return out
 
 
@@ -456,7 +544,7 @@ def single_points_of_access(
             raise ValueError(f"node {EGO} stands for you and cannot be a contact when ego_ties is given")
         ego_set = {v for v, warmth in ego_ties.items() if v in G and warmth and warmth > 0}
     ego_list = sorted_nodes(ego_set)
-    adj = G.adj
+    adj = G._adj
 
     def neighbours(x):
         if ego_ties is not None and x == EGO:

@@ -20,6 +20,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import cached_property
 from typing import Any, Hashable, Mapping
 
 import igraph as ig
@@ -63,7 +64,9 @@ class _Prepared:
     def n(self) -> int:
         return len(self.nodes)
 
-    def igraph(self) -> ig.Graph:
+    @cached_property
+    def graph(self) -> ig.Graph:
+        """The same edges as an igraph Graph (edge i is (src[i], dst[i]))."""
         return ig.Graph(n=self.n, edges=np.column_stack([self.src, self.dst]).tolist())
 
 
@@ -87,7 +90,11 @@ def _prepare(G, weight: str | None = "weight") -> _Prepared:
         src.append(min(i, j))
         dst.append(max(i, j))
         w.append(1.0 if weight is None else float(d.get(weight, 1.0)))
-    src_a, dst_a, w_a = np.asarray(src, dtype=np.int64), np.asarray(dst, dtype=np.int64), np.asarray(w, dtype=float)
+    return _from_arrays(nodes, np.asarray(src, dtype=np.int64), np.asarray(dst, dtype=np.int64), np.asarray(w, dtype=float))
+
+
+def _from_arrays(nodes: list, src_a: np.ndarray, dst_a: np.ndarray, w_a: np.ndarray) -> _Prepared:
+    """Build from undirected edges given once each as index pairs with src < dst."""
     if w_a.size and not (np.all(np.isfinite(w_a)) and np.all(w_a > 0)):
         raise ValueError("tie strengths must be positive finite numbers")
     order = np.lexsort((dst_a, src_a))
@@ -132,7 +139,7 @@ def _betweenness(prep: _Prepared, pivots: np.ndarray | None) -> np.ndarray:
     n = prep.n
     if n <= 2 or prep.w.size == 0:
         return np.zeros(n)
-    g = prep.igraph()
+    g = prep.graph
     dist = (1.0 / prep.w).tolist()
     if pivots is None:
         raw = np.asarray(g.betweenness(directed=False, weights=dist), dtype=float)
@@ -186,7 +193,7 @@ def _harmonic(prep: _Prepared, pivots: np.ndarray | None) -> np.ndarray:
     if n <= 1:
         return np.zeros(n)
     if pivots is None:
-        g = prep.igraph()
+        g = prep.graph
         vals = g.harmonic_centrality(weights=(1.0 / prep.w).tolist(), normalized=True)
         return np.nan_to_num(np.asarray(vals, dtype=float))
     D = sp.csr_array((1.0 / prep.W.data, prep.W.indices, prep.W.indptr), shape=prep.W.shape)
@@ -287,7 +294,7 @@ def pagerank(G, alpha: float = 0.85, weight: str | None = "weight", *, tol: floa
 def _clustering(prep: _Prepared) -> np.ndarray:
     if prep.n == 0:
         return np.zeros(0)
-    return np.asarray(prep.igraph().transitivity_local_undirected(mode="zero"), dtype=float)
+    return np.asarray(prep.graph.transitivity_local_undirected(mode="zero"), dtype=float)
 
 
 def clustering(G) -> dict[Any, float]:
