@@ -453,6 +453,7 @@ def suggest_merges(
             by_name[nk].append(c)
         for org in {normalise_org(o) for o in c.orgs + c.past_orgs} - {""}:
             by_org[org].append(c)
+    shown = {normalise_org(o): o for c in contacts for o in c.orgs + c.past_orgs}
     for group in by_name.values():
         for i, a in enumerate(group):
             for b in group[i + 1 :]:
@@ -462,7 +463,7 @@ def suggest_merges(
                 dom_b = {email_domain(e) for e in b.emails} - {""}
                 work = {d for d in dom_a & dom_b if not is_webmail(d, extra_webmail)}
                 if orgs_a & orgs_b:
-                    add(a.id, b.id, 0.9, f"same name, both at {sorted(orgs_a & orgs_b)[0]}")
+                    add(a.id, b.id, 0.9, f"same name, both at {shown[sorted(orgs_a & orgs_b)[0]]}")
                 elif work:
                     add(a.id, b.id, 0.8, f"same name, both use {sorted(work)[0]}")
     for org, group in by_org.items():
@@ -475,7 +476,7 @@ def suggest_merges(
                 if name_key(a.name) == name_key(b.name):
                     continue
                 if folded[i] and folded[j] and fuzz.token_set_ratio(folded[i], folded[j]) >= 90:
-                    add(a.id, b.id, 0.7, f"similar names ({a.name} / {b.name}), both at {org}")
+                    add(a.id, b.id, 0.7, f"similar names ({a.name} / {b.name}), both at {shown.get(org, org)}")
     for s in held_back:
         add(s.a, s.b, s.score, s.reason)
     return sorted(out.values(), key=lambda s: (-s.score, s.a, s.b))

@@ -21,6 +21,9 @@ __all__ = [
     "WEBMAIL_DOMAINS",
     "LEGAL_SUFFIXES",
     "is_webmail",
+    "PLACEHOLDER_ORGS",
+    "GENERIC_TAGS",
+    "is_real_org",
 ]
 
 _EMAIL_RE = re.compile(r"^[^@\s<>]+@[^@\s<>]+\.[^@\s<>]+$")
@@ -103,6 +106,7 @@ def fold_text(text: str) -> str:
     t = unicodedata.normalize("NFKD", text)
     t = "".join(ch for ch in t if not unicodedata.combining(ch))
     t = t.replace("ß", "ss").replace("ø", "o").replace("Ø", "o").replace("ł", "l").replace("Ł", "l")
+    t = t.replace("ı", "i").replace("İ", "i")
     t = t.replace("æ", "ae").replace("Æ", "ae").replace("đ", "d").replace("ð", "d").replace("þ", "th")
     t = t.casefold()
     t = re.sub(r"[^\w\s]", " ", t)
@@ -172,3 +176,25 @@ def normalise_org(text: str, aliases: tuple[tuple[str, str], ...] = ()) -> str:
         table = dict(aliases)
         folded = table.get(folded, folded)
     return folded
+
+
+# Values people type in an employer field that are not an organisation. Common
+# practice (no standard list): sharing one of these says nothing about knowing
+# each other.
+PLACEHOLDER_ORGS = frozenset(
+    {"retired", "self employed", "selfemployed", "self", "freelance", "freelancer", "none", "n a", "na", "student",
+     "unemployed", "independent", "private", "home", "various", "unknown", "tbd", "contractor", "homemaker",
+     "between jobs"}
+)
+
+# Address-book labels that almost everyone carries; sharing one is no evidence.
+# Common practice, not a standard list.
+GENERIC_TAGS = frozenset(
+    {"work", "business", "personal", "other", "starred", "mycontacts", "my contacts", "imported", "contacts",
+     "all contacts", "vip", "favourites", "favorites", "important", "misc", "general"}
+)
+
+
+def is_real_org(folded: str) -> bool:
+    """Whether a folded organisation name names an organisation (not "Retired", "Freelance", ...)."""
+    return bool(folded) and folded not in PLACEHOLDER_ORGS

@@ -19,7 +19,10 @@ Each kind of evidence ``k`` gives a pair a non-negative amount ``x_k``:
   give no pairwise evidence;
 * ``domain``: the same for a shared e-mail domain that is not public webmail
   (only when the pair has no organisation evidence, which usually explains it);
-* ``tag``: the same for a shared tag, category or spreadsheet group;
+* ``tag``: the same for a shared tag, category or spreadsheet group (generic
+  labels such as "Work", and labels more than ``tag_share_cap`` of all contacts
+  carry, are no evidence); placeholder employers ("Retired", "Freelance") are
+  not organisations;
 * ``related``: a vCard RELATED property (or a vendor relation field) naming the other.
 
 The strength is ``1 - exp(-sum_k x_k / scale_k)``: each kind acts as an
@@ -47,7 +50,7 @@ import numpy as np
 import scipy.sparse as sp
 
 from .model import Contact, Interaction
-from .normalise import email_domain, fold_text, is_webmail, normalise_org
+from .normalise import GENERIC_TAGS, email_domain, fold_text, is_real_org, is_webmail, normalise_org
 
 __all__ = [
     "TieModel",
@@ -82,6 +85,7 @@ class TieModel:
     size_ref: int = 10  # groups up to this size count in full
     group_cap: int = 500  # larger organisations/tags/domains give no pairwise evidence
     broadcast_cap: int = 50  # larger meetings/threads count for nothing
+    tag_share_cap: float = 0.25  # tags carried by a larger share of contacts say nothing
     min_strength: float = 0.05  # ties weaker than this are left out of the graph
     backbone_alpha: float = 0.0  # disparity filter significance; 0 = off
 
@@ -260,10 +264,10 @@ def infer_ties(
     cur_groups: dict[str, list[int]] = defaultdict(list)
     all_groups: dict[str, list[int]] = defaultdict(list)
     for i, c in enumerate(contacts):
-        cur = {normalise_org(o) for o in c.orgs} - {""}
+        cur = {o for o in map(normalise_org, c.orgs) if is_real_org(o)}
         for o in cur:
             cur_groups[o].append(i)
-        for o in cur | ({normalise_org(o) for o in c.past_orgs} - {""}):
+        for o in cur | {o for o in map(normalise_org, c.past_orgs) if is_real_org(o)}:
             all_groups[o].append(i)
     if all_groups:
         names = sorted(all_groups)
@@ -284,8 +288,12 @@ def infer_ties(
                 dom_groups[d].append(i)
     tag_groups: dict[str, list[int]] = defaultdict(list)
     for i, c in enumerate(contacts):
-        for t in {fold_text(t) for t in c.tags} - {""}:
+        for t in {fold_text(t) for t in c.tags} - {""} - GENERIC_TAGS:
             tag_groups[t].append(i)
+    # A label that a large share of the address book carries is a filing habit, not a circle of
+    # people who know each other (common practice; the share is a setting).
+    if n >= 20:
+        tag_groups = defaultdict(list, {t: m for t, m in tag_groups.items() if len(m) <= model.tag_share_cap * n})
     for kind, groups, base in (("domain", dom_groups, model.domain), ("tag", tag_groups, model.tag)):
         if groups:
             names = sorted(groups)

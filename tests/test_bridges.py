@@ -8,7 +8,7 @@ import random
 import networkx as nx
 import pytest
 
-from mynet.analysis import bridges
+from mynet.analysis import _bridges_sparse
 from mynet.analysis.bridges import (
     EGO,
     group_bridges,
@@ -91,7 +91,7 @@ def test_overlap_blocks_give_the_same_answer(monkeypatch):
     G = nx.relabel_nodes(nx.gnm_random_graph(120, 600, seed=4), lambda v: v + 1)
     whole = neighbourhood_overlap(G)
     spans = local_bridges(G)
-    monkeypatch.setattr(bridges, "_BLOCK_NNZ", 40)
+    monkeypatch.setattr(_bridges_sparse, "_BLOCK_NNZ", 40)
     assert neighbourhood_overlap(G) == whole
     assert local_bridges(G) == spans
 
@@ -181,6 +181,9 @@ def test_group_bridges_ranking():
     assert by[(2, 5)]["local_bridge"] is False and by[(2, 5)]["span"] is None
     assert by[(1, 5)]["overlap"] == pytest.approx(direct_overlap(G)[(1, 5)])
     assert by[(7, 9)]["groups"] == (1, 2)
+    # Any int ids work (stable ids from match_groups need not start at 0).
+    renamed = group_bridges(G, {40: groups[0], -3: groups[1], 7: groups[2]})
+    assert [(r["a"], r["b"], r["groups"]) for r in renamed] == [(7, 9, (-3, 7)), (1, 5, (40, -3)), (4, 8, (40, -3)), (2, 5, (40, -3))]
 
 
 def test_group_bridges_accepts_a_group_result():

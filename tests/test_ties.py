@@ -151,3 +151,13 @@ def test_disparity_filter_keeps_dominant_ties():
     s2 = np.concatenate([s, np.full(5, 0.05)])
     keep = disparity_filter(TieTable(a2, b2, s2, {}, {}, None), 0.05)
     assert keep[0] and not keep[1:6].any()
+
+
+def test_placeholders_and_generic_tags_are_no_evidence():
+    cs = [person(1, "A", ["Retired"], tags=["Work"]), person(2, "B", ["retired"], tags=["work"]),
+          person(3, "C", ["Freelance"]), person(4, "D", ["Freelance"])]
+    assert len(infer_ties(cs, [], ME)) == 0
+    # A tag most of the address book carries is a filing habit, not a circle.
+    many = [person(i, f"P{i}", tags=["Imported 2019" if i <= 25 else "rowing"]) for i in range(1, 31)]
+    t = infer_ties(many, [], ME)
+    assert len(t) == 5 * 4 // 2  # only the 5 rowers (17%), not the 25 (83%) carrying the import label

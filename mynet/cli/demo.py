@@ -9,7 +9,9 @@ from pathlib import Path
 import click
 
 from ..errors import MynetError
+from ..network import describe, evidence_summary, explain_tie, load_network
 from ..workspace import import_paths, merge_suggestions, open_workspace, set_me
+from ..workspace_ties import update_list_setting
 from ._common import note, table
 
 
@@ -22,7 +24,12 @@ def sample_dir() -> Path:
     raise MynetError("the sample_contacts folder is missing from this installation")
 
 
-CONTACT_FILES = ("phone.vcf", "phone-recent.vcf", "old-work.vcf", "conference.csv", "club-members.csv")
+SOURCE_FILES = ("phone.vcf", "phone-recent.vcf", "old-work.vcf", "conference.csv", "club-members.csv",
+                "calendar.ics", "mail.mbox")
+
+
+def heading(text: str) -> None:
+    click.echo(f"\n== {text}")
 
 
 def register(cli: click.Group) -> None:
@@ -37,28 +44,64 @@ def register(cli: click.Group) -> None:
         folder.mkdir(parents=True, exist_ok=True)
         ws = folder / "demo.sqlite"
         note(f"Demo workspace: {ws} (your own workspace is not touched)")
+        click.echo("mynet demo: an invented person's exports, turned into their network. Everyone here is made up.")
         with open_workspace(ws) as store:
-            click.echo("== 1. Who you are")
+            heading("1. Who you are")
             set_me(store, you.get("emails", []), [you.get("name", "")] if you.get("name") else [])
-            click.echo(f"   mynet me --email {' --email '.join(you.get('emails', []))} --name \"{you.get('name', '')}\"")
-            click.echo("\n== 2. Import the exports")
-            files = [src / f for f in CONTACT_FILES if (src / f).exists()]
+            click.echo(f"   You are {you.get('name')} <{', '.join(you.get('emails', []))}>")
+            personal = truth.get("personal_email_domains", [])
+            if personal:
+                update_list_setting(store, "webmail_domains", ",".join(d for d in personal if d != "example.org"))
+                click.echo(f"   Private-mail domains of this world, which say nothing about an employer: {', '.join(personal)}")
+
+            heading("2. Import the exports")
+            files = [src / f for f in SOURCE_FILES if (src / f).exists()]
             report = import_paths(store, files, region="GB")
             for f in report.files:
-                click.echo(f"   {f.path.rsplit('/', 1)[-1]:<20} {f.records:>4} records ({f.kind}){', ' + str(len(f.skipped)) + ' skipped' if f.skipped else ''}")
+                what = f"{f.records} records" if f.kind in ("vcard", "csv") else f"{f.interactions} {'events' if f.kind == 'ics' else 'messages'}"
+                skipped = f", {len(f.skipped)} skipped" if f.skipped else ""
+                click.echo(f"   {Path(f.path).name:<18} {what:>14} ({f.kind}){skipped}")
             click.echo(
-                f"   {report.records_total} records -> {report.contacts_after} contacts; "
+                f"   {report.records_total} records -> {report.contacts_after} contacts: "
                 f"{report.merged_records} duplicate records merged, {report.you_records} were you"
             )
             contacts = store.contacts()
-            multi = sorted(contacts, key=lambda c: (-len(c.sources), c.id))[:5]
-            click.echo("\n== 3. People found in several exports")
-            click.echo(table(["id", "name", "works at", "worked at", "sources"], [
+            names = {c.id: c.name for c in contacts}
+            multi = sorted(contacts, key=lambda c: (-len(c.sources), c.id))[:4]
+            heading("3. One person, several exports (mynet show ID)")
+            click.echo(table(["id", "name", "works at", "worked at", "files"], [
                 (c.id, c.name, ", ".join(c.orgs), ", ".join(c.past_orgs), len(c.sources)) for c in multi
             ]))
             sugg = merge_suggestions(store)
-            click.echo(f"\n== 4. Possible duplicates for you to decide ({len(sugg)})")
-            names = {c.id: c.name for c in contacts}
+            heading(f"4. Possible duplicates, for you to decide ({len(sugg)}; mynet merge A B / mynet apart A B)")
             for s in sugg[:5]:
                 click.echo(f"   {s.score:.2f}  {s.a} {names[s.a]}  /  {s.b} {names[s.b]}: {s.reason}")
+
+            net = load_network(store)
+            heading(f"5. Who knows whom: {len(net.ties)} ties (mynet ties)")
+            t = net.ties
+            order = t.order()
+            click.echo(table(["strength", "between", "and", "why"], [
+                (f"{t.strength[i]:.2f}", net.name(int(t.a[i])), net.name(int(t.b[i])),
+                 "; ".join(describe(e) for e in evidence_summary(net, int(i), t)))
+                for i in order[:6]
+            ]))
+            multiplex = next((int(i) for i in order if len({e["kind"] for e in evidence_summary(net, int(i), t)}) >= 3),
+                             int(order[0]) if len(order) else None)
+            if multiplex is not None:
+                a, b = int(t.a[multiplex]), int(t.b[multiplex])
+                ex = explain_tie(store, net, a, b)
+                heading(f"6. Why? (mynet why {a} {b})")
+                click.echo(f"   {ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}")
+                for ev in ex["evidence"]:
+                    prov = ev.get("provenance")
+                    where = f" per {', '.join(prov[:3])}" if isinstance(prov, list) and prov else ""
+                    click.echo(f"   - {describe(ev)}{where}")
+
+            warm = sorted(net.warmth.values(), key=lambda w: (-w.warmth, w.contact_id))[:5]
+            heading("7. Your warmest contacts (mynet contacts --sort warmth)")
+            click.echo(table(["warmth", "tier", "name", "meetings", "mails", "last"], [
+                (f"{w.warmth:.2f}", w.tier, names[w.contact_id], w.meetings, w.messages_from + w.messages_to, w.last or "-")
+                for w in warm
+            ]))
         click.echo(f"\nTry it yourself: mynet --workspace {ws} contacts --search <name>")
