@@ -24,7 +24,6 @@ from __future__ import annotations
 
 import argparse
 import multiprocessing as mp
-import os
 import sys
 import time
 from pathlib import Path
@@ -34,14 +33,14 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from mynet.analysis.bridges import (  # noqa: E402
+from mynet.analysis.bridges import (
     group_bridges,
     group_links,
     local_bridges,
     neighbourhood_overlap,
     single_points_of_access,
 )
-from mynet.analysis.groups import detect_groups  # noqa: E402
+from mynet.analysis.groups import detect_groups
 
 
 def planted_graph(n: int, m: int, *, mean_block: int = 100, p_in: float = 0.6, seed: int = 0) -> nx.Graph:
@@ -134,11 +133,11 @@ def main() -> None:
     print("groups")
     results = {}
     for backend in ("louvain", "igraph"):
-        sec, mb, (q, k, un) = measure(
-            lambda b=backend: (lambda r: (r.modularity, len(r.groups), len(r.unclustered)))(
-                detect_groups(G, seed=args.seed, backend=b)
-            )
-        )
+        def run(b=backend):
+            res = detect_groups(G, seed=args.seed, backend=b)
+            return res.modularity, len(res.groups), len(res.unclustered)
+
+        sec, mb, (q, k, un) = measure(run)
         results[backend] = sec
         label = "python-louvain" if backend == "louvain" else "igraph"
         row(f"detect_groups backend={backend!r} ({label})", sec, mb, f"Q={q:.4f}, {k} groups, {un} unclustered")
@@ -185,7 +184,11 @@ def main() -> None:
     sec, mb, _ = measure(plain_loop)
     row("plain networkx loop, 2,000 ties", sec, mb, f"extrapolated to all ties: {sec * len(edges) / 2000:.1f} s")
 
-    sec_lb, mb, lb = measure(lambda: (lambda d: (len(d), sum(np.isinf(list(d.values())))))(local_bridges(G)))
+    def run_local_bridges():
+        spans = local_bridges(G)
+        return len(spans), int(np.isinf(list(spans.values())).sum())
+
+    sec_lb, mb, lb = measure(run_local_bridges)
     row("local_bridges (with spans)", sec_lb, mb, f"{lb[0]:,} local bridges, {lb[1]:,} of span inf")
 
     def nx_spans(limit=10):

@@ -116,6 +116,7 @@ class Resolution:
     next_id: int
     auto_merges: int
     held_back: list[Suggestion]
+    not_people: list[str] = field(default_factory=list)  # keys of organisation, group and place cards
 
 
 class _Clusters:
@@ -152,6 +153,10 @@ class _Clusters:
         self.members[ri] |= self.members.pop(rj)
         self.forbid[ri] |= self.forbid.pop(rj, set())
         return True
+
+
+#: vCard 4.0 KIND values (RFC 6350 §6.1.4) that are not a person; such cards are not contacts.
+NOT_PEOPLE = frozenset({"group", "org", "organization", "organisation", "location"})
 
 
 def names_compatible(a: str, b: str) -> bool:
@@ -256,10 +261,13 @@ def resolve(
         clusters[uf.find(i)].append(i)
     me_keys: list[str] = []
     people: list[list[int]] = []
+    not_people: list[str] = []
     for root in sorted(clusters, key=lambda r: min(clusters[r])):
         members = clusters[root]
         if any(me.matches(set(emails[i]), names[i]) for i in members):
             me_keys.extend(stored[i].key for i in members)
+        elif all(stored[i].record.card_kind.strip().lower() in NOT_PEOPLE for i in members):
+            not_people.extend(stored[i].key for i in members)
         else:
             people.append(members)
 
@@ -298,7 +306,7 @@ def resolve(
         ci, cj = mapping.get(stored[i].key), mapping.get(stored[j].key)
         if ci and cj and ci != cj:
             suggestions.append(Suggestion(min(ci, cj), max(ci, cj), 0.5, reason))
-    return Resolution(contacts, mapping, me_keys, next_id, auto, suggestions)
+    return Resolution(contacts, mapping, me_keys, next_id, auto, suggestions, not_people)
 
 
 def canonical_orgs(names: Iterable[str], aliases: dict[str, str] | None = None) -> dict[str, str]:

@@ -68,6 +68,7 @@ class ImportReport:
     records_total: int = 0
     merged_records: int = 0
     you_records: int = 0
+    not_people: int = 0
     suggestions: int = 0
 
     @property
@@ -103,6 +104,7 @@ class ImportReport:
             "contacts_after": self.contacts_after,
             "duplicates_merged": self.merged_records,
             "you_records": self.you_records,
+            "not_people": self.not_people,
             "suggested_merges": self.suggestions,
             "skipped": [
                 {"file": s.source, "line": s.line, "index": s.index, "reason": s.reason} for s in self.skipped
@@ -191,7 +193,8 @@ def import_paths(
             )
         res = refresh_contacts(store)
     report.contacts_after = len(res.contacts)
-    report.records_total = sum(len(c.record_ids) for c in res.contacts) + len(res.me_keys)
+    report.records_total = sum(len(c.record_ids) for c in res.contacts) + len(res.me_keys) + len(res.not_people)
+    report.not_people = len(res.not_people)
     report.merged_records = sum(len(c.record_ids) - 1 for c in res.contacts)
     report.you_records = len(res.me_keys)
     report.suggestions = len(merge_suggestions(store))

@@ -128,7 +128,7 @@ def test_backends_agree_in_modularity(make):
 
 def test_resolution_convention():
     G = karate_unweighted()
-    n_groups = lambda r, b: len(set(detect_groups(G, resolution=r, backend=b, min_size=1).partition.values()))  # noqa: E731
+    n_groups = lambda r, b: len(set(detect_groups(G, resolution=r, backend=b, min_size=1).partition.values()))
     # Above 1 both backends make more, smaller groups (gamma convention).
     for backend in ("louvain", "igraph"):
         assert n_groups(2.0, backend) > n_groups(1.0, backend)
@@ -144,8 +144,8 @@ def test_python_louvain_resolution_below_one_behaves_as_documented():
     # (python-louvain 0.16): below 1 it stops after one level and returns more
     # communities than at 1, while networkx returns fewer.
     G = karate_unweighted()
-    at = lambda r: len(set(community_louvain.best_partition(G, resolution=r, random_state=0).values()))  # noqa: E731
-    nx_at = lambda r: len(nx.community.louvain_communities(G, resolution=r, seed=0))  # noqa: E731
+    at = lambda r: len(set(community_louvain.best_partition(G, resolution=r, random_state=0).values()))
+    nx_at = lambda r: len(nx.community.louvain_communities(G, resolution=r, seed=0))
     assert len(community_louvain.generate_dendrogram(G, resolution=0.5, random_state=0)) == 1
     assert at(0.5) > at(1.0)
     assert nx_at(0.5) < nx_at(1.0)
@@ -323,7 +323,7 @@ def test_label_from_the_largest_share():
 
 
 def test_label_wordings():
-    only = lambda name: {name: ATTRS[name]}  # noqa: E731
+    only = lambda name: {name: ATTRS[name]}
     assert suggest_label([1, 2, 3, 4, 5], only("organisations")) == ("mostly Quillon Labs (3 of 5)", 0.6)
     assert suggest_label([1, 4, 5], only("email_domains")) == ("@velvane.example (2 of 3)", 2 / 3)
     assert suggest_label([1, 2, 3, 4, 5], only("localities")) == ("Brightwater (3 of 5)", 0.6)
@@ -334,6 +334,16 @@ def test_label_ties_go_to_the_attribute_listed_first():
     assert suggest_label([1, 2, 3, 4, 5], attrs)[0] == "Brightwater (3 of 5)"
     attrs = {"organisations": ATTRS["organisations"], "localities": ATTRS["localities"]}
     assert suggest_label([1, 2, 3, 4, 5], attrs)[0] == "mostly Quillon Labs (3 of 5)"
+
+
+def test_label_skips_values_that_say_nothing():
+    members = [1, 2, 3, 4]
+    attrs = {
+        "organisations": {1: ["Retired"], 2: ["retired"], 3: ["Retired"], 4: ["Quillon Labs"]},
+        "tags": {1: ["Work"], 2: ["work"], 3: ["Work"], 4: ["climbing club"]},
+        "email_domains": {1: ["gmail.com"], 2: ["gmail.com"], 3: ["velvane.example"], 4: ["velvane.example"]},
+    }
+    assert suggest_label(members, attrs) == ("@velvane.example (2 of 4)", 0.5)
 
 
 def test_label_falls_back_to_mixed():

@@ -112,3 +112,13 @@ def test_canonical_orgs_short_forms_and_aliases():
     assert m["corrimont"] == "Corrimont"  # two longer names start the same way: left alone
     m = canonical_orgs(["Velvane Robotics", "VR"], {"VR": "Velvane Robotics"})
     assert m["vr"] == "Velvane Robotics"
+
+
+def test_organisation_and_group_cards_are_not_contacts():
+    # RFC 6350 §6.1.4: KIND "group" and "org" cards stand for a group or an organisation, not a person.
+    org = rec(0, "Velvane Robotics", ["info@velvane.example"])
+    org.card_kind = "org"
+    grp = rec(1, "Rowing crew")
+    grp.card_kind = "group"
+    res = resolve(stored([org, grp, rec(2, "Ana Lind", ["ana@x.example"])]), {}, Decisions(), Me())
+    assert [c.name for c in res.contacts] == ["Ana Lind"] and len(res.not_people) == 2

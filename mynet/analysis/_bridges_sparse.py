@@ -8,7 +8,7 @@ a product of 2-hop balls (4 hops) and a bidirectional search beyond.
 from __future__ import annotations
 
 import math
-from typing import Hashable, Mapping
+from collections.abc import Hashable, Mapping
 
 import networkx as nx
 import numpy as np

@@ -24,23 +24,22 @@ References
 
 from __future__ import annotations
 
-import math
 from collections import defaultdict
-from typing import Any, Hashable, Iterable, Mapping
+from collections.abc import Hashable, Iterable, Mapping
+from typing import Any
 
 import networkx as nx
 import numpy as np
-import scipy.sparse as sp
 
 from ._bridges_sparse import _adjacency, _common_neighbours, _spans
 from .groups import _edge_arrays, sorted_nodes
 
 __all__ = [
     "EGO",
-    "neighbourhood_overlap",
-    "local_bridges",
     "group_bridges",
     "group_links",
+    "local_bridges",
+    "neighbourhood_overlap",
     "single_points_of_access",
 ]
 
@@ -309,8 +308,7 @@ def _dfs_cuts(roots: Iterable[Hashable], neighbours) -> tuple[list, dict, dict, 
                 stack.pop()
                 size[x] = len(order) - tin[x]
                 if parent is not None:
-                    if low[x] < low[parent]:
-                        low[parent] = low[x]
+                    low[parent] = min(low[parent], low[x])
                     if low[x] >= tin[parent]:
                         separated[parent].append(x)
     return order, tin, size, separated, started
@@ -442,7 +440,7 @@ def single_points_of_access(
                 keep = min((c for _, c in tied), key=lambda c: _sort_key(min(subtree(c), key=_sort_key)))
             cut = [v for _, c in pieces if c is not None and c != keep for v in subtree(c)]
             if keep is not None and rest > 0:
-                gone = set(v for c in children for v in subtree(c))
+                gone = {v for c in children for v in subtree(c)}
                 gone.add(p)
                 cut.extend(v for v in order[s0 : s0 + n0] if v not in gone)
         if cut:

@@ -28,22 +28,23 @@ from __future__ import annotations
 import math
 import random
 from collections import Counter, defaultdict
+from collections.abc import Hashable, Iterable, Mapping, Sequence
 from dataclasses import dataclass
-from typing import Any, Hashable, Iterable, Mapping, Sequence
+from typing import Any
 
 import networkx as nx
 import numpy as np
 from scipy.optimize import linear_sum_assignment
 
-from ..normalise import fold_text, normalise_org
+from ..normalise import GENERIC_TAGS, fold_text, is_real_org, is_webmail, normalise_org
 
 __all__ = [
     "GroupResult",
     "detect_groups",
     "match_groups",
-    "suggest_label",
     "normalised_mutual_information",
     "sorted_nodes",
+    "suggest_label",
 ]
 
 BACKENDS = ("louvain", "igraph")
@@ -423,11 +424,15 @@ def _attr_kind(name: str) -> str:
 
 
 def _fold(kind: str, value: str) -> str:
+    """The counting key of a value, or "" for a value that says nothing about a group."""
     if kind == "organisation":
-        return normalise_org(value)
+        key = normalise_org(value)
+        return key if is_real_org(key) else ""  # "Retired", "Freelance", ...
     if kind == "domain":
-        return value.strip().lstrip("@").lower()
-    return fold_text(value)
+        key = value.strip().lstrip("@").lower()
+        return "" if is_webmail(key) else key
+    key = fold_text(value)
+    return "" if kind == "tag" and key in GENERIC_TAGS else key
 
 
 def _wording(kind: str, shown: str, count: int, total: int) -> str:
@@ -453,7 +458,10 @@ def suggest_label(
     past counts once). Values are compared folded (case, accents and
     punctuation; organisations also without "The" and legal forms, see
     :func:`mynet.normalise.normalise_org`; domains lower-cased) and shown in
-    the members' most common original spelling.
+    the members' most common original spelling (ties: the first in code-point
+    order). Values that say nothing about a group are skipped: placeholder
+    employers (:func:`mynet.normalise.is_real_org`), generic address-book
+    labels (``GENERIC_TAGS``) and public webmail domains.
 
     Parameters
     ----------

@@ -16,6 +16,7 @@ from ._common import Ctx
 from .contacts import register as _register_contacts
 from .demo import register as _register_demo
 from .network import register as _register_network
+from .reach import register as _register_reach
 
 __all__ = ["main", "cli"]
 
@@ -37,6 +38,7 @@ def cli(ctx: click.Context, workspace: str | None) -> None:
 
 _register_contacts(cli)
 _register_network(cli)
+_register_reach(cli)
 _register_demo(cli)
 
 

@@ -84,7 +84,8 @@ def print_import_report(report, as_json: bool) -> None:
     click.echo(
         f"{report.records_total} records in the workspace -> {report.contacts_after} contacts "
         f"({report.merged_records} duplicate records merged"
-        f"{', ' + str(report.you_records) + ' of them you' if report.you_records else ''}); "
+        f"{', ' + str(report.you_records) + ' of them you' if report.you_records else ''}"
+        f"{', ' + str(report.not_people) + ' organisation or group cards' if report.not_people else ''}); "
         f"{report.suggestions} possible duplicates to review (mynet contacts --suggested)"
     )
 

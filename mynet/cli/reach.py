@@ -1,0 +1,72 @@
+"""``mynet reach``: the warmest chains of introductions to a person, organisation, tag or domain."""
+
+from __future__ import annotations
+
+import click
+
+from ..network import load_network
+from ..reach import reach, resolve_targets
+from ..workspace import find_contact
+from ._common import emit_json, json_option, note
+
+
+def print_path(rank: int, p: dict) -> None:
+    chain = " -> ".join(["you", *p["names"]])
+    click.echo(f"{rank}. {chain}   score {p['score']:.3f}")
+    for step in p["steps"]:
+        frm = "you" if step["from"] == "you" else p["names"][p["path"].index(step["from"])]
+        mark = "  <- weakest" if step is p["steps"][p["weakest_step"]["index"]] else ""
+        click.echo(f"     {frm} -> {step['to_name']} ({step['strength']:.2f}): {step['why'] or 'linked'}{mark}")
+    click.echo(f"     ask: {p['ask']}")
+
+
+def register(cli: click.Group) -> None:
+    @cli.command("reach")
+    @click.option("--to", "to", metavar="WHO", help="A person (id, name or e-mail).")
+    @click.option("--org", metavar="NAME", help="Anyone at this organisation, now or in the past (fuzzy match).")
+    @click.option("--tag", metavar="TAG", help="Anyone carrying this tag.")
+    @click.option("--domain", metavar="DOMAIN", help="Anyone with an address at this mail domain.")
+    @click.option("-k", "--paths", "k", type=int, default=5, show_default=True, help="How many paths (each through a different person).")
+    @click.option("--max-intermediaries", type=int, default=2, show_default=True, help="People between you and the target, at most.")
+    @click.option("--avoid", multiple=True, metavar="WHO", help="Never go through this person (repeatable).")
+    @click.option("--min-strength", type=float, default=0.0, show_default=True, help="Use only steps at least this strong.")
+    @json_option
+    @click.pass_obj
+    def reach_cmd(obj, to, org, tag, domain, k, max_intermediaries, avoid, min_strength, as_json):
+        """Find who can introduce you, step by step, with a suggested ask."""
+        store = obj.store()
+        net = load_network(store)
+        targets = resolve_targets(net, to=to, org=org, tag=tag, domain=domain, find_contact=lambda q: find_contact(store, q))
+        avoid_ids = {find_contact(store, a).id for a in avoid}
+        from ..cli.groups_support import group_of  # noqa: F401  (groups mark paths that cross groups)
+
+        result = reach(net, targets, k=k, max_intermediaries=max_intermediaries, avoid=avoid_ids,
+                       min_strength=min_strength, groups=group_of(store, net))
+        if as_json:
+            emit_json(result.paths)
+            return
+        what = {"person": "", "organisation": "at ", "tag": "tagged ", "domain": "@"}[targets.kind]
+        matched = ", ".join(targets.matched)
+        click.echo(f"Reaching {what}{matched}: {len(targets.members)} {'person' if len(targets.members) == 1 else 'people'}")
+        if targets.kind == "organisation" and targets.query.strip().lower() != matched.lower():
+            note(f"'{targets.query}' matched: {matched}")
+        insiders = [d for d in result.direct if d.get("insider")]
+        if insiders:
+            click.echo("You already know: " + "; ".join(f"{d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'})" for d in insiders))
+        if not result.paths:
+            click.echo("No intro path found" + (f" within {max_intermediaries} intermediaries" if max_intermediaries else "")
+                       + ". Try --max-intermediaries 3, fewer --avoid, or add ties you know of (mynet tie A B).")
+        for rank, p in enumerate(result.paths, 1):
+            click.echo("")
+            print_path(rank, p)
+        cold = [d for d in result.direct if not d.get("insider") and (d["weak"] or d["dormant"])]
+        for d in cold:
+            state = "dormant" if d["dormant"] else "weak"
+            click.echo(f"\nDirect route for comparison: you -> {d['name']} (warmth {d['warmth']:.2f}, {state}, last {d['last'] or '-'})")
+        if len(result.per_target) > 1:
+            click.echo("\nBest way to each person there:")
+            for e in result.per_target:
+                b = e["best"]
+                click.echo(f"  {e['name']}{' (past)' if e['past'] else ''}: {' -> '.join(['you', *b['names']])}  score {b['score']:.3f}")
+        if result.unreachable:
+            click.echo(f"No path to: {', '.join(net.name(m) for m in result.unreachable)}")

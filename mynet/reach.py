@@ -1,0 +1,256 @@
+"""Reach: who can introduce you to a person, an organisation, a tag or a mail domain.
+
+Resolves what the user typed into a set of target contacts (organisations
+matched after normalisation and fuzzily, current and past staff), runs the
+intro-path search of :mod:`mynet.paths` and explains every step in plain words,
+with a suggested ask that never claims more than the evidence says.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+
+from .errors import MynetError, NotFoundError
+from .network import Network, describe, evidence_summary
+from .normalise import email_domain, fold_text, normalise_email, normalise_org
+from .paths import IntroPath, PathIndex, best_per_target, direct_route, find_paths
+
+__all__ = ["Targets", "resolve_targets", "path_index", "reach", "ReachResult", "org_catalogue", "tag_catalogue"]
+
+
+@dataclass
+class Targets:
+    """The contacts a query stands for, and how they were matched."""
+
+    kind: str  # "person", "organisation", "tag", "domain"
+    query: str
+    members: list[int]
+    matched: list[str] = field(default_factory=list)  # organisation/tag spellings matched
+    past: set[int] = field(default_factory=set)  # members who were there only in the past
+
+
+def org_catalogue(net: Network) -> dict[str, str]:
+    """Folded organisation name -> display name, over current and past organisations."""
+    out: dict[str, str] = {}
+    for c in net.contacts:
+        for o in c.orgs + c.past_orgs:
+            out.setdefault(normalise_org(o), o)
+    out.pop("", None)
+    return out
+
+
+def tag_catalogue(net: Network) -> dict[str, str]:
+    out: dict[str, str] = {}
+    for c in net.contacts:
+        for t in c.tags:
+            out.setdefault(fold_text(t), t)
+    out.pop("", None)
+    return out
+
+
+def _fuzzy(query: str, catalogue: dict[str, str], cutoff: float = 85) -> list[str]:
+    """Folded keys matching ``query``: exact, then containment of whole words, then fuzzy (rapidfuzz)."""
+    from rapidfuzz import fuzz, process
+
+    if query in catalogue:
+        return [query]
+    words = query.split()
+    contained = [k for k in catalogue if words and k.split()[: len(words)] == words]
+    if contained:
+        return sorted(contained)
+    hits = process.extract(query, list(catalogue), scorer=fuzz.WRatio, score_cutoff=cutoff, limit=5)
+    return sorted(h[0] for h in hits)
+
+
+def resolve_targets(
+    net: Network, *, to: str | None = None, org: str | None = None, tag: str | None = None, domain: str | None = None,
+    find_contact=None,
+) -> Targets:
+    """Turn a reach query into target contacts.
+
+    Raises
+    ------
+    MynetError
+        When not exactly one kind of target is given.
+    NotFoundError
+        When nothing matches (the message says what was looked for).
+    """
+    given = [(k, v) for k, v in (("person", to), ("organisation", org), ("tag", tag), ("domain", domain)) if v]
+    if len(given) != 1:
+        raise MynetError("say whom to reach with exactly one of --to, --org, --tag or --domain")
+    kind, query = given[0]
+    if kind == "person":
+        if find_contact is None:
+            raise MynetError("a person target needs the workspace")
+        c = find_contact(query)
+        return Targets("person", query, [c.id], [c.name])
+    if kind == "organisation":
+        cat = org_catalogue(net)
+        keys = _fuzzy(normalise_org(query), cat)
+        if not keys:
+            raise NotFoundError(f"no contact works or worked at an organisation like {query!r}")
+        members, past = [], set()
+        for c in net.contacts:
+            cur = {normalise_org(o) for o in c.orgs}
+            old = {normalise_org(o) for o in c.past_orgs}
+            if cur & set(keys):
+                members.append(c.id)
+            elif old & set(keys):
+                members.append(c.id)
+                past.add(c.id)
+        return Targets("organisation", query, members, [cat[k] for k in keys], past)
+    if kind == "tag":
+        cat = tag_catalogue(net)
+        keys = _fuzzy(fold_text(query), cat)
+        if not keys:
+            raise NotFoundError(f"no contact carries a tag like {query!r}")
+        members = [c.id for c in net.contacts if {fold_text(t) for t in c.tags} & set(keys)]
+        return Targets("tag", query, members, [cat[k] for k in keys])
+    dom = query.strip().lstrip("@").lower()
+    members = [c.id for c in net.contacts if any(email_domain(e) == dom or email_domain(e).endswith("." + dom) for e in c.emails)]
+    if not members:
+        raise NotFoundError(f"no contact has an e-mail address at {dom}")
+    return Targets("domain", query, members, [dom])
+
+
+def path_index(net: Network) -> PathIndex:
+    """The tie graph and your warmth compiled for intro-path queries."""
+    warmth = {cid: w.warmth for cid, w in net.warmth.items() if w.warmth > 0}
+    t = net.ties
+    return PathIndex([c.id for c in net.contacts], t.a, t.b, np.clip(t.strength, 1e-9, 1.0), warmth)
+
+
+@dataclass
+class ReachResult:
+    targets: Targets
+    paths: list[dict[str, Any]]
+    direct: list[dict[str, Any]]
+    per_target: list[dict[str, Any]]
+    unreachable: list[int]
+
+
+def _warmth_words(net: Network, cid: int) -> str:
+    w = net.warmth.get(cid)
+    if w is None or w.warmth <= 0:
+        return "no recorded contact"
+    if w.rated is not None:
+        return f"you rated your closeness {w.rated:.1f}"
+    bits = []
+    if w.meetings:
+        bits.append(f"{w.meetings} meeting{'s' if w.meetings != 1 else ''}")
+    mails = w.messages_from + w.messages_to
+    if mails:
+        bits.append(f"{mails} mail{'s' if mails != 1 else ''}")
+    last = f", last {w.last}" if w.last else ""
+    return f"{w.tier}: {' and '.join(bits)}{last}" if bits else w.tier
+
+
+def _tie_row(net: Network, a: int, b: int) -> int | None:
+    lo, hi = sorted((a, b))
+    t = net.ties
+    idx = np.nonzero((t.a == lo) & (t.b == hi))[0]
+    return int(idx[0]) if idx.size else None
+
+
+def _step_why(net: Network, a: int, b: int) -> tuple[str, list[dict]]:
+    i = _tie_row(net, a, b)
+    if i is None:
+        return "", []
+    ev = evidence_summary(net, i)
+    return "; ".join(describe(e) for e in ev), ev
+
+
+def _ask(net: Network, p: IntroPath, whys: list[str]) -> str:
+    """A one-line suggested ask, worded from the evidence only."""
+    first = net.name(p.nodes[0])
+    target = net.name(p.target)
+    if len(p.nodes) == 2:
+        basis = whys[1] or "they are linked"
+        return f"Ask {first} whether they would introduce you to {target} ({basis})."
+    second = net.name(p.nodes[1])
+    return (f"Ask {first} to put you in touch with {second} ({whys[1] or 'linked'}), "
+            f"who may introduce you to {target} ({whys[-1] or 'linked'}).")
+
+
+def _describe_path(net: Network, p: IntroPath, groups: dict[int, Any] | None) -> dict[str, Any]:
+    d = p.to_dict()
+    whys = [_warmth_words(net, p.nodes[0])]
+    for a, b in zip(p.nodes, p.nodes[1:]):
+        whys.append(_step_why(net, a, b)[0])
+    for step, why in zip(d["steps"], whys):
+        step["why"] = why
+        step["to_name"] = net.name(step["to"])
+    d["score"] = round(float(d["score"]), 6)
+    for step in d["steps"]:
+        step["strength"] = round(float(step["strength"]), 4)
+    d["names"] = [net.name(n) for n in p.nodes]
+    weakest = d["steps"][p.weakest_step]
+    d["weakest_step"] = {"index": p.weakest_step, "from": weakest["from"], "to": weakest["to"], "strength": weakest["strength"]}
+    d["ask"] = _ask(net, p, whys)
+    if groups:
+        chain = [None, *p.nodes]
+        crossings = [i for i in range(1, len(chain) - 1) if groups.get(chain[i]) is not None
+                     and groups.get(chain[i + 1]) is not None and groups.get(chain[i]) != groups.get(chain[i + 1])]
+        d["crosses_groups"] = [{"step": i, "from_group": groups.get(chain[i]), "to_group": groups.get(chain[i + 1])} for i in crossings]
+    return d
+
+
+#: Warmth from which your own tie counts as a way in (below it the direct route is "weak").
+WARM_ENOUGH = 0.3
+
+
+def _dormant(last: str | None, days: float) -> bool:
+    from datetime import date
+
+    if not last:
+        return False
+    return (date.today() - date.fromisoformat(last[:10])).days > days
+
+
+def reach(
+    net: Network,
+    targets: Targets,
+    *,
+    k: int = 5,
+    max_intermediaries: int = 2,
+    avoid: set[int] = frozenset(),  # type: ignore[assignment]
+    min_strength: float = 0.0,
+    index: PathIndex | None = None,
+    groups: dict[int, Any] | None = None,
+) -> ReachResult:
+    """Ranked intro paths to the targets, each step explained, plus the direct (cold) routes."""
+    if max_intermediaries < 1:
+        raise MynetError("an intro path has at least one intermediary (--max-intermediaries 1 or more)")
+    index = index or path_index(net)
+    members = [m for m in targets.members if m not in avoid]
+    # For a set of targets, people there you are already warm with are insiders: they are
+    # listed as your direct way in and may be intermediaries towards their colleagues.
+    insiders = [m for m in members if len(members) > 1 and (direct_route(index, m) or 0) >= WARM_ENOUGH]
+    outsiders = [m for m in members if m not in insiders] or members
+    paths = find_paths(index, outsiders, k=k, max_intermediaries=max_intermediaries, avoid=avoid, min_strength=min_strength)
+    described = [_describe_path(net, p, groups) for p in paths]
+    direct = []
+    for m in members:
+        w = direct_route(index, m)
+        if w:
+            info = net.warmth.get(m)
+            direct.append({"target": m, "name": net.name(m), "warmth": round(float(w), 4),
+                           "last": info.last if info else None, "weak": w < WARM_ENOUGH,
+                           "dormant": _dormant(info.last if info else None, net.warmth_model.dormant_days),
+                           "insider": m in insiders})
+    per_target = []
+    unreachable = []
+    if len(outsiders) > 1:
+        best = best_per_target(index, outsiders, k=1, max_intermediaries=max_intermediaries, avoid=avoid, min_strength=min_strength)
+        for m, ps in best.items():
+            if ps:
+                per_target.append({"target": m, "name": net.name(m), "past": m in targets.past,
+                                   "best": _describe_path(net, ps[0], groups)})
+            else:
+                unreachable.append(m)
+    elif outsiders and not paths:
+        unreachable = list(outsiders)
+    return ReachResult(targets, described, sorted(direct, key=lambda d: -d["warmth"]), per_target, unreachable)
