@@ -353,14 +353,18 @@ class Store:
         return Contact.from_dict(json.loads(row[0])) if row else None
 
     # -- decisions -----------------------------------------------------------------
-    def add_decision(self, kind: str, a: str = "", b: str = "", value: Any = "") -> int:
-        """Record one user decision (an input that no re-import may lose)."""
+    def add_decision(self, kind: str, a: str = "", b: str = "", value: Any = "", *, bump: bool = True) -> int:
+        """Record one user decision (an input that no re-import may lose).
+
+        ``bump=False`` is for decisions no derived result depends on (a group's name).
+        """
         with self.transaction():
             cur = self.conn.execute(
                 "INSERT INTO decisions(kind, a, b, value, created_at) VALUES (?, ?, ?, ?, ?)",
                 (kind, a, b, json.dumps(value), _now()),
             )
-            self.bump_data_version()
+            if bump:
+                self.bump_data_version()
         return int(cur.lastrowid)
 
     def decisions(self, kind: str | None = None) -> list[dict[str, Any]]:
@@ -383,6 +387,6 @@ class Store:
                 sql += " AND b = ?"
                 args.append(b)
             n = self.conn.execute(sql, args).rowcount
-            if n:
+            if n and kind != "group_name":
                 self.bump_data_version()
         return n

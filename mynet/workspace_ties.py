@@ -12,7 +12,13 @@ from .warmth import WarmthModel
 
 __all__ = ["add_tie", "remove_tie", "rate_contact", "update_settings", "update_list_setting", "SETTING_GROUPS", "LIST_SETTINGS"]
 
-SETTING_GROUPS = {"tie_model": TieModel, "warmth_model": WarmthModel}
+def _analysis_model():
+    from .analysis.snapshot import AnalysisModel
+
+    return AnalysisModel
+
+
+SETTING_GROUPS = {"tie_model": TieModel, "warmth_model": WarmthModel, "analysis": _analysis_model()}
 
 
 def _pair_keys(store: Store, a: int, b: int) -> tuple[str, str]:

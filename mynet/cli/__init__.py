@@ -17,6 +17,7 @@ from .contacts import register as _register_contacts
 from .demo import register as _register_demo
 from .network import register as _register_network
 from .reach import register as _register_reach
+from .analysis import register as _register_analysis
 
 __all__ = ["main", "cli"]
 
@@ -39,6 +40,7 @@ def cli(ctx: click.Context, workspace: str | None) -> None:
 _register_contacts(cli)
 _register_network(cli)
 _register_reach(cli)
+_register_analysis(cli)
 _register_demo(cli)
 
 

@@ -4,8 +4,6 @@ from __future__ import annotations
 
 
 def group_of(store, net) -> dict[int, int | None]:
-    try:
-        from ..analysis.snapshot import load_analysis
-    except ImportError:
-        return {}
+    from ..analysis.snapshot import load_analysis
+
     return load_analysis(store, net).group_of

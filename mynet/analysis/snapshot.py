@@ -1,0 +1,236 @@
+"""The analysis of a workspace in one object: groups, measures, bridges, shape.
+
+Computes everything the views need from the tie graph, caches it in the
+workspace keyed by a fingerprint of the ties and the settings (so a rating or
+a group name does not trigger a recomputation, a re-import that changes ties
+does), keeps group ids stable across runs and applies the user's group names.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+from dataclasses import asdict, dataclass, field, fields
+from typing import Any, Mapping
+
+import networkx as nx
+import numpy as np
+
+from ..network import Network, load_network
+from ..normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
+from ..store import Store
+from .bridges import group_bridges, group_links, single_points_of_access
+from .centrality import contact_measures
+from .groups import detect_groups, match_groups, suggest_label
+from .structure import network_summary
+
+__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "load_analysis", "name_group", "contact_attrs"]
+
+CACHE_KEY = "analysis:v1"
+STATE_KEY = "groups_state"
+
+
+@dataclass
+class AnalysisModel:
+    """Settings of the analysis (``mynet settings analysis.resolution=1.5``)."""
+
+    resolution: float = 1.0  # above 1: more, smaller groups (networkx's convention)
+    min_group_size: int = 3  # smaller fragments are shown as unclustered
+    seed: int = 0
+    exact_limit: int = 3000  # betweenness is exact up to this many contacts, sampled above
+    samples: int = 256
+    backend: str = "louvain"  # or "igraph" (faster on very large networks)
+
+    @classmethod
+    def from_settings(cls, raw: Mapping | None) -> "AnalysisModel":
+        out = cls()
+        for f in fields(cls):
+            if raw and f.name in raw:
+                setattr(out, f.name, type(getattr(out, f.name))(raw[f.name]))
+        return out
+
+
+@dataclass
+class GroupInfo:
+    id: int
+    name: str  # the user's name, else the suggested label
+    label: str  # the suggested label
+    share: float  # share of members behind the label
+    user_named: bool
+    size: int
+    members: list[int]
+    warm: int = 0  # members you are warm with (warmth >= 0.3)
+    warm_share: float = 0.0
+
+
+@dataclass
+class Analysis:
+    """Everything computed about the shape of the network at one version of the ties."""
+
+    fingerprint: str
+    modularity: float
+    resolution: float
+    groups: list[GroupInfo]
+    group_of: dict[int, int | None]
+    measures: dict[int, dict[str, Any]]
+    measures_info: dict[str, Any]
+    bridges: list[dict[str, Any]]
+    links: list[dict[str, Any]]
+    access: list[dict[str, Any]]
+    summary: dict[str, Any]
+    events: list[dict[str, Any]] = field(default_factory=list)
+
+    def group(self, gid: int) -> GroupInfo | None:
+        return next((g for g in self.groups if g.id == gid), None)
+
+    def to_json(self) -> dict[str, Any]:
+        d = asdict(self)
+        d["group_of"] = {str(k): v for k, v in self.group_of.items()}
+        d["measures"] = {str(k): v for k, v in self.measures.items()}
+        return d
+
+    @classmethod
+    def from_json(cls, d: dict[str, Any]) -> "Analysis":
+        d = dict(d)
+        d["groups"] = [GroupInfo(**g) for g in d["groups"]]
+        d["group_of"] = {int(k): v for k, v in d["group_of"].items()}
+        d["measures"] = {int(k): v for k, v in d["measures"].items()}
+        return cls(**d)
+
+
+def tie_graph(net: Network) -> nx.Graph:
+    """The tie graph (you excluded): every contact a node, ties weighted by strength."""
+    G = nx.Graph()
+    G.add_nodes_from(sorted(c.id for c in net.contacts))
+    t = net.ties
+    order = np.lexsort((t.b, t.a))
+    G.add_weighted_edges_from((int(t.a[i]), int(t.b[i]), float(t.strength[i])) for i in order)
+    return G
+
+
+def contact_attrs(net: Network) -> dict[str, dict[int, list[str]]]:
+    """Per contact: organisations (current and past), tags, work mail domains, places."""
+    extra = set()
+    orgs, tags, domains, places = {}, {}, {}, {}
+    for c in net.contacts:
+        orgs[c.id] = [o for o in c.orgs + c.past_orgs if is_real_org(normalise_org(o))]
+        tags[c.id] = list(c.tags)
+        domains[c.id] = sorted({email_domain(e) for e in c.emails} - {""} - {d for d in map(email_domain, c.emails) if is_webmail(d, extra)})
+        places[c.id] = list(c.localities)
+    return {"organisation": orgs, "tag": tags, "domain": domains, "place": places}
+
+
+def _fingerprint(net: Network, model: AnalysisModel, webmail: list[str]) -> str:
+    h = hashlib.sha1()
+    t = net.ties
+    for arr in (t.a, t.b, np.round(t.strength, 9)):
+        h.update(np.ascontiguousarray(arr).tobytes())
+    h.update(json.dumps(asdict(model), sort_keys=True).encode())
+    h.update(json.dumps(sorted(c.id for c in net.contacts)).encode())
+    h.update(json.dumps(sorted(webmail)).encode())
+    return h.hexdigest()
+
+
+def _first(values: list[str], fold) -> str | None:
+    return fold(values[0]) if values else None
+
+
+def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analysis:
+    G = tie_graph(net)
+    gr = detect_groups(G, resolution=model.resolution, seed=model.seed, min_size=model.min_group_size,
+                       backend=model.backend)
+    state = json.loads(store.meta(STATE_KEY, "{}") or "{}")
+    previous = {int(k): set(v) for k, v in state.get("groups", {}).items()}
+    mapping, events = match_groups(previous, gr.as_sets(), next_id=int(state.get("next_id", 1)))
+    groups = {mapping[g]: sorted(m) for g, m in gr.groups.items()}
+    group_of = {int(v): (mapping[g] if g is not None else None) for v, g in gr.membership.items()}
+    measures, info = contact_measures(G, group_of, seed=model.seed, exact_limit=model.exact_limit, samples=model.samples)
+    measures = {int(k): {mk: (None if isinstance(mv, float) and not np.isfinite(mv) else mv) for mk, mv in m.items()}
+                for k, m in measures.items()}
+    sets = {g: set(m) for g, m in groups.items()}
+    attrs = contact_attrs(net)
+    infos = []
+    for gid in sorted(groups, key=lambda g: (-len(groups[g]), g)):
+        label, share = suggest_label(groups[gid], attrs)
+        infos.append(GroupInfo(gid, label, label, round(float(share), 4), False, len(groups[gid]), groups[gid]))
+    links = [dict(v, a=int(g), b=int(h)) for (g, h), v in sorted(group_links(G, sets).items())]
+    links = [{k: (sorted(map(int, v)) if isinstance(v, (set, frozenset)) else v) for k, v in link.items()} for link in links]
+    bridges = group_bridges(G, sets)
+    ego = {cid: w.warmth for cid, w in net.warmth.items() if w.warmth > 0}
+    access = single_points_of_access(G, sets, ego_ties=ego)
+    flat = {
+        "organisation": {v: _first(x, normalise_org) for v, x in attrs["organisation"].items() if x},
+        "domain": {v: x[0] for v, x in attrs["domain"].items() if x},
+        "tag": {v: _first(x, fold_text) for v, x in attrs["tag"].items() if x},
+    }
+    summary = network_summary(G, group_of, flat, seed=model.seed)
+    new_state = {"groups": {str(g): m for g, m in groups.items()},
+                 "next_id": max([int(state.get("next_id", 1)), *[g + 1 for g in groups]])}
+    with store.transaction():
+        store.set_meta(STATE_KEY, json.dumps(new_state))
+    return Analysis(fp, float(gr.modularity), model.resolution, infos, group_of, measures, _jsonable(info),
+                    _jsonable(bridges), _jsonable(links), _jsonable(access), _jsonable(summary), _jsonable(events))
+
+
+def _jsonable(x: Any) -> Any:
+    """Plain JSON types (numpy scalars, tuples, sets and NaN made safe)."""
+    return json.loads(json.dumps(x, default=_default, allow_nan=True).replace("NaN", "null"))
+
+
+def _default(o: Any) -> Any:
+    if isinstance(o, (np.integer,)):
+        return int(o)
+    if isinstance(o, (np.floating,)):
+        return float(o)
+    if isinstance(o, (set, frozenset, tuple)):
+        return sorted(o) if isinstance(o, (set, frozenset)) else list(o)
+    if isinstance(o, np.ndarray):
+        return o.tolist()
+    raise TypeError(type(o))
+
+
+def analyse(store: Store, net: Network | None = None, *, force: bool = False) -> Analysis:
+    """The analysis, from the cache when the ties and settings have not changed."""
+    net = net or load_network(store)
+    model = AnalysisModel.from_settings(store.setting("analysis", {}))
+    fp = _fingerprint(net, model, store.setting("webmail_domains", []) or [])
+    row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (CACHE_KEY,)).fetchone()
+    result = None
+    if row and not force:
+        data = json.loads(row[0])
+        if data.get("fingerprint") == fp:
+            result = Analysis.from_json(data)
+    if result is None:
+        result = _compute(store, net, model, fp)
+        store.put_cache(CACHE_KEY, result.to_json())
+    _apply_user(store, net, result)
+    return result
+
+
+load_analysis = analyse
+
+
+def _apply_user(store: Store, net: Network, a: Analysis) -> None:
+    """Group names and warm shares: cheap, applied on every load (never cached)."""
+    names = {}
+    for row in store.decisions("group_name"):
+        names[int(row["a"])] = row["value"]
+    for g in a.groups:
+        if names.get(g.id):
+            g.name, g.user_named = names[g.id], True
+        else:
+            g.name, g.user_named = g.label, False
+        g.warm = sum(1 for m in g.members if net.warmth.get(m) and net.warmth[m].warmth >= 0.3)
+        g.warm_share = round(g.warm / g.size, 4) if g.size else 0.0
+
+
+def name_group(store: Store, gid: int, name: str | None) -> None:
+    """Give a group your own name (``None`` or empty: back to the suggested label).
+
+    The name belongs to the group's stable id, which follows the group across
+    re-imports and re-analysis as long as most of its members stay together.
+    """
+    with store.transaction():
+        store.delete_decisions("group_name", str(gid))
+        if name and name.strip():
+            store.add_decision("group_name", str(gid), "", name.strip(), bump=False)
