@@ -159,6 +159,20 @@ class _Clusters:
 NOT_PEOPLE = frozenset({"group", "org", "organization", "organisation", "location"})
 
 
+def is_not_a_person(r: Record) -> bool:
+    """Whether a record stands for an organisation, group or place rather than a person.
+
+    Either its vCard KIND says so (RFC 6350 §6.1.4), or, as address books write
+    a company entry, it has no name parts and its display name is its
+    organisation (common practice in phone exports).
+    """
+    if r.card_kind.strip().lower() in NOT_PEOPLE:
+        return True
+    if r.given.strip() or r.family.strip() or not r.orgs:
+        return False
+    return bool(r.full_name.strip()) and normalise_org(r.full_name) == normalise_org(r.orgs[0])
+
+
 def names_compatible(a: str, b: str) -> bool:
     """Whether two names may belong to one person (shared token, initial or containment).
 
@@ -266,7 +280,7 @@ def resolve(
         members = clusters[root]
         if any(me.matches(set(emails[i]), names[i]) for i in members):
             me_keys.extend(stored[i].key for i in members)
-        elif all(stored[i].record.card_kind.strip().lower() in NOT_PEOPLE for i in members):
+        elif all(is_not_a_person(stored[i].record) for i in members):
             not_people.extend(stored[i].key for i in members)
         else:
             people.append(members)

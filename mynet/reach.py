@@ -164,7 +164,8 @@ def _step_why(net: Network, a: int, b: int) -> tuple[str, list[dict]]:
 
 
 def _ask(net: Network, p: IntroPath, whys: list[str]) -> str:
-    """A one-line suggested ask, worded from the evidence only."""
+    """A one-line suggested ask, worded from the evidence only (its first, strongest item)."""
+    whys = [w.split("; ")[0] for w in whys]
     first = net.name(p.nodes[0])
     target = net.name(p.target)
     if len(p.nodes) == 2:

@@ -225,7 +225,10 @@ def register(cli: click.Group) -> None:
         if limit:
             contacts = contacts[:limit]
         if as_json:
-            emit_json([contact_json(c, extra_fields(c, warmth)) for c in contacts])
+            from .groups_support import group_of
+
+            groups = group_of(store, None)
+            emit_json([contact_json(c, extra_fields(c, warmth) | {"group": groups.get(c.id)}) for c in contacts])
             return
         if not contacts:
             click.echo("No contacts match." if search else "No contacts yet: mynet import FILE...")

@@ -9,7 +9,10 @@ from pathlib import Path
 import click
 
 from ..errors import MynetError
+from ..analysis.audit import audit
+from ..analysis.snapshot import analyse
 from ..network import describe, evidence_summary, explain_tie, load_network
+from ..reach import reach, resolve_targets
 from ..workspace import import_paths, merge_suggestions, open_workspace, set_me
 from ..workspace_ties import update_list_setting
 from ._common import note, table
@@ -104,4 +107,46 @@ def register(cli: click.Group) -> None:
                 (f"{w.warmth:.2f}", w.tier, names[w.contact_id], w.meetings, w.messages_from + w.messages_to, w.last or "-")
                 for w in warm
             ]))
-        click.echo(f"\nTry it yourself: mynet --workspace {ws} contacts --search <name>")
+            analysis = analyse(store, net)
+            heading(f"8. The groups of your network (mynet groups; modularity {analysis.modularity:.2f})")
+            click.echo(table(["id", "size", "warm", "suggested name"], [
+                (g.id, g.size, g.warm, g.name) for g in analysis.groups
+            ]))
+            gnames = {g.id: g.name for g in analysis.groups}
+            if analysis.bridges:
+                b = analysis.bridges[0]
+                heading("9. A bridge between groups (mynet bridges)")
+                click.echo(f"   {net.name(b['a'])} - {net.name(b['b'])}: the only tie between "
+                           f"{' and '.join(gnames.get(g, str(g)) for g in b['groups'])}"
+                           if b.get("ties_between") == 1 else
+                           f"   {net.name(b['a'])} - {net.name(b['b'])} links {' and '.join(gnames.get(g, str(g)) for g in b['groups'])}")
+            findings = audit(store, net, analysis)
+            heading("10. The audit, most useful findings first (mynet audit)")
+            for i, f in enumerate(findings[:3], 1):
+                click.echo(f"   {i}. {f['title']}")
+                click.echo(f"      -> {f['suggestion']}")
+            target = _demo_target(truth, net, analysis)
+            if target:
+                org, result = target
+                heading(f"11. Who can introduce you to someone at {org}? (mynet reach --org \"{org}\")")
+                for rank, p in enumerate(result.paths[:3], 1):
+                    crossing = " [crosses groups]" if p.get("crosses_groups") else ""
+                    click.echo(f"   {rank}. {' -> '.join(['you', *p['names']])}  score {p['score']:.2f}{crossing}")
+                    click.echo(f"      {p['ask']}")
+        click.echo(f"\nTry it yourself: mynet --workspace {ws} browse   (or: groups, reach --org NAME, audit)")
+
+
+def _demo_target(truth: dict, net, analysis):
+    """The first target organisation of the scenario whose best intro path crosses groups."""
+    for t in truth.get("targets", []) if isinstance(truth.get("targets"), list) else truth.get("targets", {}).values():
+        org = t.get("org") if isinstance(t, dict) else None
+        if not org:
+            continue
+        try:
+            targets = resolve_targets(net, org=org)
+        except MynetError:
+            continue
+        result = reach(net, targets, k=3, groups=analysis.group_of)
+        if result.paths and result.paths[0].get("crosses_groups"):
+            return org, result
+    return None

@@ -1,0 +1,198 @@
+"""Groups, audit and reach through the workspace: stable names, caching, the sample scenario."""
+
+from __future__ import annotations
+
+import json
+
+import pytest
+
+from mynet.analysis.audit import audit, blau_index, shannon_evenness
+from mynet.analysis.groups import normalised_mutual_information
+from mynet.analysis.snapshot import analyse, name_group
+from mynet.cli import main
+from mynet.network import load_network
+from mynet.reach import reach, resolve_targets
+from mynet.workspace import import_paths, open_workspace
+
+
+def run(capsys, *args):
+    code = main(list(args))
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def team_csv(path, teams):
+    rows = ["Name,Email,Company,Tags"]
+    for team, people in teams.items():
+        for p in people:
+            rows.append(f"{p},{p.lower().replace(' ', '.')}@{team}.example,{team.title()} Ltd,{team}")
+    path.write_text("\n".join(rows) + "\n", encoding="utf-8")
+    return path
+
+
+TEAMS = {
+    "alder": ["Ana Lind", "Bo Ek", "Cy Moss", "Di Park", "Ed Nam"],
+    "birch": ["Fay Ro", "Gus Tam", "Hal Um", "Ida Vo", "Jo Wu"],
+}
+
+
+def test_group_names_survive_reimport_that_changes_members(tmp_path):
+    f = team_csv(tmp_path / "people.csv", TEAMS)
+    store = open_workspace(tmp_path / "ws.sqlite")
+    import_paths(store, [f])
+    a1 = analyse(store)
+    alder = next(g for g in a1.groups if "Alder" in g.label)
+    name_group(store, alder.id, "Old alder crew")
+    assert next(g for g in analyse(store).groups if g.id == alder.id).name == "Old alder crew"
+    # One member leaves, two join; the group keeps its id and name.
+    teams = {"alder": ["Ana Lind", "Bo Ek", "Cy Moss", "Di Park", "Kim Xu", "Lu Yi"], "birch": TEAMS["birch"]}
+    team_csv(f, teams)
+    import_paths(store, [f])
+    a2 = analyse(store)
+    g = next(g for g in a2.groups if g.id == alder.id)
+    assert g.name == "Old alder crew" and g.user_named and g.size == 6
+    assert {g.id for g in a2.groups} == {g.id for g in a1.groups}
+
+
+def test_results_identical_across_runs_and_cached(tmp_path):
+    f = team_csv(tmp_path / "people.csv", TEAMS)
+    store = open_workspace(tmp_path / "ws.sqlite")
+    import_paths(store, [f])
+    first = analyse(store).to_json()
+    again = analyse(store, force=True).to_json()
+    assert [e["kind"] for e in first.pop("events")] == ["new", "new"] and again.pop("events") == []
+    assert first == again  # same groups (same ids), measures, bridges and summary
+    # A rating changes warmth but not the ties: the cached analysis is reused (same fingerprint).
+    from mynet.workspace_ties import rate_contact
+
+    rate_contact(store, store.contacts()[0].id, 0.9)
+    assert analyse(store).fingerprint == first["fingerprint"]
+
+
+def test_blau_and_shannon_hand_computed():
+    # Hand-computed: counts 2, 2 -> Blau 1 - (0.25 + 0.25) = 0.5; Shannon ln 2, evenness 1.
+    assert blau_index([2, 2]) == pytest.approx(0.5)
+    h, even = shannon_evenness([2, 2])
+    assert h == pytest.approx(0.6931471805599453) and even == pytest.approx(1.0)
+    assert blau_index([4]) == 0.0 and shannon_evenness([4]) == (0.0, 0.0)
+
+
+@pytest.fixture(scope="module")
+def sample_ws(tmp_path_factory):
+    """The sample scenario imported as the demo does it."""
+    from mynet.cli.demo import SOURCE_FILES, sample_dir
+    from mynet.workspace import set_me
+    from mynet.workspace_ties import update_list_setting
+
+    src = sample_dir()
+    truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
+    store = open_workspace(tmp_path_factory.mktemp("sample") / "ws.sqlite")
+    set_me(store, truth["you"]["emails"], [truth["you"]["name"]])
+    update_list_setting(store, "webmail_domains", ",".join(d for d in truth["personal_email_domains"] if d != "example.org"))
+    import_paths(store, [src / f for f in SOURCE_FILES], region="GB")
+    return store, truth
+
+
+def _person_of(store, truth):
+    rec2person = {(r["file"], r["index"]): r.get("person") for r in truth["records"]}
+    cmap = store.contact_map()
+    out = {}
+    for _rid, key, src, rec in store.records():
+        p = rec2person.get((src["path"].rsplit("/", 1)[-1], rec.index))
+        if key in cmap and p:
+            out[cmap[key]] = p
+    return out
+
+
+def test_sample_merging_precision_recall(sample_ws):
+    store, truth = sample_ws
+    import itertools
+
+    rec2person = {(r["file"], r["index"]): r.get("person") for r in truth["records"]}
+    cmap = store.contact_map()
+    pred = {}
+    me_keys = set(json.loads(store.meta("me_keys", "[]")))
+    for _rid, key, src, rec in store.records():
+        pred[(src["path"].rsplit("/", 1)[-1], rec.index)] = "you" if key in me_keys else cmap.get(key, "not-a-contact")
+    tp = fp = fn = 0
+    for a, b in itertools.combinations(sorted(pred), 2):
+        same_true = rec2person[a] is not None and rec2person[a] == rec2person[b]
+        same_pred = pred[a] == pred[b] and pred[a] != "not-a-contact"
+        tp += same_true and same_pred
+        fp += same_pred and not same_true
+        fn += same_true and not same_pred
+    precision, recall = tp / (tp + fp), tp / (tp + fn)
+    print(f"merging on the sample scenario: precision {precision:.3f}, recall {recall:.3f} (pairs {tp}/{fp}/{fn})")
+    assert precision == 1.0 and recall >= 0.9
+    # The duplicates that share no e-mail, phone or UID are all offered as suggestions.
+    from mynet.workspace import merge_suggestions
+
+    person = _person_of(store, truth)
+    offered = {frozenset((person.get(s.a), person.get(s.b))) for s in merge_suggestions(store)}
+    hidden = [d for d in truth["duplicates"] if not d.get("exact_link", True)]
+    assert hidden and all(frozenset((d["person"], d["person"])) in offered or
+                          frozenset({d["person"]}) in offered for d in hidden)
+
+
+def test_sample_ties_recall(sample_ws):
+    store, truth = sample_ws
+    person = _person_of(store, truth)
+    net = load_network(store)
+    pred = {frozenset((person.get(int(a)), person.get(int(b)))) for a, b in zip(net.ties.a, net.ties.b)}
+    true = {frozenset((t["a"], t["b"])) for t in truth["ties"]}
+    recall = len(pred & true) / len(true)
+    clusters = [set(c["members"]) for c in truth["clusters"].values()]
+    plausible = sum(1 for p in pred if p in true or any(p <= c for c in clusters))
+    print(f"ties on the sample scenario: recall {recall:.3f} of {len(true)} true ties; "
+          f"{plausible / len(pred):.3f} of {len(pred)} inferred ties are true ties or inside one true cluster")
+    assert recall >= 0.8 and plausible / len(pred) >= 0.85
+
+
+def test_sample_groups_recover_clusters(sample_ws):
+    store, truth = sample_ws
+    person = _person_of(store, truth)
+    a = analyse(store)
+    people = {p["id"]: p for p in truth["people"]}
+    t, p = {}, {}
+    for c, pid in person.items():
+        cl = people[pid]["clusters"]
+        if len(cl) == 1 and a.group_of.get(c) is not None:
+            t[c], p[c] = cl[0], a.group_of[c]
+    score = normalised_mutual_information(t, p)
+    print(f"groups on the sample scenario: NMI {score:.3f} against the generator's clusters ({len(t)} people)")
+    assert score >= 0.7
+
+
+def test_sample_target_reached_through_a_bridge(sample_ws):
+    store, truth = sample_ws
+    net = load_network(store)
+    a = analyse(store, net)
+    crossing = []
+    for target in truth["targets"].values() if isinstance(truth["targets"], dict) else truth["targets"]:
+        res = reach(net, resolve_targets(net, org=target["org"]), k=3, groups=a.group_of)
+        if res.paths and res.paths[0].get("crosses_groups"):
+            crossing.append(target["org"])
+    assert crossing, "no target organisation's best path crosses between groups"
+    findings = audit(store, net, a)
+    assert findings and findings == sorted(findings, key=lambda f: -f["score"])
+
+
+def test_cli_groups_json_contract_and_contacts_group(sample_ws, capsys):
+    store, _ = sample_ws
+    ws = str(store.path)
+    code, out, _ = run(capsys, "--workspace", ws, "groups", "--json")
+    data = json.loads(out)
+    assert code == 0 and 0 < data["modularity"] < 1
+    assert all({"id", "name", "size", "members"} <= set(g) for g in data["groups"])
+    code, out, _ = run(capsys, "--workspace", ws, "contacts", "--json")
+    people = json.loads(out)
+    grouped = {p["id"]: p["group"] for p in people}
+    g0 = data["groups"][0]
+    assert all(grouped[m] == g0["id"] for m in g0["members"])
+    code, out, _ = run(capsys, "--workspace", ws, "reach", "--org", "velvane", "--json")
+    paths = json.loads(out)
+    assert paths and paths[0]["steps"][0]["from"] == "you"
+    assert [p["score"] for p in paths] == sorted((p["score"] for p in paths), reverse=True)
+    assert all({"score", "path", "steps"} <= set(p) and all({"from", "to", "strength", "why"} <= set(s) for s in p["steps"]) for p in paths)
+    for cmd in (["audit"], ["audit", "--markdown"], ["brokers"], ["bridges"], ["groups", "show", str(g0["id"])]):
+        assert run(capsys, "--workspace", ws, *cmd)[0] == 0
