@@ -34,8 +34,8 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from mynet.analysis.centrality import contact_measures  # noqa: E402
-from mynet.analysis.structure import network_summary  # noqa: E402
+from mynet.analysis.centrality import contact_measures
+from mynet.analysis.structure import network_summary
 
 
 def build_graph(n: int, seed: int) -> tuple[nx.Graph, dict, str]:

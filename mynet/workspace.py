@@ -177,8 +177,16 @@ def import_paths(
         report.files.append(fr)
         parsed.append((key_path, path, data, digest, result))
 
+    from .privacy import forgotten_filter
+
+    is_forgotten = forgotten_filter(store)
     with store.transaction():
-        for key_path, path, data, digest, result in parsed:
+        for (key_path, path, data, digest, result), fr in zip(parsed, [f for f in report.files if f.status in ("imported", "updated")]):
+            kept = [r for r in result.records if not is_forgotten(r, (region or "").upper())]
+            if len(kept) != len(result.records):
+                fr.warnings.append(f"{len(result.records) - len(kept)} record(s) of people you asked mynet to forget were left out")
+                fr.records = len(kept)
+                result.records = kept
             keys = record_keys(result.records, key_path)
             store.replace_source(
                 key_path,

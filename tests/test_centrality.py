@@ -40,11 +40,11 @@ def weighted_random_graph(n: int, m: int, seed: int) -> nx.Graph:
 
 def assert_close(ours: dict, ref: dict, tol: float) -> None:
     assert set(ours) == set(ref)
-    for v in ref:
-        if isinstance(ref[v], float) and math.isnan(ref[v]):
+    for v, expected in ref.items():
+        if isinstance(expected, float) and math.isnan(expected):
             assert math.isnan(ours[v]), v
         else:
-            assert ours[v] == pytest.approx(ref[v], abs=tol), v
+            assert ours[v] == pytest.approx(expected, abs=tol), v
 
 
 # --- Florentine families -------------------------------------------------------------------------

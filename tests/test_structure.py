@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import itertools
 import math
 
 import networkx as nx
@@ -140,7 +141,7 @@ def test_homophily_leaves_out_nodes_without_the_attribute():
     for v, o in sorted(orgs.items()):
         by_org.setdefault(o, []).append(v)
     for members in by_org.values():
-        G.add_edges_from(zip(members, members[1:]))
+        G.add_edges_from(itertools.pairwise(members))
     H = G.subgraph(orgs).copy()
     nx.set_node_attributes(H, orgs, "organisation")
     ref = nx.attribute_assortativity_coefficient(H, "organisation")

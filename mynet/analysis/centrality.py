@@ -19,9 +19,10 @@ insertion order of ``G``; every random choice is drawn from ``seed``.
 from __future__ import annotations
 
 import math
+from collections.abc import Hashable, Mapping
 from dataclasses import dataclass
 from functools import cached_property
-from typing import Any, Hashable, Mapping
+from typing import Any
 
 import igraph as ig
 import networkx as nx
@@ -30,9 +31,9 @@ import scipy.sparse as sp
 from scipy.sparse.csgraph import dijkstra
 
 __all__ = [
-    "contact_measures", "contact_role", "ROLE_THRESHOLDS", "degree_strength", "betweenness", "harmonic_closeness",
-    "pagerank", "clustering", "structural_holes", "constraint", "effective_size", "participation_coefficient",
-    "within_module_degree",
+    "ROLE_THRESHOLDS", "betweenness", "clustering", "constraint", "contact_measures", "contact_role",
+    "degree_strength", "effective_size", "harmonic_closeness", "pagerank", "participation_coefficient",
+    "structural_holes", "within_module_degree",
 ]
 
 #: Thresholds for :func:`contact_role`. ``hub_z`` and the P cut-offs are the published
@@ -67,7 +68,9 @@ class _Prepared:
     @cached_property
     def graph(self) -> ig.Graph:
         """The same edges as an igraph Graph (edge i is (src[i], dst[i]))."""
-        return ig.Graph(n=self.n, edges=np.column_stack([self.src, self.dst]).tolist())
+        g = ig.Graph(n=self.n)
+        g.add_edges(np.column_stack([self.src, self.dst]))  # from numpy: no per-edge Python objects
+        return g
 
 
 def _sorted_nodes(G) -> list:

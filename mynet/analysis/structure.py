@@ -9,7 +9,8 @@ drawn from ``seed``; nodes are sorted before anything is built.
 from __future__ import annotations
 
 import math
-from typing import Any, Hashable, Mapping
+from collections.abc import Hashable, Mapping
+from typing import Any
 
 import numpy as np
 import scipy.sparse as sp
@@ -18,13 +19,13 @@ from scipy.sparse.csgraph import connected_components, shortest_path
 from .centrality import _clustering, _from_arrays, _prepare, _Prepared
 
 __all__ = [
-    "network_summary",
-    "average_path_length",
-    "small_world",
-    "degree_assortativity",
     "attribute_assortativity",
+    "average_path_length",
+    "degree_assortativity",
     "ei_index",
     "network_ei_index",
+    "network_summary",
+    "small_world",
 ]
 
 

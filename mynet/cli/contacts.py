@@ -156,10 +156,24 @@ def register(cli: click.Group) -> None:
             raise InputError(report.refused[0].path, f"and {len(report.refused) - 1} other file(s) were refused" if len(report.refused) > 1 else "was refused (see above)")
 
     @cli.command("sources")
+    @click.option("--remove", "remove", metavar="FILE", help="Remove this source and everything only it supported.")
+    @click.option("--yes", is_flag=True, help="Do not ask for confirmation.")
     @json_option
     @click.pass_obj
-    def sources_cmd(obj, as_json):
-        """List the imported files."""
+    def sources_cmd(obj, remove, yes, as_json):
+        """List the imported files (or remove one)."""
+        if remove:
+            from ..privacy import remove_source
+
+            if not yes:
+                click.confirm(f"Remove {remove} and everything only it supported from the workspace?", abort=True)
+            rep = remove_source(obj.store(), remove)
+            if as_json:
+                emit_json(dict(rep))
+                return
+            click.echo(f"Removed {rep['source']}: {rep['records']} records, {rep['interactions']} events/messages, "
+                       f"{rep['decisions']} decisions about them; the workspace file was compacted.")
+            return
         rows = obj.store().sources()
         if as_json:
             emit_json([{k: r[k] for k in ("id", "path", "kind", "sha256", "as_of", "imported_at", "n_records", "n_skipped")} for r in rows])
@@ -310,6 +324,26 @@ def register(cli: click.Group) -> None:
             emit_json([contact_json(p) for p in parts])
             return
         click.echo("Now separate: " + "; ".join(f"{p.id} {p.name}" for p in parts))
+
+    @cli.command("forget")
+    @click.argument("who")
+    @click.option("--yes", is_flag=True, help="Do not ask for confirmation.")
+    @click.pass_obj
+    def forget_cmd(obj, who, yes):
+        """Remove a person from the workspace completely (records, meetings, mail, decisions, caches).
+
+        Later imports of the same files leave them out (mynet keeps only salted
+        hashes of their addresses, numbers and names, never the values).
+        """
+        from ..privacy import forget_contact
+
+        store = obj.store()
+        c = find_contact(store, who)
+        if not yes:
+            click.confirm(f"Forget {c.name} (id {c.id}) completely? This cannot be undone", abort=True)
+        rep = forget_contact(store, c.id)
+        click.echo(f"Forgotten: {rep['records']} records removed, {rep['interactions_scrubbed']} meetings/messages "
+                   f"cleaned, {rep['decisions']} decisions dropped; the workspace file was compacted.")
 
     @cli.command("apart")
     @click.argument("a")

@@ -1,0 +1,173 @@
+"""Forgetting: remove a person or a source from the workspace completely.
+
+After :func:`forget_contact` or :func:`remove_source` no byte of the removed
+data is left in the SQLite file: rows are deleted with ``secure_delete`` on,
+every cache is dropped (it is derived and is recomputed), the write-ahead log
+is checkpointed and truncated, and the file is vacuumed, which rewrites it
+without free pages.
+
+A forgotten person stays forgotten: a salted hash of each of their e-mail
+addresses, phone numbers and names is kept (never the values themselves), and
+a later import leaves out records that match one.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import secrets
+from typing import Iterable
+
+from .errors import NotFoundError
+from .identity import _norm_emails, _norm_phones  # same normalisation as merging
+from .model import Record
+from .normalise import normalise_email, normalise_name
+from .store import Store
+
+__all__ = ["forget_contact", "remove_source", "compact", "forgotten_filter", "ForgetReport"]
+
+
+def _salt(store: Store) -> str:
+    salt = store.meta("forget_salt")
+    if not salt:
+        salt = secrets.token_hex(16)
+        store.set_meta("forget_salt", salt)
+    return salt
+
+
+def _digest(salt: str, kind: str, value: str) -> str:
+    return hashlib.sha256(f"{salt}\x00{kind}\x00{value}".encode("utf-8")).hexdigest()
+
+
+def _identifiers(r: Record, region: str = "") -> set[tuple[str, str]]:
+    out = {("email", e) for e in _norm_emails(r)} | {("tel", p) for p in _norm_phones(r, region)}
+    name = normalise_name(r.display_name())
+    if name and "@" not in name:
+        out.add(("name", name))
+    return out
+
+
+def forgotten_filter(store: Store):
+    """A predicate telling whether a record belongs to a forgotten person (by e-mail or phone, or by name alone
+    when the record has neither)."""
+    hashes = set(json.loads(store.meta("forgotten", "[]") or "[]"))
+    if not hashes:
+        return lambda r, region="": False
+    salt = _salt(store)
+
+    def is_forgotten(r: Record, region: str = "") -> bool:
+        ids = _identifiers(r, region)
+        strong = [i for i in ids if i[0] != "name"]
+        check = strong or list(ids)
+        return any(_digest(salt, k, v) in hashes for k, v in check)
+
+    return is_forgotten
+
+
+class ForgetReport(dict):
+    """What was removed (counts only: nothing personal)."""
+
+
+def compact(store: Store) -> None:
+    """Drop caches, truncate the write-ahead log and vacuum, so deleted rows leave no trace in the file."""
+    with store.transaction():
+        store.conn.execute("DELETE FROM cache")
+    store.conn.execute("PRAGMA wal_checkpoint(TRUNCATE)")
+    store.conn.execute("VACUUM")
+    store.conn.execute("PRAGMA wal_checkpoint(TRUNCATE)")
+
+
+def _scrub_interactions(store: Store, emails: set[str]) -> int:
+    """Remove addresses (and their display names) from every stored meeting and message."""
+    if not emails:
+        return 0
+    changed = 0
+    rows = store.conn.execute("SELECT id, data FROM interactions").fetchall()
+    for rid, data in rows:
+        d = json.loads(data)
+        people = set(d.get("participants", []))
+        if not people & emails and d.get("sender") not in emails and d.get("organizer") not in emails:
+            continue
+        d["participants"] = sorted(people - emails)
+        d["names"] = {k: v for k, v in (d.get("names") or {}).items() if k not in emails}
+        for key in ("sender", "organizer"):
+            if d.get(key) in emails:
+                d[key] = ""
+        store.conn.execute("UPDATE interactions SET data = ? WHERE id = ?", (json.dumps(d, ensure_ascii=False), rid))
+        changed += 1
+    return changed
+
+
+def _drop_decisions_about(store: Store, keys: Iterable[str]) -> int:
+    keys = list(keys)
+    n = 0
+    for k in keys:
+        n += store.conn.execute("DELETE FROM decisions WHERE a = ? OR b = ?", (k, k)).rowcount
+    return n
+
+
+def forget_contact(store: Store, contact_id: int) -> ForgetReport:
+    """Remove a person completely: records, their addresses in meetings and mail, decisions, caches.
+
+    Raises
+    ------
+    NotFoundError
+        When there is no such contact.
+    """
+    from .workspace import refresh_contacts
+
+    contact = store.contact(contact_id)
+    if contact is None:
+        raise NotFoundError(f"no contact with id {contact_id}")
+    rows = store.records_by_id(contact.record_ids)
+    keys = [k for _rid, k, _s, _r in rows]
+    emails = set(contact.emails)
+    salt = _salt(store)
+    hashes = set(json.loads(store.meta("forgotten", "[]") or "[]"))
+    for _rid, _k, src, rec in rows:
+        hashes.update(_digest(salt, kind, value) for kind, value in _identifiers(rec, src["region"] or ""))
+    with store.transaction():
+        for rid, _k, _s, _r in rows:
+            store.conn.execute("DELETE FROM records WHERE id = ?", (rid,))
+        store.conn.execute("DELETE FROM contact_map WHERE contact_id = ?", (contact_id,))
+        store.conn.execute("DELETE FROM contacts WHERE id = ?", (contact_id,))
+        scrubbed = _scrub_interactions(store, emails)
+        dropped = _drop_decisions_about(store, keys)
+        store.set_meta("forgotten", json.dumps(sorted(hashes)))
+        store.set_meta("groups_state", "{}")
+        store.bump_data_version()
+        refresh_contacts(store)
+    compact(store)
+    return ForgetReport(records=len(rows), interactions_scrubbed=scrubbed, decisions=dropped)
+
+
+def remove_source(store: Store, path: str) -> ForgetReport:
+    """Remove an imported file and everything only it supported (its records, events, messages, and the
+    decisions about records that no longer exist)."""
+    from pathlib import Path
+
+    from .workspace import refresh_contacts
+
+    candidates = [s for s in store.sources() if s["path"] == path or s["path"] == str(Path(path).resolve())
+                  or Path(s["path"]).name == path]
+    if not candidates:
+        raise NotFoundError(f"no imported source {path!r} (see: mynet sources)")
+    if len(candidates) > 1:
+        raise NotFoundError(f"{path!r} matches several sources: " + ", ".join(s["path"] for s in candidates))
+    src = candidates[0]
+    with store.transaction():
+        n_rec = store.conn.execute("SELECT COUNT(*) FROM records WHERE source_id = ?", (src["id"],)).fetchone()[0]
+        n_int = store.conn.execute("SELECT COUNT(*) FROM interactions WHERE source_id = ?", (src["id"],)).fetchone()[0]
+        store.conn.execute("DELETE FROM sources WHERE id = ?", (src["id"],))
+        live = {k for (k,) in store.conn.execute("SELECT rkey FROM records")}
+        orphans = {k for (k,) in store.conn.execute("SELECT rkey FROM contact_map")} - live
+        dropped = 0
+        for row in store.decisions():
+            for key in (row["a"], row["b"]):
+                if key in orphans:
+                    dropped += store.conn.execute("DELETE FROM decisions WHERE id = ?", (row["id"],)).rowcount
+                    break
+        store.bump_data_version()
+        refresh_contacts(store)
+    compact(store)
+    return ForgetReport(source=src["path"], records=n_rec, interactions=n_int, decisions=dropped)

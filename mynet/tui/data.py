@@ -1,0 +1,259 @@
+"""What the browser shows, loaded from the workspace in a worker thread.
+
+A :class:`Snapshot` holds the network and its analysis at one moment; the app
+swaps in a new one after an edit or when another process changed the
+workspace. Every function here that touches the store opens its own
+connection, so it can run in any thread. Nothing here imports Textual.
+"""
+
+from __future__ import annotations
+
+import sqlite3
+import time
+from collections import Counter
+from dataclasses import dataclass, field
+from datetime import date
+from pathlib import Path
+from typing import Any, Callable
+
+import numpy as np
+
+from ..analysis.snapshot import Analysis, GroupInfo, analyse
+from ..errors import WorkspaceError
+from ..identity import Suggestion
+from ..model import Contact
+from ..network import Network, describe, evidence_summary, load_network
+from ..normalise import fold_text
+from ..reach import org_catalogue, tag_catalogue
+from ..store import Store
+from ..workspace import merge_suggestions
+
+__all__ = ["Snapshot", "Extras", "load_snapshot", "load_extras", "with_store", "BusyWait", "tier_of", "Choice", "choices"]
+
+Status = Callable[[str], None]
+
+#: Seconds a worker waits for the write lock before it says the workspace is busy (then it keeps waiting).
+LOCK_PATIENCE = 0.5
+
+
+class BusyWait(Exception):
+    """Raised by a status callback to stop waiting (the app is closing)."""
+
+
+def _busy(exc: BaseException) -> bool:
+    text = str(exc).lower()
+    return isinstance(exc, (WorkspaceError, sqlite3.OperationalError)) and ("busy" in text or "locked" in text)
+
+
+def with_store(path: Path, fn: Callable[[Store], Any], status: Status | None = None, *, patience: float = 600.0) -> Any:
+    """Run ``fn`` on a connection of this thread; wait (and say so) while another process writes.
+
+    Every write in the core runs in one transaction that rolls back on failure,
+    so trying again after a lock timeout is safe.
+    """
+    start = time.monotonic()
+    said = False
+    while True:
+        store = Store(path, create=False, timeout=LOCK_PATIENCE)
+        try:
+            return fn(store)
+        except Exception as exc:  # only lock contention is retried
+            if not _busy(exc) or time.monotonic() - start > patience:
+                raise
+            if status and not said:
+                status("The workspace is busy: another mynet process is writing to it (an import?). Waiting…")
+                said = True
+        finally:
+            store.close()
+        time.sleep(0.2)
+
+
+def tier_of(net: Network, cid: int) -> tuple[float, str, str | None]:
+    """(warmth, tier word, last interaction) for a contact."""
+    w = net.warmth.get(cid)
+    if w is None:
+        return 0.0, "none", None
+    return float(w.warmth), w.tier, w.last
+
+
+@dataclass
+class Choice:
+    """One completion for a reach target: a person, an organisation or a tag."""
+
+    kind: str  # "person", "organisation", "tag"
+    value: str  # what resolve_targets receives (a contact id for a person)
+    label: str
+    folded: str
+    count: int = 1
+
+
+@dataclass
+class Extras:
+    """The slower parts, loaded after the first screen: duplicates and findings."""
+
+    suggestions: list[Suggestion] = field(default_factory=list)
+    findings: list[dict[str, Any]] | None = None
+    findings_error: str = ""
+
+
+@dataclass
+class Snapshot:
+    """The network, its analysis and the indexes the views need, at one moment."""
+
+    path: Path
+    today: date
+    net: Network
+    analysis: Analysis
+    data_version: int
+    extras: Extras | None = None
+    _hay: list[str] | None = None
+    _choices: list[Choice] | None = None
+    _internal: dict[int, tuple[int, float]] | None = None
+
+    # -- people ----------------------------------------------------------------
+    @property
+    def contacts(self) -> list[Contact]:
+        return self.net.contacts
+
+    def group_of(self, cid: int) -> int | None:
+        return self.analysis.group_of.get(cid)
+
+    def group(self, gid: int | None) -> GroupInfo | None:
+        return self.analysis.group(gid) if gid is not None else None
+
+    def group_name(self, gid: int | None) -> str:
+        g = self.group(gid)
+        return g.name if g else "not in a group"
+
+    def role(self, cid: int) -> str:
+        m = self.analysis.measures.get(cid)
+        return (m or {}).get("role") or "isolated"
+
+    def ungrouped(self) -> list[int]:
+        grouped = {m for g in self.analysis.groups for m in g.members}
+        return sorted(c.id for c in self.net.contacts if c.id not in grouped)
+
+    def search(self, text: str) -> list[Contact]:
+        """Contacts matching ``text`` by name, e-mail, phone, organisation, title, tag or place.
+
+        The same fields and folding as :func:`mynet.workspace.search_contacts`, with
+        the folded text prepared once so each keystroke is a plain substring scan.
+        """
+        needle = fold_text(text)
+        if not needle:
+            return list(self.net.contacts)
+        if self._hay is None:
+            self._hay = [
+                fold_text(" | ".join([c.name, *c.nicknames, *c.emails, *c.phones, *c.orgs, *c.past_orgs, *c.titles,
+                                      *c.tags, *c.localities])) + "\0" + "".join(c.phones)
+                for c in self.net.contacts
+            ]
+        digits = needle.replace(" ", "")
+        out = []
+        for c, hay in zip(self.net.contacts, self._hay):
+            folded, _, phones = hay.partition("\0")
+            if needle in folded or digits in phones:
+                out.append(c)
+        return out
+
+    # -- ties --------------------------------------------------------------------
+    def ties_of(self, cid: int) -> list[tuple[int, float, int]]:
+        """(other contact, strength, row of ``net.ties``) for a contact, strongest first."""
+        t = self.net.ties
+        rows = np.nonzero((t.a == cid) | (t.b == cid))[0]
+        out = [(int(t.b[i]) if int(t.a[i]) == cid else int(t.a[i]), float(t.strength[i]), int(i)) for i in rows]
+        out.sort(key=lambda x: (-x[1], self.net.name(x[0])))
+        return out
+
+    def why(self, row: int) -> str:
+        return "; ".join(describe(e) for e in evidence_summary(self.net, row)) or "linked"
+
+    def internal(self, gid: int) -> tuple[int, float]:
+        """(ties inside the group, density inside it)."""
+        if self._internal is None:
+            t = self.net.ties
+            gof = self.analysis.group_of
+            ga = np.array([gof.get(int(x)) if gof.get(int(x)) is not None else -1 for x in t.a], dtype=np.int64)
+            gb = np.array([gof.get(int(x)) if gof.get(int(x)) is not None else -1 for x in t.b], dtype=np.int64)
+            same = (ga == gb) & (ga >= 0)
+            counts = Counter(ga[same].tolist())
+            self._internal = {}
+            for g in self.analysis.groups:
+                n = counts.get(g.id, 0)
+                pairs = g.size * (g.size - 1) / 2
+                self._internal[g.id] = (n, n / pairs if pairs else 0.0)
+        return self._internal.get(gid, (0, 0.0))
+
+    def link(self, g: int, h: int) -> dict[str, Any] | None:
+        lo, hi = min(g, h), max(g, h)
+        return next((x for x in self.analysis.links if x["a"] == lo and x["b"] == hi), None)
+
+    def bridges_between(self, g: int, h: int) -> list[dict[str, Any]]:
+        pair = sorted((g, h))
+        return [b for b in self.analysis.bridges if sorted(b["groups"]) == pair]
+
+    def fragile(self, g: int, h: int) -> bool:
+        """Whether the pair hangs on one person on either side, or on a local bridge."""
+        link = self.link(g, h)
+        if not link:
+            return False
+        here, there = link.get("carriers") or ([], [])
+        return len(here) == 1 or len(there) == 1 or any(b.get("local_bridge") for b in self.bridges_between(g, h))
+
+    # -- reach completion ------------------------------------------------------------
+    def choices(self) -> list[Choice]:
+        if self._choices is None:
+            self._choices = choices(self.net)
+        return self._choices
+
+
+def choices(net: Network) -> list[Choice]:
+    """Every reach target a user may type: organisations, tags, then people."""
+    orgs, tags = org_catalogue(net), tag_catalogue(net)
+    org_count: Counter = Counter()
+    tag_count: Counter = Counter()
+    from ..normalise import normalise_org
+
+    for c in net.contacts:
+        for o in {normalise_org(o) for o in c.orgs + c.past_orgs}:
+            org_count[o] += 1
+        for t in {fold_text(t) for t in c.tags}:
+            tag_count[t] += 1
+    out = [Choice("organisation", orgs[k], orgs[k], fold_text(orgs[k]), org_count[k]) for k in sorted(orgs)]
+    out += [Choice("tag", tags[k], tags[k], k, tag_count[k]) for k in sorted(tags)]
+    for c in net.contacts:
+        where = f" ({c.orgs[0]})" if c.orgs else ""
+        out.append(Choice("person", str(c.id), c.name + where, fold_text(c.name)))
+    return out
+
+
+def load_snapshot(path: Path, today: date | None = None, status: Status | None = None) -> Snapshot:
+    """The network and its analysis (from the workspace cache when current)."""
+    today = today or date.today()
+
+    def run(store: Store) -> Snapshot:
+        version = store.data_version
+        net = load_network(store, today=today)
+        cached = store.conn.execute("SELECT 1 FROM cache WHERE key = 'analysis:v1'").fetchone()
+        if status and not cached:
+            status("Finding groups and measuring the network (first time after an import)…")
+        analysis = analyse(store, net)
+        return Snapshot(path, today, net, analysis, version)
+
+    return with_store(path, run, status)
+
+
+def load_extras(path: Path, snap: Snapshot, status: Status | None = None) -> Extras:
+    """Merge suggestions and the audit findings."""
+
+    def run(store: Store) -> Extras:
+        extras = Extras(suggestions=merge_suggestions(store))
+        try:
+            from ..analysis.audit import audit
+        except ImportError:
+            extras.findings_error = "The audit is not part of this version of mynet yet."
+            return extras
+        extras.findings = list(audit(store, snap.net, snap.analysis))
+        return extras
+
+    return with_store(path, run, status)
