@@ -12,6 +12,8 @@ from __future__ import annotations
 
 import hashlib
 from collections import Counter, defaultdict
+
+import numpy as np
 from dataclasses import dataclass, field
 from typing import Iterable
 
@@ -173,20 +175,42 @@ def is_not_a_person(r: Record) -> bool:
     return bool(r.full_name.strip()) and normalise_org(r.full_name) == normalise_org(r.orgs[0])
 
 
+def _given_compatible(x: str, y: str) -> bool:
+    """Two given names that may be one person's: equal, an initial, a short form, or a near spelling."""
+    if x == y:
+        return True
+    if len(x) == 1 or len(y) == 1:
+        return x[0] == y[0]
+    if min(len(x), len(y)) >= 3 and (x.startswith(y) or y.startswith(x)):
+        return True
+    from rapidfuzz import fuzz
+
+    return fuzz.ratio(x, y) >= 85
+
+
 def names_compatible(a: str, b: str) -> bool:
-    """Whether two names may belong to one person (shared token, initial or containment).
+    """Whether two names may belong to one person.
 
     Used to refuse automatic merges through a shared phone or e-mail between
-    people who are clearly different (a family landline, a shared inbox).
+    people who are clearly different (a family landline, a shared inbox):
+    the given names must agree (equal, an initial, a short form such as
+    "Alex"/"Alexander", or a near spelling), whatever the surnames say, since
+    surnames change and family members share them. "Lind, Ana" is read as
+    "Ana Lind". A missing name is compatible with anything.
     """
     na, nb = normalise_name(a).split(), normalise_name(b).split()
     if not na or not nb:
         return True
-    if set(na) & set(nb):
+    if _given_compatible(na[0], nb[0]):
         return True
+    # One side may be a single word that is the other's given name or nickname-like surname order.
+    if len(na) == 1 or len(nb) == 1:
+        single, other = (na, nb) if len(na) == 1 else (nb, na)
+        return single[0] in other and other.index(single[0]) == 0
     from rapidfuzz import fuzz
 
-    return fuzz.token_set_ratio(" ".join(na), " ".join(nb)) >= 80
+    # Same words in another order ("Lind Ana" exported without a comma).
+    return fuzz.token_sort_ratio(" ".join(na), " ".join(nb)) >= 90
 
 
 def _norm_uid(uid: str) -> str:
@@ -488,16 +512,28 @@ def suggest_merges(
                     add(a.id, b.id, 0.9, f"same name, both at {shown[sorted(orgs_a & orgs_b)[0]]}")
                 elif work:
                     add(a.id, b.id, 0.8, f"same name, both use {sorted(work)[0]}")
+    from rapidfuzz import process
+
     for org, group in by_org.items():
-        if len(group) > 2000:
-            continue  # too coarse a block to compare pairwise
+        if len(group) < 2 or len(group) > 5000:
+            continue  # nothing to compare, or too coarse a block to compare pairwise
         folded = [normalise_name(c.name) for c in group]
-        for i, a in enumerate(group):
-            for j in range(i + 1, len(group)):
-                b = group[j]
-                if name_key(a.name) == name_key(b.name):
-                    continue
-                if folded[i] and folded[j] and fuzz.token_set_ratio(folded[i], folded[j]) >= 90:
+        keys = [name_key(c.name) for c in group]
+        # Block again by shared name word: a token-set similarity of 90 needs one.
+        by_token: dict[str, list[int]] = defaultdict(list)
+        for i, f in enumerate(folded):
+            for tok in set(f.split()):
+                by_token[tok].append(i)
+        for members in by_token.values():
+            if len(members) < 2 or len(members) > 2000:
+                continue
+            names = [folded[i] for i in members]
+            # All pairwise similarities of the block at once (C++), keeping only >= 90.
+            scores = process.cdist(names, names, scorer=fuzz.token_set_ratio, score_cutoff=90, workers=1)
+            for x, y in zip(*np.nonzero(np.triu(scores, k=1))):
+                i, j = members[x], members[y]
+                if keys[i] != keys[j]:
+                    a, b = group[i], group[j]
                     add(a.id, b.id, 0.7, f"similar names ({a.name} / {b.name}), both at {shown.get(org, org)}")
     for s in held_back:
         add(s.a, s.b, s.score, s.reason)

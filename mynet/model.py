@@ -113,7 +113,11 @@ class Record:
         return ""
 
     def to_dict(self) -> dict[str, Any]:
-        return asdict(self)
+        # Faster than dataclasses.asdict (no deep copy): the values are str or lists of str.
+        d = {name: getattr(self, name) for name in _RECORD_FIELDS}
+        d["addresses"] = [a.__dict__.copy() for a in self.addresses]
+        d["related"] = [r.__dict__.copy() for r in self.related]
+        return d
 
     @classmethod
     def from_dict(cls, data: dict[str, Any]) -> "Record":
@@ -122,6 +126,9 @@ class Record:
         kwargs["addresses"] = [Address(**a) for a in kwargs.get("addresses", [])]
         kwargs["related"] = [Related(**r) for r in kwargs.get("related", [])]
         return cls(**kwargs)
+
+
+_RECORD_FIELDS = tuple(f.name for f in fields(Record))
 
 
 @dataclass
@@ -169,7 +176,7 @@ class Contact:
     record_ids: list[int] = field(default_factory=list)
 
     def to_dict(self) -> dict[str, Any]:
-        return asdict(self)
+        return dict(self.__dict__)
 
     @classmethod
     def from_dict(cls, data: dict[str, Any]) -> "Contact":

@@ -103,7 +103,7 @@ def normalise_phone(text: str, region: str | None = None) -> str:
 
 def fold_text(text: str) -> str:
     """Case-folded text without accents, punctuation or extra spaces (for matching)."""
-    t = unicodedata.normalize("NFKD", text)
+    t = unicodedata.normalize("NFKD", text.casefold())
     t = "".join(ch for ch in t if not unicodedata.combining(ch))
     t = t.replace("ß", "ss").replace("ø", "o").replace("Ø", "o").replace("ł", "l").replace("Ł", "l")
     t = t.replace("ı", "i").replace("İ", "i")

@@ -212,6 +212,32 @@ def test_group_links_hand_graph():
     assert group_links(G, {0: {4, 5, 6}, 1: {1, 2, 3}})[(0, 1)]["carriers"] == ([4, 6], [2, 3])
 
 
+def test_group_links_match_a_plain_loop():
+    G = nx.les_miserables_graph()
+    G = nx.relabel_nodes(G, {v: k + 1 for k, v in enumerate(sorted(G))})
+    res = detect_groups(G, seed=0)
+    want: dict = {}
+    for u, v, w in G.edges(data="weight"):
+        g, h = res.membership[u], res.membership[v]
+        if g is None or h is None or g == h:
+            continue
+        if g > h:
+            g, h, u, v = h, g, v, u
+        rec = want.setdefault((g, h), {"ties": 0, "strength": 0.0, "carriers": (set(), set())})
+        rec["ties"] += 1
+        rec["strength"] += w
+        rec["carriers"][0].add(u)
+        rec["carriers"][1].add(v)
+    got = group_links(G, res)
+    assert list(got) == sorted(want)
+    for key, rec in want.items():
+        g, h = key
+        assert got[key]["ties"] == rec["ties"]
+        assert got[key]["strength"] == pytest.approx(rec["strength"])
+        assert got[key]["density"] == pytest.approx(rec["ties"] / (len(res.groups[g]) * len(res.groups[h])))
+        assert got[key]["carriers"] == tuple(sorted(c) for c in rec["carriers"])
+
+
 def test_groups_must_be_disjoint():
     with pytest.raises(ValueError, match="two groups"):
         group_links(hand_graph(), {0: {1, 2}, 1: {2, 3}})

@@ -92,8 +92,14 @@ def test_suggestions_need_name_and_org_or_domain_and_respect_rejections():
 
 def test_names_compatible():
     assert names_compatible("Ana Lind", "Lind, Ana")
+    assert names_compatible("Ana Lind", "Lind Ana")
     assert names_compatible("Ana Lind", "")
+    assert names_compatible("A. Lind", "Ana Lind")
+    assert names_compatible("Alex Moss", "Alexander Moss")
+    assert names_compatible("Ana Lind", "Ana Berg")  # a surname change keeps the person
     assert not names_compatible("Ana Lind", "Bo Karlsson")
+    assert not names_compatible("Ana Lind", "Bo Lind")  # family members share a surname, and often a landline
+    assert not names_compatible("Mum", "Dad")
 
 
 def test_record_keys_stable_under_edits():

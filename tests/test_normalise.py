@@ -62,6 +62,7 @@ def test_normalise_phone(raw, region, expected):
         ("ANA  LIND PhD", "ana lind"),
         ("Søren Dahl", "soren dahl"),
         ("Zoë O'Brien-Marsh", "zoe o brien marsh"),
+        ("Đức Phạm", "duc pham"),
     ],
 )
 def test_normalise_name(raw, expected):

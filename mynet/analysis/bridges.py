@@ -93,11 +93,12 @@ def local_bridges(G: nx.Graph) -> dict[tuple, float]:
     is removed (``inf`` when nothing else joins them); it is at least 3.
     Weights are not used: the same answer as
     ``networkx.local_bridges(G, with_span=True)`` with its default
-    ``weight=None`` (tested). networkx computes spans with a
-    Dijkstra search per local bridge, which took a minute for 154 of the
-    85,000 local bridges of a 10,000-contact, 200,000-tie graph; here common
-    neighbours come from one sparse product and each span from a
-    bidirectional breadth-first search that stops at the first meeting.
+    ``weight=None`` (tested). networkx runs a Dijkstra search per local
+    bridge, about 0.2 s each on a 10,000-contact, 200,000-tie graph with
+    85,000 local bridges (hours in all); here common neighbours and detours
+    of 3 and 4 hops come from sparse products, and only longer spans from a
+    bidirectional breadth-first search that stops at the first meeting (2 s
+    in all on that graph; ``benchmarks/bench_groups.py``).
     networkx's ``weight`` argument, when given, would add up the attribute
     as a distance along the path; for tie strengths (larger = closer) that
     is meaningless, so no weighted span is offered.
@@ -141,10 +142,6 @@ def _membership(groups: Mapping[int, frozenset]) -> dict[Hashable, int]:
     return member_of
 
 
-def _pair(g: int, h: int) -> tuple[int, int]:
-    return (g, h) if g < h else (h, g)
-
-
 def group_links(G: nx.Graph, groups: Any) -> dict[tuple[int, int], dict[str, Any]]:
     """The ties between each pair of groups, for a group-to-group map.
 
@@ -165,32 +162,41 @@ def group_links(G: nx.Graph, groups: Any) -> dict[tuple[int, int], dict[str, Any
     """
     sets = _group_sets(groups)
     member_of = _membership(sets)
-    acc: dict[tuple[int, int], dict[str, Any]] = {}
-    carriers: dict[tuple[int, int], tuple[set, set]] = {}
-    for u, v, w in G.edges(data="weight", default=1.0):
-        g, h = member_of.get(u), member_of.get(v)
-        if g is None or h is None or g == h:
-            continue
-        key = _pair(g, h)
-        rec = acc.setdefault(key, {"ties": 0, "strength": 0.0})
-        rec["ties"] += 1
-        rec["strength"] += float(w)
-        side = carriers.setdefault(key, (set(), set()))
-        if g == key[0]:
-            side[0].add(u), side[1].add(v)
-        else:
-            side[0].add(v), side[1].add(u)
+    nodes, lo, hi, w = _edge_arrays(G)
+    ids, gid = _dense_groups(sets, member_of, nodes)
+    sel = (gid[lo] >= 0) & (gid[hi] >= 0) & (gid[lo] != gid[hi])
+    ga, gb, na, nb, ws = gid[lo[sel]], gid[hi[sel]], lo[sel], hi[sel], w[sel]
+    flip = ga > gb  # orient every tie from the group with the smaller id
+    g1, g2 = np.where(flip, gb, ga), np.where(flip, ga, gb)
+    n1, n2 = np.where(flip, nb, na), np.where(flip, na, nb)
+    pairs, inv = np.unique(g1 * len(ids) + g2, return_inverse=True)
+    ties = np.bincount(inv, minlength=len(pairs))
+    strength = np.bincount(inv, weights=ws, minlength=len(pairs))
+
+    def carriers(ends: np.ndarray) -> list[list]:
+        both = np.unique(inv * len(nodes) + ends)  # distinct (pair, contact), sorted
+        owner, who = both // len(nodes), both % len(nodes)
+        cuts = np.searchsorted(owner, np.arange(len(pairs) + 1))
+        return [[nodes[i] for i in who[cuts[k] : cuts[k + 1]].tolist()] for k in range(len(pairs))]
+
+    side1, side2 = carriers(n1), carriers(n2)
     out = {}
-    for key in sorted(acc):
-        g, h = key
-        rec = acc[key]
-        out[key] = {
-            "ties": rec["ties"],
-            "strength": rec["strength"],
-            "density": rec["ties"] / (len(sets[g]) * len(sets[h])),
-            "carriers": (sorted_nodes(carriers[key][0]), sorted_nodes(carriers[key][1])),
+    for k, key in enumerate(pairs.tolist()):
+        g, h = ids[key // len(ids)], ids[key % len(ids)]
+        out[(g, h)] = {
+            "ties": int(ties[k]),
+            "strength": float(strength[k]),
+            "density": int(ties[k]) / (len(sets[g]) * len(sets[h])),
+            "carriers": (side1[k], side2[k]),
         }
     return out
+
+
+def _dense_groups(sets: Mapping[int, frozenset], member_of: Mapping, nodes: list) -> tuple[list, np.ndarray]:
+    """Group ids in order, and each node's group as a dense index (-1 when unclustered)."""
+    ids = sorted(sets)
+    dense = {g: k for k, g in enumerate(ids)}
+    return ids, np.array([dense.get(member_of.get(v), -1) for v in nodes], dtype=np.int64)
 
 
 def group_bridges(G: nx.Graph, groups: Any) -> list[dict[str, Any]]:
@@ -235,9 +241,7 @@ def group_bridges(G: nx.Graph, groups: Any) -> list[dict[str, Any]]:
     deg, common, paths3 = _common_neighbours(A, lo, hi, squares=True)
     denom = deg[lo] + deg[hi] - 2 - common
     overlap = np.where(denom > 0, common / np.maximum(denom, 1), 0.0)
-    ids = sorted(sets)  # group ids as dense indices 0..len-1, so any int ids work
-    dense = {g: k for k, g in enumerate(ids)}
-    gid = np.array([dense.get(member_of.get(v), -1) for v in nodes], dtype=np.int64)
+    ids, gid = _dense_groups(sets, member_of, nodes)  # dense indices, so any int ids work
     idx = np.flatnonzero((gid[lo] >= 0) & (gid[hi] >= 0) & (gid[lo] != gid[hi]))
     if len(idx) == 0:
         return []
@@ -252,22 +256,33 @@ def group_bridges(G: nx.Graph, groups: Any) -> list[dict[str, Any]]:
     score = w[idx] / n_between * np.where(is_lb, 2.0, 1.0)
     # best first: score down, overlap up, then the pair (edges are already in (lo, hi) order)
     ranked = np.lexsort((np.arange(len(idx)), overlap[idx], -score))
-    out = []
-    for k in ranked.tolist():
-        e = int(idx[k])
-        out.append(
-            {
-                "a": nodes[lo[e]],
-                "b": nodes[hi[e]],
-                "groups": (ids[g_lo[k]], ids[g_hi[k]]),
-                "strength": float(w[e]),
-                "overlap": float(overlap[e]),
-                "local_bridge": bool(is_lb[k]),
-                "span": float(span[k]) if is_lb[k] else None,
-                "ties_between": int(n_between[k]),
-                "score": float(score[k]),
-            }
-        )
+    e = idx[ranked]
+    columns = zip(
+        lo[e].tolist(),
+        hi[e].tolist(),
+        g_lo[ranked].tolist(),
+        g_hi[ranked].tolist(),
+        w[e].tolist(),
+        overlap[e].tolist(),
+        is_lb[ranked].tolist(),
+        span[ranked].tolist(),
+        n_between[ranked].tolist(),
+        score[ranked].tolist(),
+    )
+    out = [
+        {
+            "a": nodes[i],
+            "b": nodes[j],
+            "groups": (ids[gi], ids[gj]),
+            "strength": st,
+            "overlap": ov,
+            "local_bridge": lb_,
+            "span": sp_ if lb_ else None,
+            "ties_between": nb,
+            "score": sc,
+        }
+        for i, j, gi, gj, st, ov, lb_, sp_, nb, sc in columns
+    ]
     return out
 
 
@@ -390,7 +405,7 @@ def single_points_of_access(
     for g in sorted(sets):
         S = sets[g]
         inside, outside = set(), set()
-        for v in S:
+        for v in S & adj.keys():
             for y in neighbours(v):
                 if y not in S and y != v:
                     inside.add(v)

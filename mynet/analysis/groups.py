@@ -203,9 +203,11 @@ def detect_groups(
         Communities with fewer contacts are unclustered (group ``None``).
     backend : {"louvain", "igraph"}, default "louvain"
         ``"louvain"`` runs python-louvain's ``best_partition``; ``"igraph"``
-        runs igraph's ``community_multilevel`` (C code, about ten times faster:
-        on a 50,000-contact, 1,000,000-tie graph about 3 s against 35 s, see
-        ``benchmarks/bench_groups.py``).
+        runs igraph's ``community_multilevel`` (C code, about seven times
+        faster: on a synthetic 50,000-contact, 1,000,000-tie graph 3.5 s
+        against 25 s on two cores, same modularity; see
+        ``benchmarks/bench_groups.py``). Use it for networks of more than a
+        few thousand contacts.
 
     Returns
     -------

@@ -8,7 +8,7 @@ highlight, so it stays visible on a monochrome terminal.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any, Hashable, Sequence
+from typing import Any, Callable, Hashable, Sequence
 
 from rich.segment import Segment
 from rich.style import Style
@@ -40,8 +40,11 @@ class Row:
     """One row: a key the views use, its cells, and whether it is a section heading."""
 
     key: Hashable
-    cells: Sequence[Any]
+    cells: Sequence[Any] | Callable[[], Sequence[Any]]  # a callable is evaluated only when drawn
     heading: bool = False
+
+    def values(self) -> Sequence[Any]:
+        return self.cells() if callable(self.cells) else self.cells
 
 
 class RowList(ScrollView, can_focus=True):
@@ -236,10 +239,11 @@ class RowList(ScrollView, can_focus=True):
             return Strip.blank(width, base)
         row = self.rows[index]
         if row.heading:
-            text = Text(" ") + (row.cells[0] if isinstance(row.cells[0], Text) else Text(str(row.cells[0])))
+            first = row.values()[0]
+            text = Text(" ") + (first if isinstance(first, Text) else Text(str(first)))
             return self._strip(text, width, base + self.get_component_rich_style("rowlist--heading"))
         at_cursor = index == self.cursor
-        text = self._line(row.cells, widths, CURSOR_MARK if at_cursor else " ")
+        text = self._line(row.values(), widths, CURSOR_MARK if at_cursor else " ")
         if at_cursor:
             cls = "rowlist--cursor" if self.has_focus else "rowlist--cursor-blur"
             style = self.get_component_rich_style(cls)

@@ -1,0 +1,229 @@
+"""The network with every computed attribute, for other tools: GraphML, CSV or JSON.
+
+One graph (:func:`network_graph`) is the single source of every format:
+
+* **GraphML** (the open XML format networkx, Gephi and yEd read) via
+  :func:`networkx.write_graphml`. Node ids are contact ids; attributes are
+  plain strings, integers, floats and booleans: lists are joined with
+  ``"; "`` and missing values are left out.
+* **CSV**: two files, ``<stem>-contacts.csv`` (one row per contact) and
+  ``<stem>-ties.csv`` (one row per tie), UTF-8 with a byte-order mark (so
+  spreadsheets read accents right). Safe to open in a spreadsheet, after the
+  OWASP guidance on CSV injection: every *text* cell that starts with ``=``,
+  ``+``, ``-``, ``@``, a tab or a carriage return gets a single quote ``'``
+  in front, so it is shown as text and never run as a formula; text cells are
+  quoted (embedded quotes doubled). Numeric cells (measures, counts,
+  strengths) are written as numbers and left alone, so ``-0.5`` stays a
+  number. Booleans are written ``true`` / ``false``.
+* **JSON**: networkx's node-link form (``nx.node_link_data(G, edges="edges")``).
+
+Tie strength is the edge attribute ``weight``. Free-text notes and web
+addresses are not exported. With ``redact=True`` the graph is built from the
+redacted network (see :mod:`mynet.report.redact`). Files are written
+owner-only (mode 0600).
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+import math
+import os
+from datetime import date
+from pathlib import Path
+from typing import Any, Iterable
+
+import networkx as nx
+
+from .analysis.bridges import neighbourhood_overlap
+from .analysis.snapshot import Analysis, analyse, tie_graph
+from .errors import MynetError
+from .network import Network, describe, evidence_summary, load_network
+from .report import check_redacted
+from .report._io import write_private
+from .report.redact import redact_analysis, redact_network
+from .store import Store
+
+__all__ = ["FORMATS", "network_graph", "graphml_text", "csv_texts", "json_text", "neutralise", "csv_paths",
+           "export_network"]
+
+FORMATS = ("graphml", "csv", "json")
+_SUFFIX = {".graphml": "graphml", ".xml": "graphml", ".csv": "csv", ".json": "json"}
+_RISKY = ("=", "+", "-", "@", "\t", "\r")
+_MEASURES_INT = ("degree",)
+_MEASURES_FLOAT = ("strength", "betweenness", "closeness", "pagerank", "clustering", "constraint", "effective_size",
+                   "participation", "within_z")
+
+CONTACT_COLUMNS = ("id", "label", "emails", "phones", "organisations", "past_organisations", "titles", "tags",
+                   "localities", "group", "group_name", "role", *_MEASURES_INT, *_MEASURES_FLOAT, "warmth", "warmth_tier",
+                   "meetings", "messages", "last_contact")
+TIE_COLUMNS = ("source", "target", "source_label", "target_label", "weight", "organisation", "meeting", "thread",
+               "domain", "tag", "related", "meetings", "threads", "manual", "overlap", "between_groups", "source_group",
+               "target_group", "evidence")
+
+
+def _finite(x: Any) -> float | None:
+    if x is None:
+        return None
+    x = float(x)
+    return x if math.isfinite(x) else None
+
+
+def _put(d: dict[str, Any], key: str, value: Any) -> None:
+    """Set ``key`` unless ``value`` is missing (None, NaN or an empty list)."""
+    if value is None or (isinstance(value, float) and not math.isfinite(value)):
+        return
+    if isinstance(value, (list, tuple)):
+        if not value:
+            return
+        value = "; ".join(str(v) for v in value)
+    d[key] = value
+
+
+def network_graph(net: Network, analysis: Analysis, *, redacted: bool = False) -> nx.Graph:
+    """The tie graph with every contact's and every tie's attributes (see the module docstring)."""
+    G = tie_graph(net)
+    groups = {g.id: g for g in analysis.groups}
+    G.graph.update({"generator": "mynet", "redacted": bool(redacted), "modularity": float(analysis.modularity),
+                    "groups": len(analysis.groups), "contacts": len(net.contacts), "ties": G.number_of_edges()})
+    for c in net.contacts:
+        attrs: dict[str, Any] = {}
+        _put(attrs, "label", c.name)
+        for key, values in (("emails", c.emails), ("phones", c.phones), ("organisations", c.orgs),
+                            ("past_organisations", c.past_orgs), ("titles", c.titles), ("tags", c.tags),
+                            ("localities", c.localities)):
+            _put(attrs, key, list(values))
+        gid = analysis.group_of.get(c.id)
+        if gid is not None:
+            attrs["group"] = int(gid)
+            _put(attrs, "group_name", groups[gid].name if gid in groups else None)
+        m = analysis.measures.get(c.id, {})
+        _put(attrs, "role", m.get("role"))
+        for key in _MEASURES_INT:
+            if m.get(key) is not None:
+                attrs[key] = int(m[key])
+        for key in _MEASURES_FLOAT:
+            _put(attrs, key, _finite(m.get(key)))
+        w = net.warmth.get(c.id)
+        if w is not None:
+            attrs.update(warmth=float(w.warmth), warmth_tier=w.tier, meetings=int(w.meetings),
+                         messages=int(w.messages_from + w.messages_to))
+            _put(attrs, "last_contact", w.last)
+        G.nodes[c.id].update(attrs)
+    overlap = neighbourhood_overlap(G)
+    t = net.ties
+    for i in range(len(t)):
+        a, b = int(t.a[i]), int(t.b[i])
+        e = G.edges[a, b]
+        for kind, arr in t.parts.items():
+            e[kind] = float(arr[i])
+        e["meetings"] = int(t.counts["meeting"][i]) if "meeting" in t.counts else 0
+        e["threads"] = int(t.counts["thread"][i]) if "thread" in t.counts else 0
+        e["manual"] = bool(t.manual[i]) if t.manual is not None else False
+        e["overlap"] = float(overlap.get((min(a, b), max(a, b)), 0.0))
+        ga, gb = analysis.group_of.get(a), analysis.group_of.get(b)
+        e["between_groups"] = ga is not None and gb is not None and ga != gb
+        _put(e, "source_group", ga)
+        _put(e, "target_group", gb)
+        _put(e, "evidence", "; ".join(describe(x) for x in evidence_summary(net, i)))
+    return G
+
+
+def graphml_text(G: nx.Graph) -> str:
+    """``G`` as a GraphML document."""
+    buf = io.BytesIO()
+    nx.write_graphml(G, buf, encoding="utf-8", infer_numeric_types=True)
+    return buf.getvalue().decode("utf-8")
+
+
+def neutralise(value: Any) -> Any:
+    """A CSV cell made safe for spreadsheets (OWASP CSV injection guidance).
+
+    Text starting with ``=``, ``+``, ``-``, ``@``, a tab or a carriage return
+    gets a leading ``'``; numbers are returned unchanged; ``None`` becomes an
+    empty cell and booleans ``true`` / ``false``.
+    """
+    if value is None:
+        return ""
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, (int, float)):
+        return value
+    text = str(value)
+    return "'" + text if text.startswith(_RISKY) else text
+
+
+def _csv(columns: Iterable[str], rows: Iterable[dict[str, Any]]) -> str:
+    buf = io.StringIO()
+    columns = list(columns)
+    w = csv.writer(buf, quoting=csv.QUOTE_NONNUMERIC, lineterminator="\r\n")
+    w.writerow(columns)
+    for r in rows:
+        w.writerow([neutralise(r.get(c)) for c in columns])
+    return buf.getvalue()
+
+
+def csv_texts(G: nx.Graph) -> tuple[str, str]:
+    """(contacts, ties) CSV documents of ``G``, neutralised (see :func:`neutralise`)."""
+    contacts = _csv(CONTACT_COLUMNS, ({"id": n, **d} for n, d in sorted(G.nodes(data=True))))
+    label = dict(G.nodes(data="label"))
+    ties = _csv(TIE_COLUMNS, ({"source": a, "target": b, "source_label": label.get(a), "target_label": label.get(b), **d}
+                              for a, b, d in sorted(G.edges(data=True), key=lambda e: (min(e[:2]), max(e[:2])))))
+    return contacts, ties
+
+
+def json_text(G: nx.Graph) -> str:
+    """``G`` in networkx's node-link JSON form."""
+    data = nx.node_link_data(G, edges="edges")
+    return json.dumps(data, ensure_ascii=False, indent=1, allow_nan=False) + "\n"
+
+
+def csv_paths(path: str | os.PathLike) -> tuple[Path, Path]:
+    """Where ``-o net.csv`` writes: ``net-contacts.csv`` and ``net-ties.csv`` beside it."""
+    p = Path(path)
+    stem = p.stem if p.suffix.lower() == ".csv" else p.name
+    return p.with_name(f"{stem}-contacts.csv"), p.with_name(f"{stem}-ties.csv")
+
+
+def export_network(
+    store: Store,
+    path: str | os.PathLike,
+    fmt: str | None = None,
+    *,
+    redact: bool = False,
+    today: date | None = None,
+) -> list[Path]:
+    """Write the network to ``path`` in ``fmt`` (default: from the suffix) and return the files written.
+
+    Raises
+    ------
+    MynetError
+        For an unknown format or a folder that does not exist.
+    mynet.report.RedactionError
+        With ``redact``, when an original identifier would remain (nothing is written).
+    """
+    p = Path(path)
+    fmt = (fmt or _SUFFIX.get(p.suffix.lower(), "")).lower()
+    if fmt not in FORMATS:
+        raise MynetError(f"say which format to write with --format ({', '.join(FORMATS)}); "
+                         f"{p.name!r} does not tell by its suffix")
+    if not p.parent.is_dir():
+        raise MynetError(f"cannot write {p}: the folder {p.parent} does not exist")
+    net = load_network(store, today=today)
+    analysis = analyse(store, net)
+    ps = None
+    if redact:
+        net, ps = redact_network(net, store.setting("webmail_domains", []) or [])
+        analysis = redact_analysis(analysis, net)
+    G = network_graph(net, analysis, redacted=redact)
+    if fmt == "graphml":
+        out = {p: graphml_text(G)}
+    elif fmt == "json":
+        out = {p: json_text(G)}
+    else:
+        out = dict(zip(csv_paths(p), csv_texts(G)))
+    check_redacted(out.values(), ps)
+    for target, text in out.items():
+        write_private(target, ("\ufeff" + text) if fmt == "csv" else text)
+    return list(out)

@@ -1,0 +1,123 @@
+"""The report: one self-contained HTML file (or Markdown with SVG pictures) about your network.
+
+``write_report(store, "network.html")`` gathers the audit findings, a picture
+of the network, charts of groups, time and warmth, the top brokers and
+bridges and the intro opportunities (:mod:`mynet.report.data`), draws the
+pictures (:mod:`mynet.report.charts`) and writes the page
+(:mod:`mynet.report.html`) or the Markdown and its picture folder
+(:mod:`mynet.report.markdown`). Files are created owner-only (0600, folders
+0700). With ``redact=True`` everything is built from pseudonyms
+(:mod:`mynet.report.redact`) and the finished text is checked once more for
+the original addresses, phones and full names before it is written.
+"""
+
+from __future__ import annotations
+
+import html as _html
+import os
+from datetime import date
+from pathlib import Path
+from typing import Callable, Iterable
+
+from ..errors import MynetError
+from ..store import Store
+from ._io import private_dir, write_private
+from .data import MAX_CONTACTS_DRAWN, STEPS, ReportData, collect
+from .redact import Pseudonyms, find_leaks
+
+__all__ = ["write_report", "collect", "ReportData", "STEPS", "MAX_CONTACTS_DRAWN", "RedactionError", "check_redacted"]
+
+
+class RedactionError(MynetError):
+    """A redacted output still holds an original value (nothing was written)."""
+
+
+def check_redacted(texts: Iterable[str], ps: Pseudonyms | None) -> None:
+    """Raise :class:`RedactionError` when any text holds one of the identifiers ``ps`` replaced.
+
+    Texts are checked as written and with HTML/XML entities resolved.
+    """
+    if ps is None:
+        return
+    for text in texts:
+        for t in (text, _html.unescape(text)):
+            leaks = find_leaks(t, ps.identifiers)
+            if leaks:
+                raise RedactionError(f"the redacted output would still hold {len(leaks)} original value(s); nothing was written")
+
+
+def write_report(
+    store: Store,
+    path: str | os.PathLike,
+    *,
+    markdown: bool = False,
+    redact: bool = False,
+    today: date | None = None,
+    seed: int = 0,
+    max_contacts: int = MAX_CONTACTS_DRAWN,
+    progress: Callable[[str], None] | None = None,
+) -> Path:
+    """Write the report on the workspace to ``path`` and return the path.
+
+    Parameters
+    ----------
+    store : Store
+    path : path-like
+        The HTML file, or with ``markdown`` the ``.md`` file; its pictures then
+        go to the folder ``<stem>_files`` beside it.
+    markdown : bool, default False
+    redact : bool, default False
+        Names, organisations, addresses, phones, notes, tags and places replaced
+        by consistent pseudonyms.
+    today : date, optional
+        The report's date (warmth and dormancy depend on it).
+    seed : int, default 0
+        Seed of the picture's layout.
+    max_contacts : int, default 2000
+        Above this many contacts the picture is the map of groups (the report says so).
+    progress : callable, optional
+        Called with each step's name (``STEPS``) as it starts.
+
+    Raises
+    ------
+    RedactionError
+        With ``redact``, when an original identifier would remain (nothing is written).
+    MynetError
+        When a file cannot be written.
+    """
+    step = progress or (lambda _s: None)
+    out = Path(path)
+    if out.parent and not out.parent.is_dir():
+        raise MynetError(f"cannot write {out}: the folder {out.parent} does not exist")
+    d = collect(store, redact=redact, today=today, max_contacts=max_contacts, progress=step)
+    step("picture")
+    from . import charts
+
+    pictures = {"network": charts.network_svg(d, seed=seed)}
+    step("charts")
+    pictures |= {"groups": charts.groups_svg(d), "time": charts.timeline_svg(d), "tiers": charts.tiers_svg(d)}
+    step("write")
+    if not markdown:
+        from .html import render_html
+
+        text = render_html(d, pictures)
+        check_redacted([text], d.pseudonyms if redact else None)
+        write_private(out, text)
+        return out
+    from .markdown import IMAGE_NAMES, render_markdown
+
+    folder = out.with_name(out.stem + "_files")
+    files = {IMAGE_NAMES["network"]: pictures["network"][0], IMAGE_NAMES["groups"]: pictures["groups"],
+             IMAGE_NAMES["tiers"]: pictures["tiers"]}
+    if pictures["time"]:
+        files[IMAGE_NAMES["time"]] = pictures["time"]
+    text = render_markdown(d, {"network": pictures["network"][1]}, folder.name, has_time=bool(pictures["time"]))
+    check_redacted([text, *files.values()], d.pseudonyms if redact else None)
+    private_dir(folder)
+    for name, svg in files.items():
+        write_private(folder / name, svg)
+    stale = folder / IMAGE_NAMES["time"]
+    if not pictures["time"] and stale.exists():
+        stale.unlink()
+    write_private(out, text)
+    return out

@@ -1,0 +1,217 @@
+"""What a report shows, gathered once as plain data (redacted before anything is written).
+
+:func:`collect` loads the network and its analysis, runs the audit and the
+intro-path search on them and returns a :class:`ReportData` that the HTML and
+Markdown writers and the charts only format. With ``redact=True`` the network
+and analysis are replaced by their redacted copies (:mod:`mynet.report.redact`)
+*before* the audit, the intro paths and the evidence texts are computed, so
+every text in the report is built from pseudonyms.
+"""
+
+from __future__ import annotations
+
+import re
+from collections import Counter, defaultdict
+from dataclasses import dataclass, field
+from datetime import date
+from typing import Any, Callable
+
+from ..analysis.audit import WARM, audit
+from ..analysis.snapshot import Analysis, analyse
+from ..network import Network, describe, evidence_summary, load_network
+from ..normalise import normalise_email
+from ..reach import Targets, path_index, reach
+from ..store import Store
+from ..warmth import BEYOND, NONE, TIERS
+from .redact import Pseudonyms, redact_analysis, redact_network
+
+__all__ = ["ReportData", "collect", "STEPS", "MAX_CONTACTS_DRAWN"]
+
+#: Above this many contacts the picture shows the map of groups instead of every contact.
+MAX_CONTACTS_DRAWN = 2000
+
+#: The steps :func:`collect` and :func:`mynet.report.write_report` report to ``progress``.
+STEPS = ("load network", "analyse", "audit", "intro paths", "timeline", "picture", "charts", "write")
+
+_MONTH = re.compile(r"^(\d{4})-(\d{2})")
+
+
+@dataclass
+class ReportData:
+    """Everything a report shows, already redacted when ``redacted`` is true."""
+
+    generated: str
+    redacted: bool
+    net: Network
+    analysis: Analysis
+    findings: list[dict[str, Any]]
+    groups: list[dict[str, Any]]
+    unclustered: int
+    brokers: list[dict[str, Any]]
+    bridges: list[dict[str, Any]]
+    intros: list[dict[str, Any]]
+    timeline: list[dict[str, Any]]
+    tiers: list[tuple[str, int]]
+    summary: dict[str, Any]
+    picture: str  # "contacts" or "groups"
+    remarks: list[str] = field(default_factory=list)
+    pseudonyms: Pseudonyms | None = None
+
+    def group_name(self, gid: int | None) -> str:
+        if gid is None:
+            return "no group"
+        g = self.analysis.group(gid)
+        return g.name if g else f"group {gid}"
+
+
+def _noop(_step: str) -> None:
+    return None
+
+
+def _tie_rows(net: Network) -> dict[tuple[int, int], int]:
+    t = net.ties
+    return {(int(a), int(b)): i for i, (a, b) in enumerate(zip(t.a.tolist(), t.b.tolist()))}
+
+
+def _brokers(net: Network, a: Analysis, limit: int) -> list[dict[str, Any]]:
+    ranked = sorted(a.measures.items(), key=lambda kv: (-(kv[1].get("betweenness") or 0.0), kv[0]))
+    out = []
+    for cid, m in ranked[:limit]:
+        if not (m.get("betweenness") or 0) > 0:
+            break
+        w = net.warmth.get(cid)
+        out.append({"id": cid, "name": net.name(cid), "group": a.group_of.get(cid), "role": m.get("role") or "",
+                    "betweenness": m.get("betweenness"), "constraint": m.get("constraint"),
+                    "effective_size": m.get("effective_size"), "participation": m.get("participation"),
+                    "warmth": round(w.warmth, 4) if w else 0.0})
+    return out
+
+
+def _bridges(net: Network, a: Analysis, limit: int) -> list[dict[str, Any]]:
+    rows = _tie_rows(net)
+    out = []
+    for b in a.bridges[:limit]:
+        i = rows.get((min(b["a"], b["b"]), max(b["a"], b["b"])))
+        why = "; ".join(describe(e) for e in evidence_summary(net, i)) if i is not None else ""
+        out.append(dict(b, a_name=net.name(b["a"]), b_name=net.name(b["b"]), why=why))
+    return out
+
+
+def _intros(net: Network, a: Analysis, limit: int, k: int) -> list[dict[str, Any]]:
+    """For each group where you have (almost) nobody warm, the best intro paths into it."""
+    cands = sorted((g for g in a.groups if g.size and g.warm_share < 0.2), key=lambda g: (g.warm > 0, g.warm_share, -g.size, g.id))
+    if not cands:
+        return []
+    index = path_index(net)
+    out = []
+    for g in cands[:limit]:
+        res = reach(net, Targets("group", g.name, list(g.members)), k=k, index=index, groups=a.group_of)
+        out.append({"group": g.id, "name": g.name, "size": g.size, "warm": g.warm,
+                    "paths": res.paths, "direct": [d for d in res.direct if not d["weak"]],
+                    "unreachable": len(res.unreachable)})
+    return out
+
+
+def _timeline(store: Store, net: Network) -> list[dict[str, Any]]:
+    """Per month: meetings, messages and the distinct contacts in them (bulk mail left out)."""
+    of = {e: c.id for c in net.contacts for e in c.emails}
+    meetings: Counter = Counter()
+    messages: Counter = Counter()
+    people: dict[str, set[int]] = defaultdict(set)
+    for it in store.interactions():
+        m = _MONTH.match(it.when or "")
+        if not m or it.bulk:
+            continue
+        month = f"{m.group(1)}-{m.group(2)}"
+        (meetings if it.kind == "meeting" else messages)[month] += 1
+        for p in it.participants:
+            cid = of.get(normalise_email(p))
+            if cid is not None:
+                people[month].add(cid)
+    months = sorted(set(meetings) | set(messages))
+    if not months:
+        return []
+    y, mo = map(int, months[0].split("-"))
+    last = months[-1]
+    out = []
+    while True:
+        key = f"{y:04d}-{mo:02d}"
+        out.append({"month": key, "meetings": meetings[key], "messages": messages[key], "people": len(people[key])})
+        if key >= last:
+            break
+        y, mo = (y + 1, 1) if mo == 12 else (y, mo + 1)
+    return out
+
+
+def _tiers(net: Network) -> list[tuple[str, int]]:
+    counts = Counter(w.tier for w in net.warmth.values())
+    order = [t for t, _ in TIERS] + [BEYOND, NONE]
+    missing = len(net.contacts) - sum(counts.values())
+    counts[NONE] += max(0, missing)
+    return [(t, counts.get(t, 0)) for t in order]
+
+
+def collect(
+    store: Store,
+    *,
+    redact: bool = False,
+    today: date | None = None,
+    max_contacts: int = MAX_CONTACTS_DRAWN,
+    limit: int = 10,
+    progress: Callable[[str], None] | None = None,
+) -> ReportData:
+    """Gather the report's content from the workspace.
+
+    Parameters
+    ----------
+    store : Store
+    redact : bool, default False
+        Build everything from pseudonyms (see :mod:`mynet.report.redact`).
+    today : date, optional
+        The report's date (warmth and dormancy depend on it); default today.
+    max_contacts : int, default 2000
+        Above this many contacts the picture is the map of groups.
+    limit : int, default 10
+        Rows in the brokers and bridges tables.
+    progress : callable, optional
+        Called with the name of each step (see ``STEPS``) as it starts.
+    """
+    step = progress or _noop
+    today = today or date.today()
+    step("load network")
+    net = load_network(store, today=today)
+    step("analyse")
+    analysis = analyse(store, net)
+    ps = None
+    if redact:
+        net_r, ps = redact_network(net, store.setting("webmail_domains", []) or [])
+        analysis_r = redact_analysis(analysis, net_r)
+    else:
+        net_r, analysis_r = net, analysis
+    step("audit")
+    findings = audit(store, net_r, analysis_r, today=today)
+    step("intro paths")
+    intros = _intros(net_r, analysis_r, limit=5, k=3)
+    step("timeline")
+    timeline = _timeline(store, net)  # counts only: nothing of the original data leaves this function
+    groups = [{"id": g.id, "name": g.name, "size": g.size, "warm": g.warm, "warm_share": g.warm_share,
+               "user_named": g.user_named,
+               "roles": dict(Counter(analysis_r.measures.get(m, {}).get("role") or "" for m in g.members))}
+              for g in analysis_r.groups]
+    unclustered = sum(1 for v in analysis_r.group_of.values() if v is None)
+    picture = "contacts" if len(net.contacts) <= max_contacts else "groups"
+    remarks = []
+    if picture == "groups":
+        remarks.append(f"With {len(net.contacts):,} contacts (more than {max_contacts:,}) the picture shows the map of "
+                       "groups: one circle per group, sized by its members, and lines sized by the ties between them.")
+    if redact:
+        remarks.append("Redacted: people, organisations, tags, places and mail domains are shown by consistent "
+                       "pseudonyms; phones, titles and notes are left out.")
+    return ReportData(
+        generated=today.isoformat(), redacted=redact, net=net_r, analysis=analysis_r, findings=findings,
+        groups=groups, unclustered=unclustered, brokers=_brokers(net_r, analysis_r, limit),
+        bridges=_bridges(net_r, analysis_r, limit), intros=intros, timeline=timeline, tiers=_tiers(net_r),
+        summary=dict(analysis_r.summary, modularity=analysis_r.modularity, contacts=len(net.contacts),
+                     warm=sum(1 for w in net.warmth.values() if w.warmth >= WARM)),
+        picture=picture, remarks=remarks, pseudonyms=ps,
+    )

@@ -1,0 +1,113 @@
+"""The report as Markdown, its pictures as SVG files in a folder beside it.
+
+``network.md`` refers to ``network_files/picture.svg`` (and ``groups.svg``,
+``time.svg``, ``tiers.svg``) by relative links, so the folder can be moved as
+a whole and every Markdown viewer that shows local images shows them. Text
+from the data is escaped twice over: HTML's special characters become
+entities (Markdown passes raw HTML through) and Markdown's own punctuation is
+backslash-escaped, so a name can neither inject markup nor break a table.
+"""
+
+from __future__ import annotations
+
+import html
+import re
+from typing import Any
+
+from ._text import READING_NOTES, SECTIONS, group_roles, num, path_chain, pct, xml_safe
+from .data import ReportData
+
+__all__ = ["render_markdown", "md", "IMAGE_NAMES"]
+
+#: File names of the pictures inside the ``<stem>_files`` folder.
+IMAGE_NAMES = {"network": "picture.svg", "groups": "groups.svg", "time": "time.svg", "tiers": "tiers.svg"}
+
+_MD_SPECIAL = re.compile(r"([\\`*_{}\[\]()#+!|~>-])")
+
+
+def md(text: Any) -> str:
+    """Text from the data, safe inside a Markdown paragraph or table cell (one line)."""
+    t = " ".join(xml_safe(text).split())
+    return _MD_SPECIAL.sub(r"\\\1", html.escape(t, quote=False))
+
+
+def _table(headers: list[str], rows: list[list[Any]]) -> list[str]:
+    out = ["| " + " | ".join(md(h) for h in headers) + " |", "|" + "---|" * len(headers)]
+    out += ["| " + " | ".join(md(c) for c in r) + " |" for r in rows]
+    return out + [""]
+
+
+def _img(folder: str, key: str, alt: str) -> str:
+    return f"![{md(alt)}]({folder}/{IMAGE_NAMES[key]})"
+
+
+def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has_time: bool = True) -> str:
+    """The Markdown text; ``folder`` is the relative name of the pictures' folder."""
+    s = d.summary
+    L: list[str] = ["# Your network", ""]
+    if d.redacted:
+        L += ["**Redacted copy:** names and addresses are pseudonyms.", ""]
+    L += [md(f"{s.get('contacts', 0):,} contacts, {s.get('ties', 0):,} ties, {len(d.groups)} groups (modularity "
+             f"{num(s.get('modularity'))}); {s.get('warm', 0):,} warm contacts. Made by mynet on {d.generated} from your "
+             "own workspace."), ""]
+    titles = dict(SECTIONS)
+    n = iter(range(1, len(SECTIONS) + 1))
+
+    def head(key: str) -> None:
+        L.extend([f"## {next(n)}. {titles[key]}", ""])
+
+    head("findings")
+    for i, f in enumerate(d.findings, 1):
+        L += [f"{i}. **{md(f['title'])}** ({md(f.get('severity', 'low'))})  ", f"   {md(f['detail'])}  ",
+              f"   *Suggestion:* {md(f['suggestion'])}", ""]
+    if not d.findings:
+        L += ["Nothing to report yet.", ""]
+    head("picture")
+    L += [_img(folder, "network", "The network: groups as regions, contacts as marks"), "", f"*{md(captions['network'])}*", ""]
+    L += [md(r) + "\n" for r in d.remarks]
+    head("groups")
+    L += [_img(folder, "groups", "Contacts and warm contacts per group"), ""]
+    L += _table(["group", "name", "contacts", "warm", "warm share", "roles"],
+                [[f"G{g['id']}", g["name"] + ("" if g["user_named"] else " (suggested)"), g["size"], g["warm"],
+                  pct(g["warm_share"]), group_roles(g["roles"])] for g in d.groups])
+    if d.unclustered:
+        L += [f"{d.unclustered:,} contacts have too few ties to belong to a group.", ""]
+    head("time")
+    L += [_img(folder, "time", "Interactions per month") if has_time else "No dated meetings or messages imported yet.", ""]
+    L += [_img(folder, "tiers", "Contacts by warmth layer"), ""]
+    head("brokers")
+    if d.brokers:
+        L += _table(["contact", "role", "group", "betweenness", "constraint", "effective size", "participation", "your warmth"],
+                    [[b["name"], b["role"], d.group_name(b["group"]), num(b["betweenness"], 3), num(b["constraint"]),
+                      num(b["effective_size"], 1), num(b["participation"]), num(b["warmth"])] for b in d.brokers])
+    else:
+        L += ["No contact lies between others yet.", ""]
+    head("bridges")
+    if d.bridges:
+        L += _table(["between", "and", "groups", "strength", "overlap", "local bridge", "ties between the groups", "why"],
+                    [[b["a_name"], b["b_name"], " / ".join(d.group_name(g) for g in b["groups"]), num(b["strength"]),
+                      num(b["overlap"]), f"yes (span {b['span']})" if b.get("local_bridge") else "no", b["ties_between"],
+                      b["why"] or "-"] for b in d.bridges])
+    else:
+        L += ["No ties between groups.", ""]
+    head("intros")
+    if not d.intros:
+        L += ["You have warm contacts in every group: no group needs an introduction.", ""]
+    for it in d.intros:
+        L += [f"### G{it['group']} {md(it['name'])} ({it['size']} contacts, {it['warm']} warm)", ""]
+        if it["direct"]:
+            L += ["You already know " + md(", ".join(x["name"] for x in it["direct"][:5])) + " there.", ""]
+        if not it["paths"]:
+            L += ["No chain of at most two people leads there yet.", ""]
+        for p in it["paths"]:
+            L += [f"- **{md(' → '.join(path_chain(p)))}** (score {num(p['score'], 3)}"
+                  + ("; crosses groups" if p.get("crosses_groups") else "") + ")"]
+            for st in p["steps"]:
+                L.append(f"  - {md(st['to_name'])} ({num(st['strength'])}: {md(st['why'] or 'linked')})")
+            L.append(f"  - *{md(p['ask'])}*")
+        L.append("")
+    head("reading")
+    for term, text in READING_NOTES:
+        L += [f"**{md(term)}.** {md(text)}", ""]
+    L += ["---", "", "Made with mynet. Everyone in this report is a contact of yours; share it with care.", ""]
+    return "\n".join(L)

@@ -1,0 +1,448 @@
+"""The browser: one Textual app over one workspace, shared by ``mynet browse`` and the tests.
+
+The app keeps a :class:`~mynet.tui.data.Snapshot` of the network and its
+analysis. Loading and every edit run in thread workers, each with its own
+workspace connection; results come back to the main thread, which swaps the
+snapshot and redraws whatever is on screen. Edits are written at once, each in
+one transaction of the core functions, so a CLI run elsewhere sees them.
+"""
+
+from __future__ import annotations
+
+import sqlite3
+import time
+from datetime import date
+from pathlib import Path
+from typing import Any, Callable
+
+from textual import events
+from textual.app import App, ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal
+from textual.reactive import reactive
+from textual.screen import Screen
+from textual.widgets import ContentSwitcher, Footer, Input, Static
+
+from ..errors import MynetError
+from ..locations import resolve_workspace_path
+from ..store import Store
+from .data import Extras, Snapshot, load_extras, load_snapshot, with_store
+from .look import THEME, plural
+
+__all__ = ["MynetApp", "create_app", "VIEWS"]
+
+#: The top-level views: (id, title), in the order of their number keys.
+VIEWS = (("groups", "Groups"), ("map", "Map"), ("people", "People"), ("reach", "Reach"),
+         ("duplicates", "Duplicates"), ("findings", "Findings"))
+
+SPINNER = "◐◓◑◒"
+#: Seconds before a running job shows its spinner ("more than a moment").
+MOMENT = 0.25
+
+
+class TopBar(Static):
+    """Workspace name, counts, and where you are."""
+
+    def on_mount(self) -> None:
+        self.watch(self.app, "snapshot_version", lambda _v: self.update_bar(), init=True)
+
+    def update_bar(self) -> None:
+        app: MynetApp = self.app  # type: ignore[assignment]
+        snap = app.snapshot
+        place = " › ".join(getattr(s, "crumb", "") for s in app.screen_stack if getattr(s, "crumb", ""))
+        head = f" mynet · {app.path.name}"
+        if snap is not None:
+            head += (f" · {plural(len(snap.contacts), 'person', 'people')} · {plural(len(snap.net.ties), 'tie')}"
+                     f" · {plural(len(snap.analysis.groups), 'group')}")
+        self.update(head + (f"   {place}" if place else ""))
+
+
+class ViewTab(Static):
+    """One entry of the view bar; a click opens its view."""
+
+    def __init__(self, number: int, view: str, title: str) -> None:
+        super().__init__(f"{number} {title}", id=f"tab-{view}", classes="viewtab")
+        self.view, self.title = view, title
+
+    def on_click(self, event: events.Click) -> None:
+        event.stop()
+        self.app.action_view(self.view)  # type: ignore[attr-defined]
+
+
+class StatusLine(Static):
+    """The last thing that happened, and a spinner while something is running."""
+
+    def on_mount(self) -> None:
+        self.watch(self.app, "status_text", lambda _v: self.show(), init=True)
+        self.set_interval(0.12, self.show)
+
+    def show(self) -> None:
+        app: MynetApp = self.app  # type: ignore[assignment]
+        if app.busy_label and time.monotonic() - app.busy_since >= MOMENT:
+            frame = SPINNER[int(time.monotonic() * 8) % len(SPINNER)]
+            self.update(f" {frame} {app.busy_label}")
+            self.add_class("-busy")
+        else:
+            self.update(f" {app.status_text}" if app.status_text else "")
+            self.remove_class("-busy")
+
+
+class Page(Screen):
+    """A screen with the top bar, a status line and the key footer around its body."""
+
+    crumb = ""
+
+    def compose(self) -> ComposeResult:
+        yield TopBar(classes="topbar")
+        yield from self.body()
+        yield StatusLine(classes="status")
+        yield Footer()
+
+    def body(self) -> ComposeResult:
+        return iter(())
+
+    def refresh_view(self, snap: Snapshot) -> None:
+        """Redraw from a new snapshot (override)."""
+
+    def on_screen_resume(self) -> None:
+        for bar in self.query(TopBar):
+            bar.update_bar()
+
+
+class MainScreen(Page):
+    """The top-level views, one at a time, picked by number or by a click on the view bar."""
+
+    def body(self) -> ComposeResult:
+        from .views_main import GroupsView, MapView, PeopleView
+        from .views_work import DuplicatesView, FindingsView, ReachView
+
+        with Horizontal(classes="viewbar"):
+            for n, (view, title) in enumerate(VIEWS, 1):
+                yield ViewTab(n, view, title)
+        with ContentSwitcher(initial="groups", id="views"):
+            yield GroupsView(id="groups")
+            yield MapView(id="map")
+            yield PeopleView(id="people")
+            yield ReachView(id="reach")
+            yield DuplicatesView(id="duplicates")
+            yield FindingsView(id="findings")
+
+    def on_mount(self) -> None:
+        self.query_one("#tab-groups").add_class("-current")
+        self.query_one("#groups").loading = True
+
+    @property
+    def current(self) -> str:
+        return self.query_one(ContentSwitcher).current or "groups"
+
+    def show_view(self, view: str) -> None:
+        self.query_one(ContentSwitcher).current = view
+        for tab in self.query(ViewTab):
+            tab.set_class(tab.view == view, "-current")
+        widget = self.query_one(f"#{view}")
+        widget.focus_default()  # type: ignore[attr-defined]
+
+    def refresh_view(self, snap: Snapshot) -> None:
+        self.query_one("#groups").loading = False
+        for view, _title in VIEWS:
+            self.query_one(f"#{view}").refresh_view(snap)  # type: ignore[attr-defined]
+        dupes = self.query_one("#tab-duplicates", ViewTab)
+        n = len(snap.extras.suggestions) if snap.extras else None
+        dupes.update(f"5 Duplicates{f' ({n})' if n else ''}")
+
+
+class MynetApp(App):
+    """Browse one workspace: groups, people, ties and their evidence, intro paths, duplicates, findings."""
+
+    TITLE = "mynet"
+    CSS_PATH = "mynet.tcss"
+    ENABLE_COMMAND_PALETTE = False
+    BINDINGS = [
+        Binding("1", "view('groups')", "Groups", show=False),
+        Binding("2", "view('map')", "Map", show=False),
+        Binding("3", "view('people')", "People", show=False),
+        Binding("4", "view('reach')", "Reach", show=False),
+        Binding("5", "view('duplicates')", "Duplicates", show=False),
+        Binding("6", "view('findings')", "Findings", show=False),
+        Binding("slash", "search", "Search"),
+        Binding("question_mark", "help", "Help"),
+        Binding("escape", "back", "Back", show=False),
+        Binding("ctrl+r", "reload", "Reload", show=False),
+        Binding("q", "quit", "Quit"),
+    ]
+
+    snapshot_version: reactive[int] = reactive(0)
+    status_text: reactive[str] = reactive("")
+
+    def __init__(self, path: Path, *, today: date | None = None, watch_interval: float = 1.5) -> None:
+        super().__init__()
+        self.path = path
+        self.today = today
+        self.snapshot: Snapshot | None = None
+        self.busy_label = ""
+        self.busy_since = 0.0
+        self._jobs: dict[int, str] = {}
+        self._job_seq = 0
+        self._load_seq = 0
+        self._applied_seq = 0
+        self._watch_interval = watch_interval
+        self._watch_conn: sqlite3.Connection | None = None
+        self._watch_value: int | None = None
+        self.error: str = ""
+
+    # -- life cycle ----------------------------------------------------------------
+    def on_mount(self) -> None:
+        self.register_theme(THEME)
+        self.theme = THEME.name
+        self.push_screen(MainScreen())
+        self.reload("Opening the workspace…")
+        if self._watch_interval:
+            self.set_interval(self._watch_interval, self._watch_tick)
+
+    def on_unmount(self) -> None:
+        if self._watch_conn is not None:
+            self._watch_conn.close()
+
+    @property
+    def main(self) -> MainScreen:
+        return next(s for s in self.screen_stack if isinstance(s, MainScreen))
+
+    # -- jobs --------------------------------------------------------------------------
+    def _start_job(self, label: str) -> int:
+        self._job_seq += 1
+        self._jobs[self._job_seq] = label
+        if not self.busy_label:
+            self.busy_since = time.monotonic()
+        self.busy_label = label
+        return self._job_seq
+
+    def _end_job(self, job: int) -> None:
+        self._jobs.pop(job, None)
+        self.busy_label = next(reversed(self._jobs.values()), "") if self._jobs else ""
+
+    def _thread_status(self, job: int) -> Callable[[str], None]:
+        def say(text: str) -> None:
+            def apply() -> None:
+                if job in self._jobs:
+                    self._jobs[job] = text
+                    self.busy_label = text
+            try:
+                self.call_from_thread(apply)
+            except RuntimeError:
+                pass
+        return say
+
+    def _from_thread(self, fn: Callable, *args: Any) -> None:
+        try:
+            self.call_from_thread(fn, *args)
+        except RuntimeError:  # the app is closing
+            pass
+
+    def reload(self, label: str = "Loading the network…") -> None:
+        """Load the network and analysis again in a worker (the view stays usable meanwhile)."""
+        self._load_seq += 1
+        seq = self._load_seq
+        job = self._start_job(label)
+        say = self._thread_status(job)
+
+        def work() -> None:
+            try:
+                snap = load_snapshot(self.path, self.today, status=say)
+                self._from_thread(self._apply, seq, snap, job)
+                extras = load_extras(self.path, snap, status=say)
+                self._from_thread(self._apply_extras, seq, extras)
+            except Exception as exc:  # shown to the user, never swallowed
+                self._from_thread(self._failed, exc, job)
+
+        self.run_worker(work, thread=True, group="load", exit_on_error=False, name="load")
+
+    def edit(self, label: str, fn: Callable[[Store], Any], *, reload: bool = True,
+             done: Callable[[Any], None] | None = None, said: str = "") -> None:
+        """Write one change to the workspace in a worker, then reload when it changes the network."""
+        job = self._start_job(label)
+        say = self._thread_status(job)
+
+        def work() -> None:
+            try:
+                result = with_store(self.path, fn, say)
+            except Exception as exc:
+                self._from_thread(self._failed, exc, job)
+                return
+            self._from_thread(self._edited, result, done, said, job, reload)
+
+        self.run_worker(work, thread=True, group="edit", exit_on_error=False, name="edit")
+
+    def _edited(self, result: Any, done: Callable[[Any], None] | None, said: str, job: int, reload: bool) -> None:
+        self._end_job(job)
+        if said:
+            self.status_text = said
+        if done is not None:
+            done(result)
+        if reload:
+            self.reload("Updating the network after your change…")
+
+    def _apply(self, seq: int, snap: Snapshot, job: int) -> None:
+        self._end_job(job)
+        if seq < self._applied_seq:
+            return
+        self._applied_seq = seq
+        old_extras = self.snapshot.extras if self.snapshot else None
+        snap.extras = old_extras
+        self.snapshot = snap
+        self._rebaseline()
+        self.redraw()
+        if not self.status_text or self.status_text.startswith("The workspace is busy"):
+            self.status_text = self.greeting(snap)
+
+    def _apply_extras(self, seq: int, extras: Extras) -> None:
+        if self.snapshot is None or seq < self._applied_seq:
+            return
+        self.snapshot.extras = extras
+        self.redraw()
+
+    def _failed(self, exc: BaseException, job: int) -> None:
+        self._end_job(job)
+        text = str(exc) if isinstance(exc, MynetError) else f"Something went wrong: {type(exc).__name__}: {exc}"
+        self.error = text
+        self.status_text = text
+        self.notify(text, severity="error", timeout=8)
+        if self.snapshot is None:
+            self.main.query_one("#groups").loading = False
+
+    def greeting(self, snap: Snapshot) -> str:
+        if not snap.contacts:
+            return "This workspace has no contacts yet. Import your exports first: mynet import FILE"
+        named = sum(1 for g in snap.analysis.groups if g.user_named)
+        if snap.analysis.groups and not named:
+            return "Enter opens a group; n gives it your own name. ~ marks a label mynet suggested. ? lists every key."
+        return "Enter opens; Escape goes back; / searches everyone; ? lists every key."
+
+    def redraw(self) -> None:
+        snap = self.snapshot
+        if snap is None:
+            return
+        self.snapshot_version += 1
+        for screen in list(self.screen_stack):
+            if isinstance(screen, Page):
+                screen.refresh_view(snap)
+
+    # -- seeing changes made elsewhere ------------------------------------------------------
+    def _decisions_mark(self, conn: sqlite3.Connection) -> tuple[int, int]:
+        version = conn.execute("SELECT value FROM meta WHERE key = 'data_version'").fetchone()
+        last = conn.execute("SELECT COALESCE(MAX(id), 0) FROM decisions").fetchone()
+        return int(version[0]) if version else 0, int(last[0])
+
+    def _rebaseline(self) -> None:
+        try:
+            if self._watch_conn is None:
+                self._watch_conn = sqlite3.connect(f"file:{self.path}?mode=ro", uri=True, timeout=0.1)
+            self._watch_value = self._watch_conn.execute("PRAGMA data_version").fetchone()[0]
+            self._mark = self._decisions_mark(self._watch_conn)
+        except sqlite3.Error:
+            self._watch_value = None
+
+    def _watch_tick(self) -> None:
+        """Reload when another process changed the network or the decisions (cheap when nothing did)."""
+        if self._watch_conn is None or self._jobs or self.snapshot is None:
+            return
+        try:
+            value = self._watch_conn.execute("PRAGMA data_version").fetchone()[0]
+            if value == self._watch_value:
+                return
+            self._watch_value = value
+            mark = self._decisions_mark(self._watch_conn)
+        except sqlite3.Error:
+            return
+        if mark != getattr(self, "_mark", None):
+            self._mark = mark
+            self.status_text = "The workspace was changed elsewhere; shown as it is now."
+            self.reload("Loading changes made elsewhere…")
+
+    # -- actions -------------------------------------------------------------------------
+    def _to_main(self) -> MainScreen:
+        while not isinstance(self.screen, MainScreen) and len(self.screen_stack) > 1:
+            self.pop_screen()
+        return self.main
+
+    def action_view(self, view: str) -> None:
+        self._to_main().show_view(view)
+
+    def action_search(self) -> None:
+        main = self._to_main()
+        main.show_view("people")
+        main.query_one("#people").start_search()  # type: ignore[attr-defined]
+
+    def action_help(self) -> None:
+        from .screens import HelpScreen
+
+        if not isinstance(self.screen, HelpScreen):
+            self.push_screen(HelpScreen())
+
+    def action_back(self) -> None:
+        if isinstance(self.focused, Input):
+            handler = getattr(self.focused.parent, "leave_input", None)
+            if handler is not None:
+                handler()
+                return
+        if not isinstance(self.screen, MainScreen) and len(self.screen_stack) > 2:
+            self.pop_screen()
+        elif isinstance(self.screen, MainScreen) and self.main.current != "groups":
+            self.main.show_view("groups")
+
+    def action_reload(self) -> None:
+        self.status_text = ""
+        self.reload("Loading the workspace again…")
+
+    def open_group(self, gid: int | None) -> None:
+        from .screens import GroupScreen
+
+        self.push_screen(GroupScreen(gid))
+
+    def open_links(self, gid: int) -> None:
+        from .screens import LinksScreen
+
+        self.push_screen(LinksScreen(gid))
+
+    def open_person(self, cid: int) -> None:
+        from .person import PersonScreen
+
+        if self.snapshot and cid in self.snapshot.net.by_id:
+            self.push_screen(PersonScreen(cid))
+
+    def reach_for(self, query_kind: str, value: str, label: str) -> None:
+        main = self._to_main()
+        main.show_view("reach")
+        main.query_one("#reach").run_query(query_kind, value, label)  # type: ignore[attr-defined]
+
+    def rename_group(self, gid: int, name: str) -> None:
+        """Give a group the user's name (empty: back to the suggested label); saved at once."""
+        from ..analysis.snapshot import name_group
+
+        def done(_result: Any) -> None:
+            snap = self.snapshot
+            g = snap.group(gid) if snap else None
+            if g is not None:
+                g.name, g.user_named = (name.strip(), True) if name.strip() else (g.label, False)
+            self.redraw()
+
+        said = f"Saved: group {gid} is now called {name.strip()!r}." if name.strip() else \
+            f"Saved: group {gid} goes back to its suggested label."
+        self.edit("Saving the name…", lambda store: name_group(store, gid, name), reload=False, done=done, said=said)
+
+
+def create_app(workspace_path: str | Path | None = None, *, today: date | None = None,
+               watch_interval: float = 1.5) -> MynetApp:
+    """The browser for a workspace (``None``: ``$MYNET_WORKSPACE`` or the default place).
+
+    Parameters
+    ----------
+    workspace_path : path-like, optional
+        The workspace file; it must exist.
+    today : datetime.date, optional
+        The day warmth is measured on (tests freeze it; default: today).
+    watch_interval : float
+        Seconds between checks for changes made by another process (0: never).
+    """
+    path = resolve_workspace_path(workspace_path)
+    Store(path, create=False).close()  # a clear error now, rather than inside the app
+    return MynetApp(path, today=today, watch_interval=watch_interval)

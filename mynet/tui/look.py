@@ -1,0 +1,75 @@
+"""The browser's look: our palette, and glyphs that carry meaning without colour.
+
+Every meaning shown in colour is also shown by a glyph or a word, so a
+monochrome terminal (or ``NO_COLOR``) loses nothing. The palette pairs a blue
+ramp with an amber accent, which stay apart for the common kinds of colour
+blindness; the ramp changes in lightness, not only in hue.
+"""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual.theme import Theme
+
+__all__ = ["THEME", "RAMP", "SHADES", "density_class", "density_cell", "warmth_bar", "clip", "severity_tag",
+           "plural", "SUGGESTED"]
+
+THEME = Theme(
+    name="mynet-dusk",
+    primary="#4f8fd6",
+    secondary="#e3a33b",
+    accent="#e3a33b",
+    warning="#e3a33b",
+    error="#d9634c",
+    success="#5fb3a1",
+    foreground="#dfe4ec",
+    background="#14171c",
+    surface="#191d23",
+    panel="#232932",
+    dark=True,
+)
+
+#: Density of ties, light to heavy: glyph and ramp colour per class (blue, darkening to bright).
+SHADES = ("·", "░", "▒", "▓", "█")
+RAMP = ("#3b4a5e", "#3f6a99", "#4f8fd6", "#86b6ea", "#cfe3fa")
+#: Upper bounds of each density class but the last (ties / possible pairs).
+BOUNDS = (0.002, 0.01, 0.05, 0.2)
+
+#: Marks a group label mynet suggested (the user has not named the group yet).
+SUGGESTED = "~"
+
+
+def plural(n: int, word: str, many: str | None = None) -> str:
+    return f"{n:,} {word if n == 1 else (many or word + 's')}"
+
+
+def clip(text: str, width: int) -> str:
+    text = " ".join(str(text).split())
+    return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+
+
+def density_class(density: float) -> int:
+    for i, bound in enumerate(BOUNDS):
+        if density < bound:
+            return i
+    return len(BOUNDS)
+
+
+def density_cell(density: float, width: int = 2) -> Text:
+    """A run of one shade glyph (the meaning) in the ramp colour (a help, not the meaning)."""
+    k = density_class(density)
+    return Text(SHADES[k] * width, style=RAMP[k])
+
+
+def warmth_bar(warmth: float, width: int = 5) -> Text:
+    """Warmth 0-1 as filled and empty blocks plus the number: ``■■■□□ 0.62``."""
+    filled = int(round(max(0.0, min(1.0, warmth)) * width))
+    bar = Text("■" * filled, style="#e3a33b") + Text("□" * (width - filled), style="#56606e")
+    return bar + Text(f" {warmth:.2f}")
+
+
+def severity_tag(severity: str) -> Text:
+    """A finding's severity as a glyph and a word."""
+    glyph, style = {"high": ("▲", "bold #d9634c"), "medium": ("◆", "#e3a33b"), "low": ("●", "#86b6ea")}.get(
+        severity, ("·", ""))
+    return Text(f"{glyph} {severity}", style=style)

@@ -1,0 +1,296 @@
+"""One person: every field and where it came from, your warmth, their group and role, their ties with evidence."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Vertical, VerticalScroll
+from textual.screen import ModalScreen
+from textual.widgets import Label, Static
+from textual.worker import WorkerState
+
+from ..network import describe, evidence_summary, explain_tie
+from ..workspace import contact_records
+from ..workspace_ties import add_tie, rate_contact, remove_tie
+from .app import Page
+from .data import Snapshot, tier_of, with_store
+from .look import clip, plural, warmth_bar
+from .rowlist import Col, Row, RowList
+from .screens import AskScreen
+from .views_main import group_title
+
+__all__ = ["PersonScreen", "ConfirmScreen", "card_text", "evidence_text"]
+
+
+def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
+    """Everything known about one contact, one labelled line per kind."""
+    net = snap.net
+    c = net.by_id[cid]
+    w = net.warmth.get(cid)
+    out = Text()
+    out.append(c.name, style="bold")
+    out.append(f"  #{c.id}", style="italic")
+    if c.nicknames:
+        out.append(f"  also {', '.join(c.nicknames)}")
+
+    def line(label: str, value: Any) -> None:
+        if value:
+            out.append(f"\n{label:<10}", style="bold")
+            out.append_text(value if isinstance(value, Text) else Text(str(value)))
+
+    warmth, tier, last = tier_of(net, cid)
+    bits = warmth_bar(warmth, 5) + Text(f" {tier}")
+    if w is not None:
+        if w.rated is not None:
+            bits.append(f" · rated by you {w.rated:.2f}")
+        if w.meetings:
+            bits.append(f" · {plural(w.meetings, 'meeting')}")
+        mails = w.messages_from + w.messages_to
+        if mails:
+            bits.append(f" · {plural(mails, 'mail')}")
+        bits.append(f" · last {last}" if last else " · no interaction on record")
+    line("Warmth", bits)
+    m = snap.analysis.measures.get(cid) or {}
+    line("Group", group_title(snap, snap.group_of(cid)) + Text(" · ") + Text(m.get("role") or "isolated", style="bold")
+         + Text(f" · {plural(int(m.get('degree') or 0), 'tie')}"))
+    titles = f" ({', '.join(c.titles)})" if c.titles else ""
+    line("Works at", ", ".join(c.orgs) + titles if c.orgs else (titles.strip(" ()") or ""))
+    line("Worked at", ", ".join(c.past_orgs))
+    line("E-mail", ", ".join(c.emails))
+    line("Phone", ", ".join(c.phones))
+    line("Tags", ", ".join(c.tags))
+    line("Place", ", ".join(c.localities))
+    line("Web", ", ".join(c.urls))
+    for note in c.notes[:3]:
+        line("Note", clip(note, 200))
+    if sources is None:
+        line("Sources", Text("looking up the records…", style="italic"))
+    else:
+        line("Sources", ", ".join(sources) or ", ".join(sorted({s.rsplit('/', 1)[-1] for s in c.sources})))
+    return out
+
+
+def evidence_text(ex: dict[str, Any]) -> Text:
+    """The full explanation of one tie: each piece of evidence with the files and lines behind it."""
+    out = Text()
+    out.append(f"{ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}", style="bold")
+    if not ex["evidence"]:
+        out.append("\nNo evidence on record.")
+    for ev in ex["evidence"]:
+        out.append("\n• " + describe(ev))
+        prov = ev.get("provenance")
+        if isinstance(prov, list) and prov:
+            out.append(f"  per {', '.join(prov[:4])}{'…' if len(prov) > 4 else ''}", style="italic")
+        for r in ev.get("recent", [])[:2]:
+            out.append(f"\n    {r['date']}  {clip(r.get('title') or r.get('subject') or '', 40)}  ({r['provenance']})",
+                       style="italic")
+    if ex.get("contributions"):
+        parts = ", ".join(f"{k} {v:.2f}" for k, v in ex["contributions"].items())
+        out.append(f"\nHow it adds up: {parts}; together 1 − ∏(1 − each) = {ex['strength']:.2f}")
+    if ex.get("suppressed"):
+        out.append("\nYou suppressed this tie.")
+    return out
+
+
+class ConfirmScreen(ModalScreen):
+    """A yes/no question: y confirms, n or Escape declines."""
+
+    BINDINGS = [Binding("y", "answer(True)", "Yes"), Binding("n", "answer(False)", "No"),
+                Binding("escape", "answer(False)", "No")]
+
+    def __init__(self, question: str) -> None:
+        super().__init__()
+        self.question = question
+
+    def compose(self) -> ComposeResult:
+        with Vertical(id="ask-box"):
+            yield Label(self.question, id="ask-question")
+            yield Label("y: yes · n or Escape: no", classes="hint")
+
+    def action_answer(self, yes: bool) -> None:
+        self.dismiss(yes)
+
+
+class PersonScreen(Page):
+    """A person, their ties strongest first, and why mynet believes in each tie."""
+
+    BINDINGS = [
+        Binding("w", "rate", "Rate closeness"),
+        Binding("t", "tie", "Add tie"),
+        Binding("x", "untie", "Remove tie"),
+        Binding("r", "reach", "Reach them"),
+        Binding("escape", "app.back", "Back"),
+    ]
+
+    def __init__(self, cid: int) -> None:
+        super().__init__()
+        self.cid = cid
+        self.sources: list[str] | None = None
+
+    @property
+    def crumb(self) -> str:  # type: ignore[override]
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        return clip(snap.net.name(self.cid), 30) if snap else "Person"
+
+    def body(self) -> ComposeResult:
+        with VerticalScroll(id="person-card-box"):
+            yield Static("", id="person-card")
+        yield RowList([Col("Tie", 8), Col("With", 24), Col("Why")], empty="No ties: nothing links this person to another.",
+                      id="tie-list")
+        with VerticalScroll(id="evidence-box", classes="detail-scroll"):
+            yield Static("", id="evidence")
+
+    def on_mount(self) -> None:
+        self.query_one(RowList).focus()
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if snap is not None:
+            self.refresh_view(snap)
+        self.load_sources()
+
+    def on_resize(self) -> None:
+        self.set_class(self.size.width >= 110, "-wide")
+
+    def load_sources(self) -> None:
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if snap is None or self.cid not in snap.net.by_id:
+            return
+        contact = snap.net.by_id[self.cid]
+
+        def work() -> list[str]:
+            rows = with_store(snap.path, lambda store: contact_records(store, contact))
+            return [f"{path.rsplit('/', 1)[-1]}:{rec.line}" for _rid, path, rec in rows]
+
+        self.run_worker(work, thread=True, group="sources", exclusive=True, exit_on_error=False)
+
+    def refresh_view(self, snap: Snapshot) -> None:
+        if self.cid not in snap.net.by_id:
+            self.query_one("#person-card", Static).update("This person is no longer in the workspace (merged?). Escape goes back.")
+            self.query_one(RowList).set_rows([])
+            return
+        self.query_one("#person-card", Static).update(card_text(snap, self.cid, self.sources))
+        net = snap.net
+        rows = [Row(other, lambda o=other, s=strength, r=row: (warmth_bar(s, 3), net.name(o), snap.why(r)))
+                for other, strength, row in snap.ties_of(self.cid)]
+        lst = self.query_one(RowList)
+        lst.set_rows(rows)
+        lst.border_title = f"{plural(len(rows), 'tie')}, strongest first (Enter opens the other person)"
+        self.show_evidence(lst.current_key)
+
+    def on_worker_state_changed(self, event) -> None:
+        worker = event.worker
+        if worker.group not in ("sources", "explain") or event.state not in (WorkerState.SUCCESS, WorkerState.ERROR):
+            return
+        event.stop()
+        if event.state == WorkerState.ERROR:
+            self.app.status_text = f"Could not read the records: {worker.error!r}"  # type: ignore[attr-defined]
+            return
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if worker.group == "sources":
+            self.sources = worker.result
+            if snap is not None and self.cid in snap.net.by_id:
+                self.query_one("#person-card", Static).update(card_text(snap, self.cid, self.sources))
+        else:
+            other, ex = worker.result
+            if other == self.query_one(RowList).current_key:
+                self.query_one("#evidence", Static).update(evidence_text(ex))
+
+    def show_evidence(self, other) -> None:
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        box = self.query_one("#evidence", Static)
+        if snap is None or other is None:
+            box.update("")
+            return
+        row = next((r for o, _s, r in snap.ties_of(self.cid) if o == other), None)
+        quick = Text(f"{snap.net.name(self.cid)} and {snap.net.name(other)}", style="bold")
+        if row is not None:
+            for ev in evidence_summary(snap.net, row):
+                quick.append("\n• " + describe(ev))
+        quick.append("\nfinding the files behind it…", style="italic")
+        box.update(quick)
+        cid = self.cid
+
+        def work():
+            return other, with_store(snap.path, lambda store: explain_tie(store, snap.net, cid, other))
+
+        self.run_worker(work, thread=True, group="explain", exclusive=True, exit_on_error=False)
+
+    def on_row_list_highlighted(self, event: RowList.Highlighted) -> None:
+        self.show_evidence(event.key)
+
+    def on_row_list_selected(self, event: RowList.Selected) -> None:
+        self.app.open_person(event.key)  # type: ignore[attr-defined]
+
+    # -- edits ---------------------------------------------------------------------------
+    def action_rate(self) -> None:
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if snap is None:
+            return
+        w = snap.net.warmth.get(self.cid)
+        name = snap.net.name(self.cid)
+
+        def answer(text: str | None) -> None:
+            if text is None:
+                return
+            text = text.strip()
+            try:
+                value = None if not text else float(text)
+            except ValueError:
+                self.app.status_text = f"Not a number: {text!r}; nothing changed."  # type: ignore[attr-defined]
+                return
+            said = f"Saved: your closeness to {name} is {value:.2f}." if value is not None else \
+                f"Saved: your rating of {name} is cleared; warmth comes from your interactions."
+            self.app.edit("Saving your rating…", lambda store: rate_contact(store, self.cid, value), said=said)  # type: ignore[attr-defined]
+
+        self.app.push_screen(AskScreen(f"Your closeness to {name}, from 0 (distant) to 1 (closest); empty clears it:",
+                                       value=f"{w.rated:.2f}" if w and w.rated is not None else "",
+                                       placeholder="e.g. 0.7"), answer)
+
+    def action_tie(self) -> None:
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if snap is None:
+            return
+        name = snap.net.name(self.cid)
+        names = sorted({c.name for c in snap.contacts if c.id != self.cid})
+
+        def who(text: str | None) -> None:
+            if not text or not text.strip():
+                return
+            exact = [c for c in snap.contacts if c.name.casefold() == text.strip().casefold() and c.id != self.cid]
+            hits = exact or [c for c in snap.search(text) if c.id != self.cid]
+            if len(hits) != 1:
+                self.app.status_text = (f"Nobody matches {text!r}." if not hits else  # type: ignore[attr-defined]
+                                        f"{text!r} matches {len(hits)} people; type more of the name.")
+                return
+            other = hits[0]
+
+            def note(text2: str | None) -> None:
+                if text2 is None:
+                    return
+                self.app.edit("Saving the tie…", lambda store: add_tie(store, self.cid, other.id, text2.strip()),  # type: ignore[attr-defined]
+                              said=f"Saved: {name} and {other.name} know each other.")
+
+            self.app.push_screen(AskScreen(f"How do {name} and {other.name} know each other? (optional)"), note)
+
+        self.app.push_screen(AskScreen(f"Who else does {name} know? Type a name:", suggestions=names), who)
+
+    def action_untie(self) -> None:
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        other = self.query_one(RowList).current_key
+        if snap is None or other is None:
+            return
+        a, b = snap.net.name(self.cid), snap.net.name(other)
+
+        def confirmed(yes: bool | None) -> None:
+            if yes:
+                self.app.edit("Removing the tie…", lambda store: remove_tie(store, self.cid, other),  # type: ignore[attr-defined]
+                              said=f"Saved: no tie between {a} and {b} (kept across re-imports; t adds it back).")
+
+        self.app.push_screen(ConfirmScreen(f"Remove the tie between {a} and {b}, whatever the evidence says?"), confirmed)
+
+    def action_reach(self) -> None:
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if snap is not None:
+            self.app.reach_for("person", str(self.cid), snap.net.name(self.cid))  # type: ignore[attr-defined]

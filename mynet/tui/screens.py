@@ -1,0 +1,276 @@
+"""Screens opened from the views: a group's members, a group's connections, help, and a small question box."""
+
+from __future__ import annotations
+
+from typing import Callable
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Vertical, VerticalScroll
+from textual.screen import ModalScreen
+from textual.suggester import SuggestFromList
+from textual.widgets import Input, Label, Static
+
+from .app import Page
+from .data import Snapshot, tier_of
+from .look import SUGGESTED, clip, density_cell, plural, warmth_bar
+from .rowlist import Col, Row, RowList
+from .views_main import NameEditor, group_facts, group_title
+
+__all__ = ["GroupScreen", "LinksScreen", "HelpScreen", "AskScreen", "help_sections"]
+
+
+class GroupScreen(Page):
+    """The members of one group: warmth, role and organisation."""
+
+    BINDINGS = [
+        Binding("n", "name", "Name group"),
+        Binding("c", "connections", "Connections"),
+        Binding("escape", "app.back", "Back"),
+    ]
+
+    def __init__(self, gid: int | None) -> None:
+        super().__init__()
+        self.gid = gid
+
+    @property
+    def crumb(self) -> str:  # type: ignore[override]
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if snap is None:
+            return "Group"
+        g = snap.group(self.gid)
+        return clip(("" if g is None or g.user_named else SUGGESTED) + snap.group_name(self.gid), 34)
+
+    def body(self) -> ComposeResult:
+        yield Static("", classes="head", id="group-head")
+        yield RowList([Col("Name"), Col("Warmth", 10), Col("Role", 17), Col("Works at")], empty="Nobody here.",
+                      id="member-list")
+        yield NameEditor(id="member-name")
+
+    def on_mount(self) -> None:
+        self.query_one(NameEditor).display = False
+        self.query_one(RowList).focus()
+        if self.app.snapshot is not None:  # type: ignore[attr-defined]
+            self.refresh_view(self.app.snapshot)  # type: ignore[attr-defined]
+
+    def refresh_view(self, snap: Snapshot) -> None:
+        g = snap.group(self.gid)
+        if self.gid is not None and g is None:
+            self.query_one("#group-head", Static).update("This group no longer exists after the last change; Escape goes back.")
+            self.query_one(RowList).set_rows([])
+            return
+        members = g.members if g else snap.ungrouped()
+        net = snap.net
+        members = sorted((m for m in members if m in net.by_id), key=lambda m: (-tier_of(net, m)[0], net.name(m)))
+        rows = []
+        for m in members:
+            c = net.by_id[m]
+            rows.append(Row(m, (c.name, warmth_bar(tier_of(net, m)[0], 4), snap.role(m),
+                                ", ".join(c.orgs) or (f"({c.past_orgs[0]})" if c.past_orgs else ""))))
+        self.query_one(RowList).set_rows(rows)
+        head = self.query_one("#group-head", Static)
+        if g is None:
+            head.update(Text.assemble(("In no group", "bold"), f"\n{plural(len(members), 'person', 'people')} with too few ties "
+                                      "to belong to a group; warmest first."))
+        else:
+            title = group_title(snap, self.gid)
+            title.stylize("bold")
+            head.update(Text.assemble(title, "\n", group_facts(snap, self.gid).split("\n", 1)[1]))
+        for bar in self.query("TopBar"):
+            bar.update_bar()  # type: ignore[attr-defined]
+
+    def on_row_list_selected(self, event: RowList.Selected) -> None:
+        self.app.open_person(event.key)  # type: ignore[attr-defined]
+
+    def action_name(self) -> None:
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if self.gid is None or snap is None:
+            self.app.status_text = "These people are in no group; there is nothing to name."  # type: ignore[attr-defined]
+            return
+        self.query_one(NameEditor).open(snap, self.gid, lambda: self.query_one(RowList).focus())
+
+    def action_connections(self) -> None:
+        if self.gid is not None:
+            self.app.open_links(self.gid)  # type: ignore[attr-defined]
+
+
+def gateways(snap: Snapshot, gid: int, limit: int = 8) -> list[tuple[int, int, str]]:
+    """Members tied into other groups: (contact, number of other groups reached, role), most first."""
+    g = snap.group(gid)
+    if g is None:
+        return []
+    out = []
+    for m in g.members:
+        others = {snap.group_of(o) for o, _s, _r in snap.ties_of(m)} - {gid, None}
+        if others:
+            out.append((m, len(others), snap.role(m)))
+    out.sort(key=lambda x: (-x[1], -(snap.analysis.measures.get(x[0], {}).get("participation") or 0), snap.net.name(x[0])))
+    return out[:limit]
+
+
+class LinksScreen(Page):
+    """How one group connects to the rest: linked groups, bridges, gateways, single points of access."""
+
+    BINDINGS = [Binding("escape", "app.back", "Back")]
+
+    def __init__(self, gid: int) -> None:
+        super().__init__()
+        self.gid = gid
+
+    @property
+    def crumb(self) -> str:  # type: ignore[override]
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        return "Connections of " + (clip(snap.group_name(self.gid), 28) if snap else "a group")
+
+    def body(self) -> ComposeResult:
+        yield Static("", classes="head", id="links-head")
+        yield RowList([Col("Who or what"), Col("Ties", 9), Col("Detail")], empty="No connections.", id="links-list")
+
+    def on_mount(self) -> None:
+        self.query_one(RowList).focus()
+        if self.app.snapshot is not None:  # type: ignore[attr-defined]
+            self.refresh_view(self.app.snapshot)  # type: ignore[attr-defined]
+
+    def refresh_view(self, snap: Snapshot) -> None:
+        gid, net = self.gid, snap.net
+        g = snap.group(gid)
+        head = self.query_one("#links-head", Static)
+        if g is None:
+            head.update("This group no longer exists after the last change; Escape goes back.")
+            self.query_one(RowList).set_rows([])
+            return
+        rows: list[Row] = []
+        links = sorted((x for x in snap.analysis.links if gid in (x["a"], x["b"])), key=lambda x: -x["ties"])
+        carriers_here: set[int] = set()
+        if links:
+            rows.append(Row("h1", ("Groups it is tied to",), heading=True))
+        for x in links:
+            other = x["b"] if x["a"] == gid else x["a"]
+            here, there = x.get("carriers") or ([], [])
+            if x["a"] != gid:
+                here, there = there, here
+            carriers_here |= set(here)
+            fragile = " !" if snap.fragile(gid, other) else ""
+            rows.append(Row(("group", other), (group_title(snap, other), density_cell(x["density"]) + Text(f" {x['ties']:>5}"),
+                                                f"carried by {len(here)} here, {len(there)} there{fragile}")))
+        bridges = [b for b in snap.analysis.bridges if gid in b["groups"]][:12]
+        if bridges:
+            rows.append(Row("h2", ("Bridges: the ties that matter most between it and the others",), heading=True))
+        for b in bridges:
+            a_in = snap.group_of(b["a"]) == gid
+            here, there = (b["a"], b["b"]) if a_in else (b["b"], b["a"])
+            other = snap.group_of(there)
+            kind = "local bridge, " if b.get("local_bridge") else ""
+            rows.append(Row(("person", here, there), (f"{net.name(here)} – {net.name(there)}", f"{b['strength']:.2f}",
+                                                       f"{kind}to {clip(snap.group_name(other), 28)}")))
+        gws = gateways(snap, gid)
+        if gws:
+            rows.append(Row("h3", ("Gateways: members tied into other groups",), heading=True))
+        for m, n, role in gws:
+            rows.append(Row(("person", m), (net.name(m), f"{n} group{'s' if n != 1 else ''}", role)))
+        access = [e for e in snap.analysis.access if e.get("member_of") == gid or gid in (e.get("groups") or [])]
+        if access:
+            rows.append(Row("h4", ("Single points of access: without them, people are cut off from you",), heading=True))
+        for e in access[:12]:
+            where = "member" if e.get("member_of") == gid else f"outside, in {clip(snap.group_name(e.get('member_of')), 20)}"
+            rows.append(Row(("person", e["person"]), (net.name(e["person"]), f"{len(e['cut_off'])} cut off",
+                                                       f"{where}; alone reaches {len(e.get('groups') or [])} group(s)")))
+        self.query_one(RowList).set_rows(rows)
+        head.update(Text.assemble((clip(("" if g.user_named else SUGGESTED) + g.name, 60), "bold"),
+                                  f"\nTied to {plural(len(links), 'other group')} through {len(carriers_here)} of its "
+                                  f"{g.size} members; {plural(len(access), 'single point')} of access. Enter opens."))
+
+    def on_row_list_selected(self, event: RowList.Selected) -> None:
+        key = event.key
+        if isinstance(key, tuple) and key[0] == "group":
+            self.app.open_group(key[1])  # type: ignore[attr-defined]
+        elif isinstance(key, tuple) and key[0] == "person":
+            self.app.open_person(key[1])  # type: ignore[attr-defined]
+
+
+def help_sections(app) -> list[tuple[str, list[tuple[str, str]]]]:
+    """Every key of the app, by where it works, read from the bindings themselves."""
+    from .groupmap import GroupMap
+    from .person import PersonScreen
+    from .views_main import GroupsView, PeopleView
+    from .views_work import DuplicatesView, ReachView
+
+    def keys(cls) -> list[tuple[str, str]]:
+        out = []
+        for b in cls.BINDINGS:
+            key = b.key if isinstance(b, Binding) else b[0]
+            desc = b.description if isinstance(b, Binding) else (b[2] if len(b) > 2 else b[1])
+            out.append((app.get_key_display(Binding(key, "")), desc))
+        return out
+
+    return [
+        ("Anywhere", keys(type(app))),
+        ("Lists", keys(RowList)),
+        ("Groups (1)", keys(GroupsView)),
+        ("Map (2)", keys(GroupMap)),
+        ("People (3)", keys(PeopleView)),
+        ("Reach (4)", keys(ReachView)),
+        ("Duplicates (5)", keys(DuplicatesView)),
+        ("A group", keys(GroupScreen)),
+        ("A person", keys(PersonScreen)),
+    ]
+
+
+class HelpScreen(ModalScreen):
+    """Every key, by where it works."""
+
+    BINDINGS = [Binding("escape", "dismiss", "Close"), Binding("question_mark", "dismiss", "Close"),
+                Binding("q", "dismiss", "Close")]
+
+    def compose(self) -> ComposeResult:
+        out = Text()
+        out.append("mynet browse: your network, from your own exports. Nothing leaves this machine.\n", style="bold")
+        out.append("Every change (a group's name, a merge, a rating, a tie) is saved at once.\n"
+                   "~ marks a group label mynet suggested; ! on the map marks a link that hangs on one person.\n"
+                   "The mouse works too: click a row to highlight it, click it again to open it.\n")
+        for title, keys in help_sections(self.app):
+            out.append(f"\n{title}\n", style="bold underline")
+            for key, desc in keys:
+                out.append(f"  {key:<12}", style="bold")
+                out.append(f"{desc}\n")
+        with Vertical(id="help-box"):
+            yield Label(" Keys  (Escape closes)", classes="head")
+            with VerticalScroll():
+                yield Static(out, id="help-text")
+
+    def action_dismiss(self) -> None:  # type: ignore[override]
+        self.dismiss(None)
+
+
+class AskScreen(ModalScreen):
+    """One question with a text answer; Enter answers, Escape cancels."""
+
+    BINDINGS = [Binding("escape", "cancel", "Cancel")]
+
+    def __init__(self, question: str, *, value: str = "", placeholder: str = "", suggestions: list[str] | None = None,
+                 on_answer: Callable[[str], None] | None = None) -> None:
+        super().__init__()
+        self.question, self.value, self.placeholder = question, value, placeholder
+        self.suggestions = suggestions
+        self.on_answer = on_answer
+
+    def compose(self) -> ComposeResult:
+        with Vertical(id="ask-box"):
+            yield Label(self.question, id="ask-question")
+            suggester = SuggestFromList(self.suggestions, case_sensitive=False) if self.suggestions else None
+            yield Input(value=self.value, placeholder=self.placeholder, suggester=suggester, id="ask-input")
+            yield Label("Enter answers · → accepts the grey completion · Escape cancels", classes="hint")
+
+    def on_mount(self) -> None:
+        self.query_one(Input).focus()
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        event.stop()
+        self.dismiss(event.value)
+        if self.on_answer:
+            self.on_answer(event.value)
+
+    def action_cancel(self) -> None:
+        self.app.status_text = "Cancelled; nothing changed."  # type: ignore[attr-defined]
+        self.dismiss(None)

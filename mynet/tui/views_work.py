@@ -1,0 +1,392 @@
+"""The top-level views where the user acts: intro paths, duplicate decisions, the audit's findings."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.widgets import Input, OptionList, Static
+from textual.widgets.option_list import Option
+from textual.worker import WorkerState
+
+from ..errors import MynetError
+from ..reach import reach, resolve_targets
+from .data import Choice, Snapshot, tier_of
+from .look import clip, plural, severity_tag
+from .rowlist import Col, Row, RowList
+
+__all__ = ["ReachView", "DuplicatesView", "FindingsView", "match_choices", "path_text"]
+
+KIND_WORD = {"person": "person", "organisation": "org", "tag": "tag"}
+
+
+def match_choices(choices: list[Choice], text: str, limit: int = 8) -> list[Choice]:
+    """Completions for what was typed: whole-word prefix matches first, then any substring."""
+    from ..normalise import fold_text
+
+    needle = fold_text(text)
+    if not needle:
+        return []
+    starts, inside = [], []
+    for ch in choices:
+        if ch.folded.startswith(needle) or f" {needle}" in f" {ch.folded}":
+            starts.append(ch)
+        elif needle in ch.folded:
+            inside.append(ch)
+        if len(starts) >= limit:
+            break
+    return (starts + inside)[:limit]
+
+
+def path_text(p: dict[str, Any]) -> Text:
+    """Steps of one intro path, each explained, the weakest marked in words, and the suggested ask."""
+    out = Text()
+    names = ["you", *p["names"]]
+    weakest = p["weakest_step"]["index"]
+    for i, step in enumerate(p["steps"]):
+        out.append(f"{names[i]} → {step['to_name']}", style="bold")
+        out.append(f"  {step['strength']:.2f}")
+        if i == weakest and len(p["steps"]) > 1:
+            out.append("  ◂ weakest step", style="bold #e3a33b")
+        out.append(f"\n    {step['why'] or 'linked'}\n")
+    out.append("Ask: ", style="bold")
+    out.append(p["ask"])
+    return out
+
+
+class ReachView(Vertical):
+    """Type a person, an organisation or a tag; get the warmest chains of introductions."""
+
+    BINDINGS = [Binding("down", "suggest(1)", "Next", show=False), Binding("up", "suggest(-1)", "Previous", show=False)]
+
+    def __init__(self, **kw) -> None:
+        super().__init__(**kw)
+        self.result = None
+        self.paths: list[dict[str, Any]] = []
+        self.choices: list[Choice] = []
+
+    def compose(self) -> ComposeResult:
+        yield Input(placeholder="Reach whom? A person, an organisation or a tag", id="reach-input")
+        yield OptionList(id="reach-options")
+        yield Static("Type a name, an organisation or a tag and pick a suggestion with ↑ ↓ and Enter.",
+                     classes="count", id="reach-head")
+        yield RowList([Col("#", 2, "right"), Col("Score", 5, "right"), Col("Path")], empty="No intro path yet.",
+                      id="reach-paths")
+        with VerticalScroll(classes="detail-scroll", id="reach-detail-box"):
+            yield Static("", id="reach-detail")
+
+    def on_mount(self) -> None:
+        self.query_one(OptionList).display = False
+
+    def focus_default(self) -> None:
+        self.query_one(Input).focus()
+
+    def leave_input(self) -> None:
+        self.query_one(OptionList).display = False
+        self.query_one(RowList).focus()
+
+    def refresh_view(self, snap: Snapshot) -> None:
+        self.paths = []
+        if self.result is not None:
+            self.query_one(RowList).set_rows([])
+            self.query_one("#reach-detail", Static).update("")
+            self.query_one("#reach-head", Static).update("The network changed; Enter in the box asks again.")
+            self.result = None
+
+    # -- completion -----------------------------------------------------------------
+    def on_input_changed(self, event: Input.Changed) -> None:
+        event.stop()
+        snap: Snapshot | None = self.app.snapshot  # type: ignore[attr-defined]
+        options = self.query_one(OptionList)
+        if snap is None or not event.value.strip():
+            options.display = False
+            return
+        self.choices = match_choices(snap.choices(), event.value)
+        options.clear_options()
+        for ch in self.choices:
+            extra = f"  {plural(ch.count, 'person', 'people')}" if ch.kind != "person" else ""
+            options.add_option(Option(Text.assemble((f"{KIND_WORD[ch.kind]:<7}", "bold"), ch.label, (extra, "italic"))))
+        options.display = bool(self.choices)
+        if self.choices:
+            options.highlighted = 0
+
+    def action_suggest(self, step: int) -> None:
+        options = self.query_one(OptionList)
+        if self.query_one(Input).has_focus and options.display and self.choices:
+            options.highlighted = ((options.highlighted or 0) + step) % len(self.choices)
+        elif self.query_one(Input).has_focus and step > 0:
+            self.query_one(RowList).focus()
+        else:
+            lst = self.query_one(RowList)
+            if lst.has_focus:
+                lst.action_move(step)
+
+    def on_option_list_option_selected(self, event: OptionList.OptionSelected) -> None:
+        event.stop()
+        self._pick(self.choices[event.option_index])
+
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        event.stop()
+        options = self.query_one(OptionList)
+        if options.display and self.choices:
+            self._pick(self.choices[options.highlighted or 0])
+        elif event.value.strip():
+            self.run_query("organisation", event.value.strip(), event.value.strip())
+
+    def _pick(self, ch: Choice) -> None:
+        self.query_one(OptionList).display = False
+        inp = self.query_one(Input)
+        with inp.prevent(Input.Changed):
+            inp.value = ch.label if ch.kind != "person" else ch.label.split(" (")[0]
+        self.run_query(ch.kind, ch.value, ch.label)
+
+    # -- the query -----------------------------------------------------------------------
+    def run_query(self, kind: str, value: str, label: str) -> None:
+        """Find intro paths in a worker (the search is fast, but never blocks the view)."""
+        snap: Snapshot | None = self.app.snapshot  # type: ignore[attr-defined]
+        if snap is None:
+            return
+        inp = self.query_one(Input)
+        if inp.value != (label.split(" (")[0] if kind == "person" else label):
+            with inp.prevent(Input.Changed):
+                inp.value = label.split(" (")[0] if kind == "person" else label
+        self.query_one(OptionList).display = False
+        self.query_one("#reach-head", Static).update(f"Looking for the warmest ways to {label}…")
+        self.query_one(RowList).set_rows([])
+        self.query_one(RowList).focus()
+
+        def work():
+            net = snap.net
+            arg = {"person": "to", "organisation": "org", "tag": "tag"}[kind]
+            try:
+                targets = resolve_targets(net, **{arg: value}, find_contact=lambda q: net.by_id[int(q)])
+            except MynetError as exc:
+                if kind == "organisation":  # typed text that is no organisation: try it as a tag, then a name
+                    for other in ("tag", "person"):
+                        try:
+                            if other == "person":
+                                hits = snap.search(value)
+                                if len(hits) != 1:
+                                    raise MynetError(str(exc))
+                                targets = resolve_targets(net, to=str(hits[0].id), find_contact=lambda q: net.by_id[int(q)])
+                            else:
+                                targets = resolve_targets(net, tag=value)
+                            break
+                        except MynetError:
+                            continue
+                    else:
+                        return snap, None, f"Nobody matches {value!r} as an organisation, a tag or a single person."
+                else:
+                    return snap, None, str(exc)
+            return snap, reach(net, targets, k=5, groups=snap.analysis.group_of), ""
+
+        self.run_worker(work, thread=True, exclusive=True, group="reach", exit_on_error=False)
+
+    def on_worker_state_changed(self, event) -> None:
+        if event.worker.group != "reach" or event.state not in (WorkerState.SUCCESS, WorkerState.ERROR):
+            return
+        event.stop()
+        if event.state == WorkerState.ERROR:
+            self.query_one("#reach-head", Static).update(f"The search failed: {event.worker.error}")
+            return
+        snap, result, problem = event.worker.result
+        if problem:
+            self.query_one("#reach-head", Static).update(problem)
+            return
+        self.show_result(snap, result)
+
+    def show_result(self, snap: Snapshot, result) -> None:
+        self.result = result
+        self.paths = result.paths
+        t = result.targets
+        what = {"person": "", "organisation": "people at ", "tag": "people tagged ", "domain": "people at @"}[t.kind]
+        head = f"Reaching {what}{', '.join(t.matched)}" + (f" ({len(t.members)})" if t.kind != "person" else "")
+        insiders = [d for d in result.direct if d.get("insider")]
+        if insiders:
+            head += "; you already know " + ", ".join(f"{d['name']} ({d['warmth']:.2f})" for d in insiders[:3])
+        elif result.direct and t.kind == "person":
+            d = result.direct[0]
+            head += f"; you know them directly (warmth {d['warmth']:.2f}, last {d['last'] or '–'})"
+        if not result.paths:
+            head += ". No intro path within 2 intermediaries; add ties you know of from a person's page (t)."
+        self.query_one("#reach-head", Static).update(head)
+        rows = [Row(i, (str(i + 1), f"{p['score']:.3f}", " → ".join(["you", *p["names"]]))) for i, p in enumerate(result.paths)]
+        self.query_one(RowList).set_rows(rows, keep=False)
+        self.query_one(RowList).focus()
+        self.app.status_text = f"{plural(len(result.paths), 'intro path')}, best first."  # type: ignore[attr-defined]
+
+    def on_row_list_highlighted(self, event: RowList.Highlighted) -> None:
+        if 0 <= event.key < len(self.paths):  # type: ignore[operator]
+            self.query_one("#reach-detail", Static).update(path_text(self.paths[event.key]))  # type: ignore[index]
+
+    def on_row_list_selected(self, event: RowList.Selected) -> None:
+        p = self.paths[event.key]  # type: ignore[index]
+        self.app.open_person(p["path"][0])  # type: ignore[attr-defined]
+
+
+def _side(snap: Snapshot, cid: int) -> Text:
+    c = snap.net.by_id.get(cid)
+    if c is None:
+        return Text("(gone)")
+    w, tier, last = tier_of(snap.net, cid)
+    lines = [Text(f"{c.name}  #{c.id}", style="bold")]
+    for label, values in (("works at", c.orgs), ("worked at", c.past_orgs), ("e-mail", c.emails), ("phone", c.phones),
+                          ("tags", c.tags), ("place", c.localities),
+                          ("files", sorted({s.rsplit('/', 1)[-1] for s in c.sources}))):
+        if values:
+            lines.append(Text(f"{label:<9} {', '.join(values)}"))
+    lines.append(Text(f"{'warmth':<9} {w:.2f} {tier}, last {last or '–'}"))
+    return Text("\n").join(lines)
+
+
+class DuplicatesView(Vertical):
+    """Pairs that may be one person: merge them, keep them apart, or leave them for later."""
+
+    BINDINGS = [
+        Binding("m", "merge", "Merge"),
+        Binding("k", "apart", "Keep apart"),
+        Binding("s", "skip", "Skip"),
+    ]
+
+    def __init__(self, **kw) -> None:
+        super().__init__(**kw)
+        self.decided: set[tuple[int, int]] = set()
+        self.skipped: set[tuple[int, int]] = set()
+
+    def compose(self) -> ComposeResult:
+        yield Static("", classes="count", id="dupes-head")
+        yield RowList([Col("Score", 5, "right"), Col("One"), Col("Other"), Col("Why", 0), Col("", 5)],
+                      empty="No duplicates left to decide.", id="dupes-list")
+        with Horizontal(classes="compare", id="dupes-compare"):
+            yield Static("", id="dupes-a")
+            yield Static("", id="dupes-b")
+
+    def focus_default(self) -> None:
+        self.query_one(RowList).focus()
+
+    def refresh_view(self, snap: Snapshot) -> None:
+        lst = self.query_one(RowList)
+        head = self.query_one("#dupes-head", Static)
+        if snap.extras is None:
+            head.update(" Looking for likely duplicates…")
+            lst.set_rows([])
+            return
+        net = snap.net
+        todo = [s for s in snap.extras.suggestions if (s.a, s.b) not in self.decided and s.a in net.by_id and s.b in net.by_id]
+        rows = [Row((s.a, s.b), (f"{s.score:.2f}", net.name(s.a), net.name(s.b), s.reason,
+                                 "later" if (s.a, s.b) in self.skipped else "")) for s in todo]
+        lst.set_rows(rows)
+        head.update(f" {plural(len(todo), 'pair')} that may be one person. m merges, k keeps them apart, s skips."
+                    if todo else " Nothing to decide: no likely duplicates left.")
+        self.compare(lst.current_key)
+
+    def compare(self, key) -> None:
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        a, b = self.query_one("#dupes-a", Static), self.query_one("#dupes-b", Static)
+        if snap is None or key is None:
+            a.update("")
+            b.update("")
+            return
+        a.update(_side(snap, key[0]))
+        b.update(_side(snap, key[1]))
+
+    def on_row_list_highlighted(self, event: RowList.Highlighted) -> None:
+        self.compare(event.key)
+
+    def _pair(self) -> tuple[int, int] | None:
+        return self.query_one(RowList).current_key  # type: ignore[return-value]
+
+    def action_merge(self) -> None:
+        from ..workspace import merge_contacts
+
+        pair = self._pair()
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if pair is None or snap is None:
+            return
+        names = f"{snap.net.name(pair[0])} and {snap.net.name(pair[1])}"
+        self.decided.add(pair)
+        self.refresh_view(snap)
+        self.app.edit(f"Merging {names}…", lambda store: merge_contacts(store, list(pair)),  # type: ignore[attr-defined]
+                      said=f"Merged {names} into one person.")
+
+    def action_apart(self) -> None:
+        from ..workspace import reject_suggestion
+
+        pair = self._pair()
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if pair is None or snap is None:
+            return
+        names = f"{snap.net.name(pair[0])} and {snap.net.name(pair[1])}"
+        self.decided.add(pair)
+        self.refresh_view(snap)
+        self.app.edit(f"Keeping {names} apart…", lambda store: reject_suggestion(store, *pair),  # type: ignore[attr-defined]
+                      said=f"Kept apart: {names} will not be suggested again.")
+
+    def action_skip(self) -> None:
+        pair = self._pair()
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        if pair is None or snap is None:
+            return
+        self.skipped.add(pair)
+        lst = self.query_one(RowList)
+        self.refresh_view(snap)
+        lst.action_move(1)
+        self.app.status_text = "Left for later."  # type: ignore[attr-defined]
+
+
+class FindingsView(Vertical):
+    """What the audit found about the shape of the network, most useful first."""
+
+    def compose(self) -> ComposeResult:
+        yield RowList([Col("How much", 10), Col("Finding")], empty="No findings.", id="findings-list")
+        with VerticalScroll(classes="detail-scroll", id="finding-box"):
+            yield Static("", id="finding-detail")
+
+    def focus_default(self) -> None:
+        self.query_one(RowList).focus()
+
+    def refresh_view(self, snap: Snapshot) -> None:
+        lst = self.query_one(RowList)
+        if snap.extras is None:
+            lst.empty = "Reading the network for findings…"
+            lst.set_rows([])
+            return
+        if snap.extras.findings is None:
+            lst.empty = snap.extras.findings_error or "No findings."
+            lst.set_rows([])
+            return
+        self.findings = snap.extras.findings
+        lst.set_rows([Row(i, (severity_tag(f.get("severity", "low")), f.get("title", ""))) for i, f in enumerate(self.findings)])
+        self.show(lst.current_key)
+
+    def show(self, key) -> None:
+        box = self.query_one("#finding-detail", Static)
+        findings = getattr(self, "findings", [])
+        if key is None or not 0 <= key < len(findings):
+            box.update("")
+            return
+        f = findings[key]
+        out = Text()
+        out.append(f.get("title", ""), style="bold")
+        out.append("\n" + str(f.get("detail", "")))
+        numbers = f.get("numbers") or {}
+        if numbers:
+            out.append("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in numbers.items()), style="italic")
+        if f.get("suggestion"):
+            out.append("\nWhat to do: ", style="bold")
+            out.append(str(f["suggestion"]))
+        box.update(out)
+
+    def on_row_list_highlighted(self, event: RowList.Highlighted) -> None:
+        self.show(event.key)
+
+
+def _num(v: Any) -> str:
+    if isinstance(v, float):
+        return f"{v:.2f}" if abs(v) < 100 else f"{v:,.0f}"
+    if isinstance(v, (list, tuple)):
+        return clip(", ".join(map(str, v)), 40)
+    return str(v)
