@@ -30,6 +30,7 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Circle, Patch
 
 from ..analysis.snapshot import tie_graph
+from ._text import xml_safe
 from .data import ReportData
 from .layout import group_layout, place_discs
 
@@ -54,7 +55,8 @@ def group_style(index: int) -> tuple[str, str, str]:
 
 
 def clip(text: str, width: int) -> str:
-    text = " ".join(str(text).split())
+    """One line of at most ``width`` characters, without characters XML forbids."""
+    text = " ".join(xml_safe(text).split())
     return text if len(text) <= width else text[: width - 1] + "…"
 
 
@@ -103,7 +105,7 @@ def _legend_groups(data: ReportData, order: list[int]) -> list[Any]:
         col, mk, hatch = group_style(i)
         handles.append(Line2D([], [], linestyle="none", marker=mk, markersize=8, markerfacecolor=col,
                               markeredgecolor="#222222", markeredgewidth=0.6,
-                              label=f"G{gid}  {clip(data.group_name(gid), 36)} ({sizes.get(gid, 0)})"))
+                              label=f"G{gid}  {clip(data.group_name(gid), 44)}  [{sizes.get(gid, 0)}]"))
     if len(order) > LEGEND_GROUPS:
         rest = order[LEGEND_GROUPS:]
         handles.append(Line2D([], [], linestyle="none", marker="", label=f"+ {len(rest)} smaller groups "
@@ -147,8 +149,12 @@ def network_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
     style = {gid: group_style(i) for i, gid in enumerate(order)}
     for key, (x, y, r) in discs.items():
         col, _mk, hatch = style.get(key, (NO_GROUP, ".", ""))
-        ax.add_patch(Circle((x, y), r * 0.97, facecolor=matplotlib.colors.to_rgba(col, 0.10),
-                            edgecolor=matplotlib.colors.to_rgba(col, 0.75), hatch=hatch, linewidth=1.2, zorder=0))
+        # Fill and hatch as two patches: an SVG pattern fill takes the fill's opacity, hatch lines included.
+        ax.add_patch(Circle((x, y), r * 0.97, facecolor=matplotlib.colors.to_rgba(col, 0.08),
+                            edgecolor=matplotlib.colors.to_rgba(col, 0.85), linewidth=1.2, zorder=0))
+        if hatch:
+            ax.add_patch(Circle((x, y), r * 0.97, facecolor="none", edgecolor=matplotlib.colors.to_rgba(col, 0.28),
+                                hatch=hatch, linewidth=0, zorder=0))
         ax.text(x, y + r * 0.97, f"G{key}" if key is not None else "no group", ha="center", va="center", fontsize=8,
                 fontweight="bold", zorder=5, bbox={"boxstyle": "round,pad=0.2", "facecolor": "white", "edgecolor": "#555555", "linewidth": 0.6})
     group_of = {c: a.group_of.get(c) for c in G}
@@ -158,8 +164,8 @@ def network_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
         ax.add_collection(LineCollection([(pos[u], pos[v]) for u, v, _ in within], colors=[(0.45, 0.45, 0.45, 0.22)],
                                          linewidths=[0.25 + 0.6 * w for _u, _v, w in within], zorder=1))
     if between:
-        ax.add_collection(LineCollection([(pos[u], pos[v]) for u, v, _ in between], colors=[(0.1, 0.1, 0.1, 0.45)],
-                                         linewidths=[0.4 + 0.8 * w for _u, _v, w in between], zorder=2))
+        ax.add_collection(LineCollection([(pos[u], pos[v]) for u, v, _ in between], colors=[(0.15, 0.15, 0.15, 0.22)],
+                                         linewidths=[0.3 + 0.7 * w for _u, _v, w in between], zorder=2))
     tops = [(pos[u], pos[v]) for u, v, _ in between if (min(u, v), max(u, v)) in top]
     if tops:
         ax.add_collection(LineCollection(tops, colors=["black"], linewidths=2.2, zorder=2.5))
@@ -172,9 +178,11 @@ def network_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
         ax.scatter(xs, ys, s=[34 if m in warm else 16 for m in members], marker=mk if key is not None else "o",
                    c=col, edgecolors=["black" if m in warm else "#ffffff" for m in members],
                    linewidths=[1.1 if m in warm else 0.3 for m in members], zorder=3)
-    for b in data.brokers[:5]:
+    offsets = ((8, 8), (8, -14), (-8, 8), (-8, -14), (0, 16))
+    for b, off in zip(data.brokers[:5], offsets):
         if b["id"] in pos:
-            ax.annotate(clip(b["name"], 28), pos[b["id"]], xytext=(6, 6), textcoords="offset points", fontsize=7,
+            ax.annotate(clip(b["name"], 28), pos[b["id"]], xytext=off, textcoords="offset points", fontsize=7,
+                        ha="left" if off[0] >= 0 else "right", arrowprops={"arrowstyle": "-", "linewidth": 0.6},
                         zorder=6, bbox={"boxstyle": "round,pad=0.15", "facecolor": "white", "edgecolor": "none", "alpha": 0.85})
     ax.autoscale_view()
     handles = _legend_groups(data, order)
@@ -185,11 +193,11 @@ def network_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
         Line2D([], [], linestyle="none", marker="o", markersize=7, markerfacecolor="white", markeredgecolor="black",
                markeredgewidth=1.4, label="warm contact (black outline)"),
         Line2D([], [], color=(0.45, 0.45, 0.45, 0.5), linewidth=1.0, label="tie within a group"),
-        Line2D([], [], color=(0.1, 0.1, 0.1, 0.7), linewidth=1.2, label="tie between groups"),
+        Line2D([], [], color=(0.15, 0.15, 0.15, 0.5), linewidth=1.0, label="tie between groups"),
         Line2D([], [], color="black", linewidth=2.4, label="top bridge"),
     ]
     fig.legend(handles=handles, loc="upper left", bbox_to_anchor=(0.67, 0.98), fontsize=8, frameon=False,
-               title="Groups (G = group number)", title_fontsize=9, alignment="left")
+               title="Groups: G number, name  [contacts]", title_fontsize=9, alignment="left")
     drawn = len(within) + len(between)
     caption = (f"{len(G):,} contacts in {len(order)} groups" + (f" and {len(loose)} without a group" if loose else "")
                + f"; {'all' if drawn == total else f'the {drawn:,} strongest of'} {total:,} ties drawn"
@@ -226,12 +234,12 @@ def _group_map_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
     handles = []
     for i, g in enumerate(order[:LEGEND_GROUPS]):
         col, _mk, hatch = group_style(i)
-        handles.append(Patch(facecolor=col, edgecolor="#222222", hatch=hatch, label=f"G{g}  {clip(data.group_name(g), 36)} ({sizes[g]})"))
+        handles.append(Patch(facecolor=col, edgecolor="#222222", hatch=hatch, label=f"G{g}  {clip(data.group_name(g), 44)}  [{sizes[g]}]"))
     if len(order) > LEGEND_GROUPS:
         handles.append(Patch(facecolor="white", edgecolor="white", label=f"+ {len(order) - LEGEND_GROUPS} smaller groups, numbered on the map"))
     handles.append(Line2D([], [], color=(0.15, 0.15, 0.15, 0.7), linewidth=3, label="ties between two groups (wider: more)"))
     fig.legend(handles=handles, loc="upper left", bbox_to_anchor=(0.67, 0.98), fontsize=8, frameon=False,
-               title="Groups (G = group number)", title_fontsize=9, alignment="left")
+               title="Groups: G number, name  [contacts]", title_fontsize=9, alignment="left")
     caption = (f"Map of {len(order)} groups ({sum(sizes.values()):,} of {len(data.net.contacts):,} contacts; "
                f"{data.unclustered:,} without a group are not drawn); {len(links)} pairs of groups are linked by ties.")
     return _render(fig, "map"), caption

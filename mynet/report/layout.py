@@ -78,9 +78,29 @@ def _inside(G: nx.Graph, members: list[Hashable], seed: int) -> np.ndarray:
         return sunflower(n)
     pos = nx.spring_layout(H, seed=seed, weight="weight", iterations=60)
     xy = np.array([pos[m] for m in members], dtype=float)
-    xy -= xy.mean(axis=0)
-    far = np.sqrt((xy ** 2).sum(axis=1)).max()
-    return xy / far if far > 0 else sunflower(n)
+    xy -= np.median(xy, axis=0)
+    return _even_out(xy)
+
+
+def _even_out(xy: np.ndarray, keep: float = 0.25) -> np.ndarray:
+    """Spread points over the unit disc by the rank of their distance from the centre.
+
+    A force-directed layout of a group with a few loosely tied members packs
+    the rest into a clump; replacing each distance by ``sqrt(rank / n)`` (the
+    radius that gives an even spread over the disc), blended with ``keep`` of
+    the original distance, keeps every point's direction and the order of
+    distances while using the whole disc.
+    """
+    n = len(xy)
+    r = np.sqrt((xy ** 2).sum(axis=1))
+    far = r.max()
+    if far <= 0:
+        return sunflower(n)
+    rank = np.empty(n)
+    rank[np.lexsort((np.arange(n), r))] = np.arange(n)
+    target = (1 - keep) * np.sqrt((rank + 0.5) / n) + keep * r / far
+    scale = np.divide(target, r, out=np.zeros(n), where=r > 0)
+    return xy * scale[:, None]
 
 
 def group_layout(

@@ -49,12 +49,15 @@ class TopBar(Static):
     def update_bar(self) -> None:
         app: MynetApp = self.app  # type: ignore[assignment]
         snap = app.snapshot
-        place = " › ".join(getattr(s, "crumb", "") for s in app.screen_stack if getattr(s, "crumb", ""))
+        place = [str(getattr(s, "crumb", "")) for s in app.screen_stack if isinstance(s, Page) and s.crumb]
         head = f" mynet · {app.path.name}"
-        if snap is not None:
-            head += (f" · {plural(len(snap.contacts), 'person', 'people')} · {plural(len(snap.net.ties), 'tie')}"
-                     f" · {plural(len(snap.analysis.groups), 'group')}")
-        self.update(head + (f"   {place}" if place else ""))
+        if len(place) > 1:  # below the views: where you are
+            self.update(head + " · " + " › ".join(place))
+        elif snap is not None:
+            self.update(head + f" · {plural(len(snap.contacts), 'person', 'people')} · {plural(len(snap.net.ties), 'tie')}"
+                        f" · {plural(len(snap.analysis.groups), 'group')}")
+        else:
+            self.update(head)
 
 
 class ViewTab(Static):
@@ -91,6 +94,8 @@ class Page(Screen):
     """A screen with the top bar, a status line and the key footer around its body."""
 
     crumb = ""
+    #: What the status line says when the screen opens: what its words mean.
+    hint = ""
 
     def compose(self) -> ComposeResult:
         yield TopBar(classes="topbar")
@@ -107,10 +112,14 @@ class Page(Screen):
     def on_screen_resume(self) -> None:
         for bar in self.query(TopBar):
             bar.update_bar()
+        if self.hint:
+            self.app.status_text = self.hint  # type: ignore[attr-defined]
 
 
 class MainScreen(Page):
     """The top-level views, one at a time, picked by number or by a click on the view bar."""
+
+    crumb = "Views"
 
     def body(self) -> ComposeResult:
         from .views_main import GroupsView, MapView, PeopleView
@@ -141,6 +150,8 @@ class MainScreen(Page):
             tab.set_class(tab.view == view, "-current")
         widget = self.query_one(f"#{view}")
         widget.focus_default()  # type: ignore[attr-defined]
+        if getattr(widget, "hint", "") and self.app.snapshot is not None:  # type: ignore[attr-defined]
+            self.app.status_text = widget.hint  # type: ignore[attr-defined]
 
     def refresh_view(self, snap: Snapshot) -> None:
         self.query_one("#groups").loading = False
@@ -314,8 +325,8 @@ class MynetApp(App):
             return "This workspace has no contacts yet. Import your exports first: mynet import FILE"
         named = sum(1 for g in snap.analysis.groups if g.user_named)
         if snap.analysis.groups and not named:
-            return "Enter opens a group; n gives it your own name. ~ marks a label mynet suggested. ? lists every key."
-        return "Enter opens; Escape goes back; / searches everyone; ? lists every key."
+            return "Enter opens a group · n gives it your own name · ~ marks a label mynet suggested · ? keys"
+        return "Enter opens · Escape goes back · / searches everyone · ? lists every key"
 
     def redraw(self) -> None:
         snap = self.snapshot

@@ -253,7 +253,7 @@ def load_extras(path: Path, snap: Snapshot, status: Status | None = None) -> Ext
         except ImportError:
             extras.findings_error = "The audit is not part of this version of mynet yet."
             return extras
-        extras.findings = list(audit(store, snap.net, snap.analysis))
+        extras.findings = list(audit(store, snap.net, snap.analysis, today=snap.today))
         return extras
 
     return with_store(path, run, status)

@@ -22,7 +22,7 @@ from .look import SHADES, SUGGESTED, BOUNDS, RAMP, clip, density_cell
 
 __all__ = ["GroupMap", "legend"]
 
-LABEL = 20  # width of the row labels
+LABEL = 20  # narrowest row labels (they widen to fill the room left)
 CELL = 7  # width of one cell: "▓▓ 123!"
 
 
@@ -33,7 +33,7 @@ def legend() -> Text:
     for k, glyph in enumerate(SHADES):
         out.append(glyph * 2, style=RAMP[k])
         out.append(f" {labels[k]}  ")
-    out.append("\nnumber: ties between two groups (inside one, on the diagonal)  !: hangs on one person or a local bridge")
+    out.append("\n123 ties (diagonal: inside a group)  ! rests on one person or a local bridge")
     return out
 
 
@@ -69,17 +69,29 @@ class GroupMap(Widget, can_focus=True):
         super().__init__(**kw)
         self.snap: Snapshot | None = None
         self.gids: list[int] = []
+        self.label = LABEL
+
+    def _fit_label(self) -> None:
+        room = (self.parent.size.width if self.parent else 80) - 4 - CELL * len(self.gids) - 1
+        self.label = max(LABEL, min(34, room))
 
     def show(self, snap: Snapshot) -> None:
         self.snap = snap
         self.gids = [g.id for g in snap.analysis.groups]
         self.row = min(self.row, max(0, len(self.gids) - 1))
         self.col = min(self.col, max(0, len(self.gids) - 1))
+        self._fit_label()
         self.refresh(layout=True)
         self._moved()
 
+    def on_resize(self) -> None:
+        old = self.label
+        self._fit_label()
+        if old != self.label:
+            self.refresh(layout=True)
+
     def get_content_width(self, container: Size, viewport: Size) -> int:
-        return LABEL + 1 + CELL * max(1, len(self.gids))
+        return self.label + 1 + CELL * max(1, len(self.gids))
 
     def get_content_height(self, container: Size, viewport: Size, width: int) -> int:
         return len(self.gids) + 1 if self.gids else 1
@@ -105,14 +117,14 @@ class GroupMap(Widget, can_focus=True):
         head_style = self.get_component_rich_style("groupmap--head")
         cursor = self.get_component_rich_style("groupmap--cursor")
         out = Text()
-        out.append(" " * (LABEL + 1))
+        out.append(" " * (self.label + 1))
         for j, gid in enumerate(self.gids):
             out.append(f"{j + 1:^{CELL}}", style=head_style + (cursor if j == self.col else Style()))
         for i, g in enumerate(self.gids):
             out.append("\n")
             info = snap.group(g)
             name = (("" if info.user_named else SUGGESTED) + info.name) if info else str(g)
-            label = f"{i + 1:>2} {clip(name, LABEL - 3)}".ljust(LABEL)
+            label = f"{i + 1:>2} {clip(name, self.label - 3)}".ljust(self.label)
             out.append(label, style=head_style + (cursor if i == self.row else Style()))
             out.append(" ")
             for j, h in enumerate(self.gids):
@@ -130,7 +142,7 @@ class GroupMap(Widget, can_focus=True):
             self.scroll_visible_cell()
 
     def scroll_visible_cell(self) -> None:
-        region = Region(LABEL + 1 + self.col * CELL, self.row + 1, CELL, 1)
+        region = Region(self.label + 1 + self.col * CELL, self.row + 1, CELL, 1)
         self.call_after_refresh(self.scroll_to_region, region, animate=False)
 
     def watch_row(self) -> None:
@@ -155,7 +167,7 @@ class GroupMap(Widget, can_focus=True):
         offset = event.get_content_offset(self)
         if offset is None or not self.gids:
             return
-        i, j = offset.y - 1, (offset.x - LABEL - 1) // CELL
+        i, j = offset.y - 1, (offset.x - self.label - 1) // CELL
         if 0 <= i < len(self.gids):
             j = j if 0 <= j < len(self.gids) else i
             again = (i, j) == (self.row, self.col)

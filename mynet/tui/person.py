@@ -117,6 +117,8 @@ class ConfirmScreen(ModalScreen):
 class PersonScreen(Page):
     """A person, their ties strongest first, and why mynet believes in each tie."""
 
+    hint = "The highlighted tie's evidence is below the list, with the files it came from."
+
     BINDINGS = [
         Binding("w", "rate", "Rate closeness"),
         Binding("t", "tie", "Add tie"),

@@ -24,6 +24,8 @@ __all__ = ["GroupScreen", "LinksScreen", "HelpScreen", "AskScreen", "help_sectio
 class GroupScreen(Page):
     """The members of one group: warmth, role and organisation."""
 
+    hint = "Warmth: how close you are (0-1), from meetings, mail or your rating. Enter opens a person."
+
     BINDINGS = [
         Binding("n", "name", "Name group"),
         Binding("c", "connections", "Connections"),
@@ -112,6 +114,8 @@ def gateways(snap: Snapshot, gid: int, limit: int = 8) -> list[tuple[int, int, s
 class LinksScreen(Page):
     """How one group connects to the rest: linked groups, bridges, gateways, single points of access."""
 
+    hint = "Bridges and gateways are how news and introductions travel between groups. Enter opens."
+
     BINDINGS = [Binding("escape", "app.back", "Back")]
 
     def __init__(self, gid: int) -> None:
@@ -125,7 +129,7 @@ class LinksScreen(Page):
 
     def body(self) -> ComposeResult:
         yield Static("", classes="head", id="links-head")
-        yield RowList([Col("Who or what"), Col("Ties", 9), Col("Detail")], empty="No connections.", id="links-list")
+        yield RowList([Col("Who or what"), Col("How much", 9), Col("Detail")], empty="No connections.", id="links-list")
 
     def on_mount(self) -> None:
         self.query_one(RowList).focus()

@@ -36,27 +36,26 @@ def group_title(snap: Snapshot, gid: int | None) -> Text:
 
 
 def group_facts(snap: Snapshot, gid: int) -> str:
-    """Two or three lines about a group for the detail panel."""
+    """Three short lines about a group for the detail panel."""
     g = snap.group(gid)
     if g is None:
         return ""
     ties, density = snap.internal(gid)
-    lines = []
     if g.user_named:
-        lines.append(f"{g.name}  (mynet's label: {g.label})")
+        first = f"{clip(g.name, 40)} · your name; mynet's label: {clip(g.label, 30)}"
     else:
-        lines.append(f"{SUGGESTED}{g.name}: a label mynet suggested ({g.share:.0%} of members share it); n names it")
-    lines.append(f"{plural(g.size, 'person', 'people')}, {g.warm} you are warm with ({g.warm_share:.0%}); "
-                 f"{plural(ties, 'tie')} inside (density {density:.2f})")
+        first = f"{SUGGESTED}{clip(g.name, 40)} · label suggested by mynet ({g.share:.0%} share it) · n names it"
+    second = (f"{plural(g.size, 'person', 'people')} · {g.warm} warm with you ({g.warm_share:.0%}) · "
+              f"{plural(ties, 'tie')} inside, density {density:.2f}")
     linked = sorted((x for x in snap.analysis.links if gid in (x["a"], x["b"])), key=lambda x: -x["ties"])
     if linked:
         top = linked[0]
         other = top["b"] if top["a"] == gid else top["a"]
-        lines.append(f"Tied to {plural(len(linked), 'other group')}; most to {clip(snap.group_name(other), 30)} "
-                     f"({plural(top['ties'], 'tie')}). c shows the connections.")
+        third = (f"Tied to {plural(len(linked), 'other group')}, most to {clip(snap.group_name(other), 26)} "
+                 f"({plural(top['ties'], 'tie')}) · c connections")
     else:
-        lines.append("No ties to any other group.")
-    return "\n".join(lines)
+        third = "No ties to any other group."
+    return "\n".join((first, second, third))
 
 
 class NameEditor(Horizontal):
@@ -100,6 +99,8 @@ class NameEditor(Horizontal):
 
 class GroupsView(Vertical):
     """Every group with its size, name or suggested label, and how many of its people you are warm with."""
+
+    hint = "Enter opens a group · n gives it your own name · ~ marks a label mynet suggested · ? keys"
 
     BINDINGS = [
         Binding("n", "name", "Name group"),
@@ -180,6 +181,8 @@ class GroupsView(Vertical):
 class MapView(Vertical):
     """The whole network on one screen: a group-to-group matrix."""
 
+    hint = "Arrows move over the map; the panel below explains the highlighted pair."
+
     def compose(self) -> ComposeResult:
         with ScrollableContainer(id="map-scroll"):
             yield GroupMap(id="map-grid")
@@ -203,7 +206,7 @@ class MapView(Vertical):
             return
         if g == h:
             ties, density = snap.internal(g)
-            detail.update(f"{clip(gi.name, 40)}: {plural(gi.size, 'person', 'people')}, {plural(ties, 'tie')} inside "
+            detail.update(f"{'' if gi.user_named else SUGGESTED}{clip(gi.name, 40)}: {plural(gi.size, 'person', 'people')}, {plural(ties, 'tie')} inside "
                           f"(density {density:.2f}).\nEnter opens the group.")
             return
         link = snap.link(g, h)
@@ -235,6 +238,8 @@ SORTS = ("name", "warmth", "last contact")
 
 class PeopleView(Vertical):
     """Everyone, searchable by name, organisation, tag, e-mail, phone or place."""
+
+    hint = "/ types a search · Enter opens a person · s changes the order"
 
     BINDINGS = [Binding("s", "sort", "Sort")]
 

@@ -60,6 +60,8 @@ def path_text(p: dict[str, Any]) -> Text:
 class ReachView(Vertical):
     """Type a person, an organisation or a tag; get the warmest chains of introductions."""
 
+    hint = "Score: the product of the strengths along the path (1 is best). Escape leaves the box."
+
     BINDINGS = [Binding("down", "suggest(1)", "Next", show=False), Binding("up", "suggest(-1)", "Previous", show=False)]
 
     def __init__(self, **kw) -> None:
@@ -245,6 +247,8 @@ def _side(snap: Snapshot, cid: int) -> Text:
 class DuplicatesView(Vertical):
     """Pairs that may be one person: merge them, keep them apart, or leave them for later."""
 
+    hint = "Each decision is saved at once and kept across re-imports (mynet unmerge undoes a merge)."
+
     BINDINGS = [
         Binding("m", "merge", "Merge"),
         Binding("k", "apart", "Keep apart"),
@@ -258,7 +262,7 @@ class DuplicatesView(Vertical):
 
     def compose(self) -> ComposeResult:
         yield Static("", classes="count", id="dupes-head")
-        yield RowList([Col("Score", 5, "right"), Col("One"), Col("Other"), Col("Why", 0), Col("", 5)],
+        yield RowList([Col("Score", 5, "right"), Col("One", 20), Col("Other", 20), Col("Why"), Col("", 5)],
                       empty="No duplicates left to decide.", id="dupes-list")
         with Horizontal(classes="compare", id="dupes-compare"):
             yield Static("", id="dupes-a")
@@ -340,8 +344,10 @@ class DuplicatesView(Vertical):
 class FindingsView(Vertical):
     """What the audit found about the shape of the network, most useful first."""
 
+    hint = "The audit of your network's shape, the most useful finding first."
+
     def compose(self) -> ComposeResult:
-        yield RowList([Col("How much", 10), Col("Finding")], empty="No findings.", id="findings-list")
+        yield RowList([Col("Priority", 10), Col("Finding")], empty="No findings.", id="findings-list")
         with VerticalScroll(classes="detail-scroll", id="finding-box"):
             yield Static("", id="finding-detail")
 
@@ -373,8 +379,13 @@ class FindingsView(Vertical):
         out.append(f.get("title", ""), style="bold")
         out.append("\n" + str(f.get("detail", "")))
         numbers = f.get("numbers") or {}
-        if numbers:
-            out.append("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in numbers.items()), style="italic")
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        shown = {k: v for k, v in numbers.items() if not isinstance(v, (list, tuple, dict))}
+        if shown:
+            out.append("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in shown.items()), style="italic")
+        people = numbers.get("people")
+        if snap is not None and isinstance(people, list) and people and all(isinstance(p, int) for p in people):
+            out.append("\nPeople: " + ", ".join(snap.net.name(p) for p in people[:12]) + ("…" if len(people) > 12 else ""))
         if f.get("suggestion"):
             out.append("\nWhat to do: ", style="bold")
             out.append(str(f["suggestion"]))
