@@ -137,3 +137,18 @@ def test_not_found_and_ambiguous(capsys, tmp_path):
     code, out, err = run(capsys, "show", "ana")
     assert code == 4 and "matches 2 contacts" in err
     assert run(capsys, "show", "Ana Lind")[0] == 0  # an exact name wins over partial ones
+
+
+def test_whole_corpus_imports_or_is_refused_cleanly(capsys, corpus_dir, tmp_path):
+    # Every file of the shared corpus (RFC 6350/2426/5545 examples and public parser test files) through the CLI:
+    # no traceback, no hang; refused files are named; the rest is stored.
+    ws = str(tmp_path / "corpus.sqlite")
+    code, out, err = run(capsys, "--workspace", ws, "import", str(corpus_dir), "--skip-bad-files", "--json")
+    report = json.loads(out)
+    refused = [f for f in report["files"] if f["status"] == "refused"]
+    assert code == (2 if refused else 0)
+    assert all(f["error"] and f["path"] in f["error"] for f in refused)
+    assert report["records_read"] >= 80 and report["contacts_after"] >= 60
+    assert "Traceback" not in err
+    code, out, err = run(capsys, "--workspace", ws, "ties", "--json")
+    assert code == 0 and isinstance(json.loads(out), list)

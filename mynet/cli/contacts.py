@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import click
 
 from ..errors import InputError, MynetError
@@ -141,16 +143,21 @@ def register(cli: click.Group) -> None:
             if region.upper() not in phonenumbers.SUPPORTED_REGIONS:
                 raise MynetError(f"--region {region!r} is not a country code phonenumbers knows (e.g. GB, US, DE)")
         store = obj.store()
-        report = import_paths(
-            store,
-            list(paths),
-            strict=strict,
-            mapping=mapping or None,
-            region=region,
-            as_of=as_of,
-            skip_bad_files=skip_bad_files,
-            progress=None if as_json else note,
-        )
+        try:
+            report = import_paths(
+                store,
+                list(paths),
+                strict=strict,
+                mapping=mapping or None,
+                region=region,
+                as_of=as_of,
+                skip_bad_files=skip_bad_files,
+                progress=None if as_json else note,
+            )
+        except InputError as exc:
+            hint = "" if strict or skip_bad_files or len(paths) == 1 and not Path(paths[0]).is_dir() else \
+                "; nothing was imported (--skip-bad-files imports the other files)"
+            raise InputError(exc.path, exc.reason + hint, exc.line) from exc
         print_import_report(report, as_json)
         if report.refused:
             raise InputError(report.refused[0].path, f"and {len(report.refused) - 1} other file(s) were refused" if len(report.refused) > 1 else "was refused (see above)")

@@ -58,10 +58,15 @@ class ReportData:
     pseudonyms: Pseudonyms | None = None
 
     def group_name(self, gid: int | None) -> str:
+        """The group's name (``no group`` for None)."""
         if gid is None:
             return "no group"
         g = self.analysis.group(gid)
         return g.name if g else f"group {gid}"
+
+    def group_label(self, gid: int | None) -> str:
+        """``G3 name``, as groups are numbered on the picture."""
+        return self.group_name(gid) if gid is None else f"G{gid} {self.group_name(gid)}"
 
 
 def _noop(_step: str) -> None:

@@ -95,7 +95,7 @@ def _groups(d: ReportData) -> str:
 def _brokers(d: ReportData) -> str:
     if not d.brokers:
         return "<p>No contact lies between others yet (no betweenness above zero).</p>"
-    rows = [[b["name"], b["role"], d.group_name(b["group"]), num(b["betweenness"], 3), num(b["constraint"]),
+    rows = [[b["name"], b["role"], d.group_label(b["group"]), num(b["betweenness"], 3), num(b["constraint"]),
              num(b["effective_size"], 1), num(b["participation"]), num(b["warmth"])] for b in d.brokers]
     return _table(["contact", "role", "group", "betweenness", "constraint", "effective size", "participation", "your warmth"],
                   rows, {3, 4, 5, 6, 7})
@@ -104,7 +104,7 @@ def _brokers(d: ReportData) -> str:
 def _bridges(d: ReportData) -> str:
     if not d.bridges:
         return "<p>No ties between groups.</p>"
-    rows = [[b["a_name"], b["b_name"], " / ".join(d.group_name(g) for g in b["groups"]), num(b["strength"]),
+    rows = [[b["a_name"], b["b_name"], " / ".join(d.group_label(g) for g in b["groups"]), num(b["strength"]),
              num(b["overlap"]), f"yes (span {b['span']})" if b.get("local_bridge") else "no", b["ties_between"], b["why"] or "-"]
             for b in d.bridges]
     return _table(["between", "and", "groups", "strength", "overlap", "local bridge", "ties between the groups", "why"],

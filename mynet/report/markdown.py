@@ -78,14 +78,14 @@ def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has
     head("brokers")
     if d.brokers:
         L += _table(["contact", "role", "group", "betweenness", "constraint", "effective size", "participation", "your warmth"],
-                    [[b["name"], b["role"], d.group_name(b["group"]), num(b["betweenness"], 3), num(b["constraint"]),
+                    [[b["name"], b["role"], d.group_label(b["group"]), num(b["betweenness"], 3), num(b["constraint"]),
                       num(b["effective_size"], 1), num(b["participation"]), num(b["warmth"])] for b in d.brokers])
     else:
         L += ["No contact lies between others yet.", ""]
     head("bridges")
     if d.bridges:
         L += _table(["between", "and", "groups", "strength", "overlap", "local bridge", "ties between the groups", "why"],
-                    [[b["a_name"], b["b_name"], " / ".join(d.group_name(g) for g in b["groups"]), num(b["strength"]),
+                    [[b["a_name"], b["b_name"], " / ".join(d.group_label(g) for g in b["groups"]), num(b["strength"]),
                       num(b["overlap"]), f"yes (span {b['span']})" if b.get("local_bridge") else "no", b["ties_between"],
                       b["why"] or "-"] for b in d.bridges])
     else:

@@ -1,0 +1,74 @@
+"""``mynet report`` and ``mynet export``: the network as a page to read, or as files for other tools."""
+
+from __future__ import annotations
+
+from contextlib import contextmanager
+from pathlib import Path
+
+import click
+
+from ..export import FORMATS, export_network
+from ..report import MAX_CONTACTS_DRAWN, STEPS, write_report
+from ._common import note
+
+
+@contextmanager
+def _progress(label: str, steps: tuple[str, ...]):
+    """A rich progress bar on stderr; yields a callback taking each step's name."""
+    from rich.console import Console
+    from rich.progress import BarColumn, Progress, TextColumn, TimeElapsedColumn
+
+    console = Console(stderr=True)
+    with Progress(TextColumn("{task.description}"), BarColumn(), TextColumn("{task.fields[step]}"),
+                  TimeElapsedColumn(), console=console, transient=True, disable=not console.is_terminal) as bar:
+        task = bar.add_task(label, total=len(steps), step="")
+        seen: list[str] = []
+
+        def advance(step: str) -> None:
+            if seen:
+                bar.advance(task)
+            seen.append(step)
+            bar.update(task, step=step)
+
+        yield advance
+        bar.update(task, completed=len(steps))
+
+
+def register(cli: click.Group) -> None:
+    @cli.command("report")
+    @click.option("-o", "--output", type=click.Path(dir_okay=False), default=None,
+                  help="File to write (default: network.html, or network.md with --markdown).")
+    @click.option("--markdown", is_flag=True, help="Write Markdown, with the pictures as SVG files in <name>_files/.")
+    @click.option("--redact", is_flag=True, help="Replace names, organisations, addresses, tags and places by pseudonyms.")
+    @click.option("--seed", type=int, default=0, show_default=True, help="Seed of the picture's layout.")
+    @click.option("--max-contacts", type=int, default=MAX_CONTACTS_DRAWN, show_default=True,
+                  help="Above this many contacts the picture shows the map of groups.")
+    @click.pass_obj
+    def report_cmd(obj, output, markdown, redact, seed, max_contacts):
+        """Write a self-contained report on your network (opens offline, prints in grey)."""
+        out = Path(output or ("network.md" if markdown else "network.html"))
+        store = obj.store()
+        with _progress("report", STEPS) as step:
+            path = write_report(store, out, markdown=markdown, redact=redact, seed=seed, max_contacts=max_contacts,
+                                progress=step)
+        click.echo(str(path))
+        if markdown:
+            note(f"Pictures in {path.with_name(path.stem + '_files')}/")
+        note("Redacted: names and addresses are pseudonyms." if redact
+             else "The report holds your contacts' names: share it with care (or use --redact).")
+
+    @cli.command("export")
+    @click.option("--format", "fmt", type=click.Choice(FORMATS), default=None,
+                  help="File format (default: from the output's suffix).")
+    @click.option("-o", "--output", type=click.Path(dir_okay=False), required=True,
+                  help="File to write; for csv, FILE.csv gives FILE-contacts.csv and FILE-ties.csv.")
+    @click.option("--redact", is_flag=True, help="Replace names, organisations, addresses, tags and places by pseudonyms.")
+    @click.pass_obj
+    def export_cmd(obj, fmt, output, redact):
+        """Write the network with every computed attribute as GraphML, CSV or JSON (node-link)."""
+        store = obj.store()
+        with _progress("export", ("export",)) as step:
+            step("export")
+            paths = export_network(store, output, fmt, redact=redact)
+        for p in paths:
+            click.echo(str(p))
