@@ -43,11 +43,15 @@ class WarmthModel:
     half_life_days: float = 180.0
     scale: float = 3.0
     dormant_days: float = 365.0
+    unlisted_threshold: int = 3  # people outside the address book are shown from this many interactions
 
     @classmethod
     def from_settings(cls, raw: Mapping | None) -> "WarmthModel":
         raw = raw or {}
-        return cls(**{k: float(raw[k]) for k in ("half_life_days", "scale", "dormant_days") if k in raw})
+        out = cls(**{k: float(raw[k]) for k in ("half_life_days", "scale", "dormant_days") if k in raw})
+        if "unlisted_threshold" in raw:
+            out.unlisted_threshold = int(raw["unlisted_threshold"])
+        return out
 
 
 @dataclass

@@ -196,3 +196,19 @@ def test_cli_groups_json_contract_and_contacts_group(sample_ws, capsys):
     assert all({"score", "path", "steps"} <= set(p) and all({"from", "to", "strength", "why"} <= set(s) for s in p["steps"]) for p in paths)
     for cmd in (["audit"], ["audit", "--markdown"], ["brokers"], ["bridges"], ["groups", "show", str(g0["id"])]):
         assert run(capsys, "--workspace", ws, *cmd)[0] == 0
+
+
+def test_reach_org_matching_finds_past_staff_and_avoid(sample_ws):
+    store, truth = sample_ws
+    net = load_network(store)
+    # Harrowgate Logistics is the user's previous employer in the scenario: most of its people are past staff.
+    t = resolve_targets(net, org="harrowgate logistic")  # a typo still matches (fuzzy)
+    assert t.matched == ["Harrowgate Logistics"]
+    past = [m for m in t.members if "Harrowgate Logistics" in net.by_id[m].past_orgs]
+    assert past and set(past) <= t.past
+    res = reach(net, t, k=5)
+    assert res.paths
+    first = res.paths[0]["path"][0]
+    again = reach(net, t, k=5, avoid={first})
+    assert all(first not in p["path"] for p in again.paths)
+    assert all(first != pt["target"] for pt in again.per_target)

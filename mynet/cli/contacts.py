@@ -206,7 +206,9 @@ def register(cli: click.Group) -> None:
             from ..network import _me_emails
             from ..warmth import unlisted_people
 
-            threshold = int((store.setting("warmth_model", {}) or {}).get("unlisted_threshold", 3))
+            from ..warmth import WarmthModel
+
+            threshold = WarmthModel.from_settings(store.setting("warmth_model", {})).unlisted_threshold
             people = unlisted_people(store.contacts(), store.interactions(), _me_emails(store), threshold)
             if as_json:
                 emit_json(people)
