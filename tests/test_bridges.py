@@ -198,6 +198,29 @@ def test_group_bridges_accepts_a_group_result():
     assert [r["score"] for r in rows] == sorted((r["score"] for r in rows), reverse=True)
 
 
+def test_group_bridges_limit_gives_the_head_of_the_full_list():
+    # With a limit, spans are computed for the returned ties only (3-hop
+    # paths counted per tie rather than per row block): same answer.
+    for seed, G in random_graphs(40, max_n=60):
+        nodes = sorted(G)
+        groups = {k: set(nodes[k::3]) for k in range(3)}
+        full = group_bridges(G, groups)
+        for k in (0, 1, 5, len(full) + 3):
+            assert group_bridges(G, groups, limit=k) == full[:k], (seed, k)
+
+
+def test_three_hop_counts_agree():
+    from mynet.analysis.groups import _edge_arrays
+
+    for seed, G in random_graphs(40, max_n=60):
+        nodes, lo, hi, _ = _edge_arrays(G, weight=None)
+        A = _bridges_sparse._adjacency(len(nodes), lo, hi)
+        _, common, paths3 = _bridges_sparse._common_neighbours(A, lo, hi, squares=True)
+        bare = common == 0
+        rows = _bridges_sparse._paths3_rows(A, lo[bare], hi[bare])
+        assert rows.tolist() == paths3[bare].tolist(), seed
+
+
 def test_group_links_hand_graph():
     G = hand_graph()
     G.add_edge(2, 6, weight=0.25)

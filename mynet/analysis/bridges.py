@@ -31,7 +31,7 @@ from typing import Any
 import networkx as nx
 import numpy as np
 
-from ._bridges_sparse import _adjacency, _common_neighbours, _spans
+from ._bridges_sparse import _adjacency, _common_neighbours, _paths3_rows, _spans
 from .groups import _edge_arrays, sorted_nodes
 
 __all__ = [
@@ -199,7 +199,7 @@ def _dense_groups(sets: Mapping[int, frozenset], member_of: Mapping, nodes: list
     return ids, np.array([dense.get(member_of.get(v), -1) for v in nodes], dtype=np.int64)
 
 
-def group_bridges(G: nx.Graph, groups: Any) -> list[dict[str, Any]]:
+def group_bridges(G: nx.Graph, groups: Any, *, limit: int | None = None) -> list[dict[str, Any]]:
     """Ties between two different groups, the ones that matter most first.
 
     A tie that is the only one between its two groups matters more than one
@@ -218,6 +218,10 @@ def group_bridges(G: nx.Graph, groups: Any) -> list[dict[str, Any]]:
     ----------
     G : networkx.Graph
     groups : mapping of int to set of node, or GroupResult
+    limit : int, optional
+        Return only the first ``limit`` ties. The ranking does not need
+        spans, so they are then computed for those ties only (most of the
+        cost on a large network).
 
     Returns
     -------
@@ -238,7 +242,8 @@ def group_bridges(G: nx.Graph, groups: Any) -> list[dict[str, Any]]:
     member_of = _membership(sets)
     nodes, lo, hi, w = _edge_arrays(G)
     A = _adjacency(len(nodes), lo, hi)
-    deg, common, paths3 = _common_neighbours(A, lo, hi, squares=True)
+    whole = limit is None
+    deg, common, paths3 = _common_neighbours(A, lo, hi, squares=whole)
     denom = deg[lo] + deg[hi] - 2 - common
     overlap = np.where(denom > 0, common / np.maximum(denom, 1), 0.0)
     ids, gid = _dense_groups(sets, member_of, nodes)  # dense indices, so any int ids work
@@ -250,13 +255,16 @@ def group_bridges(G: nx.Graph, groups: Any) -> list[dict[str, Any]]:
     _, inverse, counts = np.unique(pair_key, return_inverse=True, return_counts=True)
     n_between = counts[inverse]
     is_lb = common[idx] == 0
-    span = np.full(len(idx), np.nan)
-    lb = np.flatnonzero(is_lb)
-    span[lb] = _spans(G, A, nodes, lo[idx[lb]], hi[idx[lb]], paths3[idx[lb]])
     score = w[idx] / n_between * np.where(is_lb, 2.0, 1.0)
     # best first: score down, overlap up, then the pair (edges are already in (lo, hi) order)
     ranked = np.lexsort((np.arange(len(idx)), overlap[idx], -score))
+    if not whole:
+        ranked = ranked[: max(0, limit)]
     e = idx[ranked]
+    span = np.full(len(ranked), np.nan)
+    lb = np.flatnonzero(is_lb[ranked])
+    u, v = lo[e[lb]], hi[e[lb]]
+    span[lb] = _spans(G, A, nodes, u, v, paths3[e[lb]] if whole else _paths3_rows(A, u, v))
     columns = zip(
         lo[e].tolist(),
         hi[e].tolist(),
@@ -265,7 +273,7 @@ def group_bridges(G: nx.Graph, groups: Any) -> list[dict[str, Any]]:
         w[e].tolist(),
         overlap[e].tolist(),
         is_lb[ranked].tolist(),
-        span[ranked].tolist(),
+        span.tolist(),
         n_between[ranked].tolist(),
         score[ranked].tolist(),
     )

@@ -34,6 +34,7 @@ from typing import Any
 
 import networkx as nx
 import numpy as np
+import scipy.sparse as sp
 from scipy.optimize import linear_sum_assignment
 
 from ..normalise import GENERIC_TAGS, fold_text, is_real_org, is_webmail, normalise_org
@@ -310,11 +311,6 @@ def detect_groups(
     )
 
 
-def _jaccard(a: set, b: set) -> float:
-    union = len(a | b)
-    return len(a & b) / union if union else 0.0
-
-
 def match_groups(
     previous: Mapping[int, Iterable[Hashable]],
     current: Mapping[int, Iterable[Hashable]],
@@ -372,12 +368,27 @@ def match_groups(
     """
     prev_ids = sorted(previous)
     cur_ids = sorted(current)
-    prev = {p: set(previous[p]) for p in prev_ids}
-    cur = {c: set(current[c]) for c in cur_ids}
+    prev = [set(previous[p]) for p in prev_ids]
+    cur = [set(current[c]) for c in cur_ids]
+    # Overlaps |P & C| of every pair at once: incidence matrices, one product.
+    index: dict = {}
+    for ms in (*prev, *cur):
+        for v in ms:
+            index.setdefault(v, len(index))
+
+    def incidence(sets: list[set]) -> sp.csr_matrix:
+        rows = np.repeat(np.arange(len(sets)), [len(ms) for ms in sets])
+        cols = np.fromiter((index[v] for ms in sets for v in ms), dtype=np.int64, count=len(rows))
+        return sp.csr_matrix((np.ones(len(rows)), (rows, cols)), shape=(len(sets), max(1, len(index))))
+
+    inter = (incidence(prev) @ incidence(cur).T).toarray()
+    size_p = np.array([len(ms) for ms in prev], dtype=float)
+    size_c = np.array([len(ms) for ms in cur], dtype=float)
+    union = size_p[:, None] + size_c[None, :] - inter
+    J = np.divide(inter, union, out=np.zeros_like(inter), where=union > 0)
 
     mapping: dict[int, int] = {}
     if prev_ids and cur_ids:
-        J = np.array([[_jaccard(prev[p], cur[c]) for c in cur_ids] for p in prev_ids])
         rows, cols = linear_sum_assignment(J, maximize=True)
         for r, c in zip(rows.tolist(), cols.tolist()):
             if J[r, c] >= min_jaccard and J[r, c] > 0:
@@ -394,11 +405,11 @@ def match_groups(
     # least min_share of p's members (and at least two of them).
     events: list[dict[str, Any]] = []
     sources: dict[int, list[int]] = defaultdict(list)
-    for p in prev_ids:
-        size = len(prev[p])
+    for r, p in enumerate(prev_ids):
+        size = size_p[r]
         held = []
-        for c in cur_ids:
-            k = len(prev[p] & cur[c])
+        for col, c in enumerate(cur_ids):
+            k = int(inter[r, col])
             if k >= 2 and k >= min_share * size:
                 held.append((c, k))
                 sources[c].append(p)

@@ -37,7 +37,7 @@ class AnalysisModel:
     resolution: float = 1.0  # above 1: more, smaller groups (networkx's convention)
     min_group_size: int = 3  # smaller fragments are shown as unclustered
     seed: int = 0
-    exact_limit: int = 3000  # betweenness is exact up to this many contacts, sampled above
+    exact_limit: int = 2000  # betweenness is exact up to this many contacts, sampled above
     samples: int = 256
     backend: str = "louvain"  # or "igraph" (faster on very large networks)
 

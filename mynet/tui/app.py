@@ -26,7 +26,7 @@ from textual.widgets import ContentSwitcher, Footer, Input, Static
 from ..errors import MynetError
 from ..locations import resolve_workspace_path
 from ..store import Store
-from .data import Extras, Snapshot, load_extras, load_snapshot, with_store
+from .data import Extras, Snapshot, load_extras, load_snapshot, peek_snapshot, with_store
 from .look import THEME, plural
 
 __all__ = ["MynetApp", "create_app", "VIEWS"]
@@ -54,7 +54,9 @@ class TopBar(Static):
         if len(place) > 1:  # below the views: where you are
             self.update(head + " · " + " › ".join(place))
         elif snap is not None:
-            self.update(head + f" · {plural(len(snap.contacts), 'person', 'people')} · {plural(len(snap.net.ties), 'tie')}"
+            people = len(snap.contacts) if snap.net is not None else len(snap.analysis.group_of)
+            ties = len(snap.net.ties) if snap.net is not None else int(snap.analysis.summary.get("ties") or 0)
+            self.update(head + f" · {plural(people, 'person', 'people')} · {plural(ties, 'tie')}"
                         f" · {plural(len(snap.analysis.groups), 'group')}")
         else:
             self.update(head)
@@ -155,6 +157,9 @@ class MainScreen(Page):
 
     def refresh_view(self, snap: Snapshot) -> None:
         self.query_one("#groups").loading = False
+        if snap.preview:  # the groups as last analysed; the rest follows in a moment
+            self.query_one("#groups").refresh_view(snap)  # type: ignore[attr-defined]
+            return
         for view, _title in VIEWS:
             self.query_one(f"#{view}").refresh_view(snap)  # type: ignore[attr-defined]
         dupes = self.query_one("#tab-duplicates", ViewTab)
@@ -206,7 +211,7 @@ class MynetApp(App):
         self.register_theme(THEME)
         self.theme = THEME.name
         self.push_screen(MainScreen())
-        self.reload("Opening the workspace…")
+        self.reload("Opening the workspace…", peek=True)
         if self._watch_interval:
             self.set_interval(self._watch_interval, self._watch_tick)
 
@@ -249,8 +254,11 @@ class MynetApp(App):
         except RuntimeError:  # the app is closing
             pass
 
-    def reload(self, label: str = "Loading the network…") -> None:
-        """Load the network and analysis again in a worker (the view stays usable meanwhile)."""
+    def reload(self, label: str = "Loading the network…", *, peek: bool = False) -> None:
+        """Load the network and analysis again in a worker (the view stays usable meanwhile).
+
+        With ``peek``, the groups as last analysed are shown first, straight from the cache.
+        """
         self._load_seq += 1
         seq = self._load_seq
         job = self._start_job(label)
@@ -258,6 +266,10 @@ class MynetApp(App):
 
         def work() -> None:
             try:
+                if peek:
+                    early = peek_snapshot(self.path, self.today)
+                    if early is not None:
+                        self._from_thread(self._apply_preview, seq, early)
                 snap = load_snapshot(self.path, self.today, status=say)
                 self._from_thread(self._apply, seq, snap, job)
                 extras = load_extras(self.path, snap, status=say)
@@ -292,12 +304,18 @@ class MynetApp(App):
         if reload:
             self.reload("Updating the network after your change…")
 
+    def _apply_preview(self, seq: int, snap: Snapshot) -> None:
+        if self.snapshot is None and seq >= self._applied_seq:
+            self.snapshot = snap
+            self.main.refresh_view(snap)
+            self.snapshot_version += 1
+
     def _apply(self, seq: int, snap: Snapshot, job: int) -> None:
         self._end_job(job)
         if seq < self._applied_seq:
             return
         self._applied_seq = seq
-        old_extras = self.snapshot.extras if self.snapshot else None
+        old_extras = self.snapshot.extras if self.snapshot and not self.snapshot.preview else None
         snap.extras = old_extras
         self.snapshot = snap
         self._rebaseline()
@@ -325,7 +343,7 @@ class MynetApp(App):
             return "This workspace has no contacts yet. Import your exports first: mynet import FILE"
         named = sum(1 for g in snap.analysis.groups if g.user_named)
         if snap.analysis.groups and not named:
-            return "Enter opens a group · n gives it your own name · ~ marks a label mynet suggested · ? keys"
+            return "Enter opens · n names the group · ~ marks a suggested label · ? all keys"
         return "Enter opens · Escape goes back · / searches everyone · ? lists every key"
 
     def redraw(self) -> None:
@@ -370,15 +388,25 @@ class MynetApp(App):
             self.reload("Loading changes made elsewhere…")
 
     # -- actions -------------------------------------------------------------------------
+    def ready(self) -> bool:
+        """Whether the whole network is loaded (not only the preview of the groups)."""
+        if self.snapshot is None or self.snapshot.preview:
+            self.status_text = "Still loading the network; one moment…"
+            return False
+        return True
+
     def _to_main(self) -> MainScreen:
         while not isinstance(self.screen, MainScreen) and len(self.screen_stack) > 1:
             self.pop_screen()
         return self.main
 
     def action_view(self, view: str) -> None:
-        self._to_main().show_view(view)
+        if view == "groups" or self.ready():
+            self._to_main().show_view(view)
 
     def action_search(self) -> None:
+        if not self.ready():
+            return
         main = self._to_main()
         main.show_view("people")
         main.query_one("#people").start_search()  # type: ignore[attr-defined]
@@ -407,17 +435,21 @@ class MynetApp(App):
     def open_group(self, gid: int | None) -> None:
         from .screens import GroupScreen
 
+        if not self.ready():
+            return
         self.push_screen(GroupScreen(gid))
 
     def open_links(self, gid: int) -> None:
         from .screens import LinksScreen
 
+        if not self.ready():
+            return
         self.push_screen(LinksScreen(gid))
 
     def open_person(self, cid: int) -> None:
         from .person import PersonScreen
 
-        if self.snapshot and cid in self.snapshot.net.by_id:
+        if self.ready() and self.snapshot and cid in self.snapshot.net.by_id:
             self.push_screen(PersonScreen(cid))
 
     def reach_for(self, query_kind: str, value: str, label: str) -> None:

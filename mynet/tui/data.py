@@ -8,6 +8,7 @@ connection, so it can run in any thread. Nothing here imports Textual.
 
 from __future__ import annotations
 
+import json
 import sqlite3
 import time
 from collections import Counter
@@ -28,7 +29,7 @@ from ..reach import org_catalogue, tag_catalogue
 from ..store import Store
 from ..workspace import merge_suggestions
 
-__all__ = ["Snapshot", "Extras", "load_snapshot", "load_extras", "with_store", "BusyWait", "tier_of", "Choice", "choices"]
+__all__ = ["Snapshot", "Extras", "peek_snapshot", "load_snapshot", "load_extras", "with_store", "BusyWait", "tier_of", "Choice", "choices"]
 
 Status = Callable[[str], None]
 
@@ -102,10 +103,11 @@ class Snapshot:
 
     path: Path
     today: date
-    net: Network
+    net: Network  # None in a preview (see :func:`peek_snapshot`)
     analysis: Analysis
     data_version: int
     extras: Extras | None = None
+    preview: bool = False
     _hay: list[str] | None = None
     _choices: list[Choice] | None = None
     _internal: dict[int, tuple[int, float]] | None = None
@@ -113,7 +115,7 @@ class Snapshot:
     # -- people ----------------------------------------------------------------
     @property
     def contacts(self) -> list[Contact]:
-        return self.net.contacts
+        return self.net.contacts if self.net is not None else []
 
     def group_of(self, cid: int) -> int | None:
         return self.analysis.group_of.get(cid)
@@ -131,7 +133,7 @@ class Snapshot:
 
     def ungrouped(self) -> list[int]:
         grouped = {m for g in self.analysis.groups for m in g.members}
-        return sorted(c.id for c in self.net.contacts if c.id not in grouped)
+        return sorted(c for c in self.analysis.group_of if c not in grouped)
 
     def search(self, text: str) -> list[Contact]:
         """Contacts matching ``text`` by name, e-mail, phone, organisation, title, tag or place.
@@ -169,7 +171,9 @@ class Snapshot:
         return "; ".join(describe(e) for e in evidence_summary(self.net, row)) or "linked"
 
     def internal(self, gid: int) -> tuple[int, float]:
-        """(ties inside the group, density inside it)."""
+        """(ties inside the group, density inside it); (-1, 0) in a preview."""
+        if self.net is None:
+            return -1, 0.0
         if self._internal is None:
             t = self.net.ties
             gof = self.analysis.group_of
@@ -225,6 +229,35 @@ def choices(net: Network) -> list[Choice]:
         where = f" ({c.orgs[0]})" if c.orgs else ""
         out.append(Choice("person", str(c.id), c.name + where, fold_text(c.name)))
     return out
+
+
+def peek_snapshot(path: Path, today: date | None = None) -> Snapshot | None:
+    """The groups as last analysed, read straight from the workspace cache, for a first screen at once.
+
+    ``None`` when there is no cached analysis or no warmth for ``today`` yet. The
+    full :func:`load_snapshot` follows and replaces it (it checks that the cached
+    analysis still matches the ties).
+    """
+    from types import SimpleNamespace
+
+    from ..analysis.snapshot import CACHE_KEY, _apply_user
+
+    today = today or date.today()
+
+    def run(store: Store) -> Snapshot | None:
+        row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (CACHE_KEY,)).fetchone()
+        warmth = store.cached(f"warmth:v1:{today.isoformat()}")
+        if row is None or warmth is None:
+            return None
+        analysis = Analysis.from_json(json.loads(row[0]))
+        light = SimpleNamespace(warmth={int(k): SimpleNamespace(warmth=v.get("warmth", 0.0)) for k, v in warmth.items()})
+        _apply_user(store, light, analysis)  # the user's names and the warm counts, as analyse() applies them
+        return Snapshot(path, today, None, analysis, store.data_version, preview=True)  # type: ignore[arg-type]
+
+    try:
+        return with_store(path, run, patience=0)
+    except Exception:  # a preview is only a head start; the full load reports real problems
+        return None
 
 
 def load_snapshot(path: Path, today: date | None = None, status: Status | None = None) -> Snapshot:

@@ -15,7 +15,7 @@ from rich.style import Style
 from rich.text import Text
 from textual import events
 from textual.binding import Binding
-from textual.geometry import Size
+from textual.geometry import Region, Size
 from textual.message import Message
 from textual.reactive import reactive
 from textual.scroll_view import ScrollView
@@ -53,7 +53,7 @@ class RowList(ScrollView, can_focus=True):
     COMPONENT_CLASSES = {"rowlist--header", "rowlist--cursor", "rowlist--cursor-blur", "rowlist--heading", "rowlist--empty"}
 
     DEFAULT_CSS = """
-    RowList { height: 1fr; background: $surface; }
+    RowList { height: 1fr; background: $surface; overflow-x: hidden; }
     RowList > .rowlist--header { text-style: bold; color: $text-muted; background: $panel; }
     RowList > .rowlist--cursor { background: $primary 45%; text-style: bold; }
     RowList > .rowlist--cursor-blur { background: $primary 18%; }
@@ -95,6 +95,7 @@ class RowList(ScrollView, can_focus=True):
         self.empty = empty
         self.show_header = header
         self._widths: tuple[int, list[int]] = (-1, [])
+        self._lines: dict[tuple, Strip] = {}  # drawn rows, kept until the rows, width or focus change
 
     # -- data -----------------------------------------------------------------
     def set_rows(self, rows: Sequence[Row], *, keep: bool = True, cursor_key: Hashable | None = None) -> None:
@@ -102,12 +103,17 @@ class RowList(ScrollView, can_focus=True):
         old = self.current_key if keep else None
         want = cursor_key if cursor_key is not None else old
         self.rows = list(rows)
+        self._lines.clear()
         index = 0
         if want is not None:
             index = next((i for i, r in enumerate(self.rows) if r.key == want and not r.heading), 0)
-        self.virtual_size = Size(self.size.width, len(self.rows) + self._top)
+        self.virtual_size = Size(0, len(self.rows) + self._top)
         self.cursor = self._settle(index, 1)
         self.refresh()
+
+    def row_line(self, index: int) -> int:
+        """The line of row ``index`` within this widget's parent (for editors that float over a row)."""
+        return self.region.y - (self.parent.region.y if self.parent else 0) + self._top + index - int(self.scroll_offset.y)
 
     @property
     def _top(self) -> int:
@@ -139,8 +145,14 @@ class RowList(ScrollView, can_focus=True):
 
     # -- cursor -----------------------------------------------------------------
     def watch_cursor(self, old: int, new: int) -> None:
+        top = self.scroll_offset.y
         self._scroll_to_cursor()
-        self.refresh()
+        if self.scroll_offset.y == top and old != new:  # redraw just the two rows that changed
+            width = self.size.width
+            for index in (old, new):
+                self.refresh(Region(0, index - int(top) + self._top, width, 1))
+        else:
+            self.refresh()
         if self.rows and 0 <= new < len(self.rows) and not self.rows[new].heading:
             self.post_message(self.Highlighted(self, new, self.rows[new].key))
 
@@ -153,7 +165,8 @@ class RowList(ScrollView, can_focus=True):
             self.scroll_to(y=self.cursor - visible + 1, animate=False, immediate=True)
 
     def on_resize(self, event: events.Resize) -> None:
-        self.virtual_size = Size(event.size.width, len(self.rows) + self._top)
+        self._lines.clear()
+        self.virtual_size = Size(0, len(self.rows) + self._top)
         self._scroll_to_cursor()
 
     def action_move(self, step: int) -> None:
@@ -237,12 +250,21 @@ class RowList(ScrollView, can_focus=True):
             return Strip.blank(width, base)
         if index >= len(self.rows):
             return Strip.blank(width, base)
-        row = self.rows[index]
+        at_cursor = index == self.cursor
+        key = (index, at_cursor, at_cursor and self.has_focus, width)
+        cached = self._lines.get(key)
+        if cached is not None:
+            return cached
+        if len(self._lines) > 2000:
+            self._lines.clear()
+        self._lines[key] = strip = self._draw(self.rows[index], at_cursor, width, widths, base)
+        return strip
+
+    def _draw(self, row: Row, at_cursor: bool, width: int, widths: list[int], base: Style) -> Strip:
         if row.heading:
             first = row.values()[0]
             text = Text(" ") + (first if isinstance(first, Text) else Text(str(first)))
             return self._strip(text, width, base + self.get_component_rich_style("rowlist--heading"))
-        at_cursor = index == self.cursor
         text = self._line(row.values(), widths, CURSOR_MARK if at_cursor else " ")
         if at_cursor:
             cls = "rowlist--cursor" if self.has_focus else "rowlist--cursor-blur"
@@ -256,3 +278,7 @@ class RowList(ScrollView, can_focus=True):
 
     def on_blur(self) -> None:
         self.refresh()
+
+    def notify_style_update(self) -> None:
+        self._lines.clear()
+        super().notify_style_update()

@@ -90,7 +90,8 @@ class GroupScreen(Page):
         if self.gid is None or snap is None:
             self.app.status_text = "These people are in no group; there is nothing to name."  # type: ignore[attr-defined]
             return
-        self.query_one(NameEditor).open(snap, self.gid, lambda: self.query_one(RowList).focus())
+        lst = self.query_one(RowList)
+        self.query_one(NameEditor).open(snap, self.gid, lst.focus, lst.row_line(lst.cursor))
 
     def action_connections(self) -> None:
         if self.gid is not None:
@@ -158,16 +159,25 @@ class LinksScreen(Page):
             fragile = " !" if snap.fragile(gid, other) else ""
             rows.append(Row(("group", other), (group_title(snap, other), density_cell(x["density"]) + Text(f" {x['ties']:>5}"),
                                                 f"carried by {len(here)} here, {len(there)} there{fragile}")))
-        bridges = [b for b in snap.analysis.bridges if gid in b["groups"]][:12]
+        bridges = [b for b in snap.analysis.bridges if gid in b["groups"]]
         if bridges:
-            rows.append(Row("h2", ("Bridges: the ties that matter most between it and the others",), heading=True))
+            rows.append(Row("h2", ("Bridges: the ties between it and the others that matter most",), heading=True))
+        # Ties arriving at the same outside person are shown together: that person is a way in.
+        by_end: dict[int, list[tuple[int, dict]]] = {}
         for b in bridges:
-            a_in = snap.group_of(b["a"]) == gid
-            here, there = (b["a"], b["b"]) if a_in else (b["b"], b["a"])
-            other = snap.group_of(there)
-            kind = "local bridge, " if b.get("local_bridge") else ""
-            rows.append(Row(("person", here, there), (f"{net.name(here)} – {net.name(there)}", f"{b['strength']:.2f}",
-                                                       f"{kind}to {clip(snap.group_name(other), 28)}")))
+            here, there = (b["a"], b["b"]) if snap.group_of(b["a"]) == gid else (b["b"], b["a"])
+            by_end.setdefault(there, []).append((here, b))
+        for there, ends in list(by_end.items())[:10]:
+            where = clip(snap.group_name(snap.group_of(there)), 24)
+            if len(ends) == 1:
+                here, b = ends[0]
+                kind = "local bridge, " if b.get("local_bridge") else ""
+                rows.append(Row(("person", here, there), (f"{net.name(here)} – {net.name(there)}", f"{b['strength']:.2f}",
+                                                           f"{kind}to {where}")))
+            else:
+                names = ", ".join(net.name(h) for h, _b in ends[:2]) + (f" +{len(ends) - 2}" if len(ends) > 2 else "")
+                rows.append(Row(("person", there, None), (f"{net.name(there)}, in {where}", f"{len(ends)} ties",
+                                                           f"from {names}")))
         gws = gateways(snap, gid)
         if gws:
             rows.append(Row("h3", ("Gateways: members tied into other groups",), heading=True))
@@ -183,7 +193,8 @@ class LinksScreen(Page):
         self.query_one(RowList).set_rows(rows)
         head.update(Text.assemble((clip(("" if g.user_named else SUGGESTED) + g.name, 60), "bold"),
                                   f"\nTied to {plural(len(links), 'other group')} through {len(carriers_here)} of its "
-                                  f"{g.size} members; {plural(len(access), 'single point')} of access. Enter opens."))
+                                  f"{g.size} members; " + (f"{plural(len(access), 'single point')} of access." if access else
+                                                            "no single point of access.")))
 
     def on_row_list_selected(self, event: RowList.Selected) -> None:
         key = event.key

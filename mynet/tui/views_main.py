@@ -42,17 +42,17 @@ def group_facts(snap: Snapshot, gid: int) -> str:
         return ""
     ties, density = snap.internal(gid)
     if g.user_named:
-        first = f"{clip(g.name, 40)} · your name; mynet's label: {clip(g.label, 30)}"
+        first = f"{clip(g.name, 40)} · your name (mynet's label: {clip(g.label, 26)})"
     else:
-        first = f"{SUGGESTED}{clip(g.name, 40)} · label suggested by mynet ({g.share:.0%} share it) · n names it"
+        first = f"{SUGGESTED}{clip(g.name, 44)} · suggested label ({g.share:.0%} share it)"
     second = (f"{plural(g.size, 'person', 'people')} · {g.warm} warm with you ({g.warm_share:.0%}) · "
-              f"{plural(ties, 'tie')} inside, density {density:.2f}")
+              + (f"{plural(ties, 'tie')} inside, density {density:.2f}" if ties >= 0 else "counting ties…"))
     linked = sorted((x for x in snap.analysis.links if gid in (x["a"], x["b"])), key=lambda x: -x["ties"])
     if linked:
         top = linked[0]
         other = top["b"] if top["a"] == gid else top["a"]
-        third = (f"Tied to {plural(len(linked), 'other group')}, most to {clip(snap.group_name(other), 26)} "
-                 f"({plural(top['ties'], 'tie')}) · c connections")
+        third = (f"Tied to {plural(len(linked), 'other group')}, most to {clip(snap.group_name(other), 30)} "
+                 f"({plural(top['ties'], 'tie')})")
     else:
         third = "No ties to any other group."
     return "\n".join((first, second, third))
@@ -70,11 +70,14 @@ class NameEditor(Horizontal):
         yield Label("Name:", classes="name-label")
         yield Input(placeholder="your name for this group (empty: the suggested label)", id="name-input")
 
-    def open(self, snap: Snapshot, gid: int, on_done: Callable[[], None]) -> None:
+    def open(self, snap: Snapshot, gid: int, on_done: Callable[[], None], row_y: int | None = None) -> None:
+        """Show the editor; with ``row_y`` (the row's line in the parent) it floats over that row."""
         g = snap.group(gid)
         if g is None:
             return
         self.gid, self.on_done = gid, on_done
+        if row_y is not None:
+            self.styles.offset = (0, max(0, row_y - 1))
         inp = self.query_one(Input)
         inp.value = g.name if g.user_named else ""
         inp.placeholder = f"{g.label}  (Enter keeps it; Escape cancels)"
@@ -100,7 +103,7 @@ class NameEditor(Horizontal):
 class GroupsView(Vertical):
     """Every group with its size, name or suggested label, and how many of its people you are warm with."""
 
-    hint = "Enter opens a group · n gives it your own name · ~ marks a label mynet suggested · ? keys"
+    hint = "Enter opens · n names the group · ~ marks a suggested label · ? all keys"
 
     BINDINGS = [
         Binding("n", "name", "Name group"),
@@ -132,7 +135,7 @@ class GroupsView(Vertical):
         if loose:
             rows.append(Row(UNGROUPED, ("", Text("in no group (too few ties)", style="italic"), f"{len(loose):,}", "", "")))
         lst = self.query_one(RowList)
-        lst.empty = ("No groups: this workspace has no contacts yet (mynet import FILE)." if not snap.contacts
+        lst.empty = ("No groups: this workspace has no contacts yet (mynet import FILE)." if not snap.analysis.group_of
                      else "No groups: mynet found no ties between your contacts yet.")
         lst.set_rows(rows)
         self.show_detail(lst.current_key)
@@ -165,11 +168,10 @@ class GroupsView(Vertical):
         gid = self._current()
         snap = self.app.snapshot  # type: ignore[attr-defined]
         if gid is not None and snap is not None:
-            self.query_one("#group-detail").display = False
-            self.query_one(NameEditor).open(snap, gid, self._editor_closed)
+            lst = self.query_one(RowList)
+            self.query_one(NameEditor).open(snap, gid, self._editor_closed, lst.row_line(lst.cursor))
 
     def _editor_closed(self) -> None:
-        self.query_one("#group-detail").display = True
         self.query_one(RowList).focus()
 
     def action_connections(self) -> None:

@@ -60,7 +60,7 @@ def path_text(p: dict[str, Any]) -> Text:
 class ReachView(Vertical):
     """Type a person, an organisation or a tag; get the warmest chains of introductions."""
 
-    hint = "Score: the product of the strengths along the path (1 is best). Escape leaves the box."
+    hint = "Score = the step strengths multiplied (1 is best) · Escape leaves the box"
 
     BINDINGS = [Binding("down", "suggest(1)", "Next", show=False), Binding("up", "suggest(-1)", "Previous", show=False)]
 
@@ -73,7 +73,7 @@ class ReachView(Vertical):
     def compose(self) -> ComposeResult:
         yield Input(placeholder="Reach whom? A person, an organisation or a tag", id="reach-input")
         yield OptionList(id="reach-options")
-        yield Static("Type a name, an organisation or a tag and pick a suggestion with ↑ ↓ and Enter.",
+        yield Static("Type a name, organisation or tag; ↑ ↓ pick a suggestion; Enter asks.",
                      classes="count", id="reach-head")
         yield RowList([Col("#", 2, "right"), Col("Score", 5, "right"), Col("Path")], empty="No intro path yet.",
                       id="reach-paths")
@@ -247,7 +247,7 @@ def _side(snap: Snapshot, cid: int) -> Text:
 class DuplicatesView(Vertical):
     """Pairs that may be one person: merge them, keep them apart, or leave them for later."""
 
-    hint = "Each decision is saved at once and kept across re-imports (mynet unmerge undoes a merge)."
+    hint = "Each decision is saved at once and kept across re-imports."
 
     BINDINGS = [
         Binding("m", "merge", "Merge"),
