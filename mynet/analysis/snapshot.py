@@ -39,7 +39,7 @@ class AnalysisModel:
     seed: int = 0
     exact_limit: int = 2000  # betweenness is exact up to this many contacts, sampled above
     samples: int = 256
-    backend: str = "louvain"  # or "igraph" (faster on very large networks)
+    backend: str = "auto"  # "louvain" (python-louvain), "igraph", or "auto": python-louvain up to 20,000 contacts
 
     @classmethod
     def from_settings(cls, raw: Mapping | None) -> "AnalysisModel":
@@ -137,8 +137,13 @@ def _first(values: list[str], fold) -> str | None:
 
 def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analysis:
     G = tie_graph(net)
+    backend = model.backend
+    if backend == "auto":
+        # python-louvain is the reference implementation; igraph's multilevel (the same method in C) is
+        # about ten times faster and keeps 50,000 contacts within the time budget (benchmarks/bench_groups.py).
+        backend = "louvain" if G.number_of_nodes() <= 20_000 and model.resolution >= 1 else "igraph"
     gr = detect_groups(G, resolution=model.resolution, seed=model.seed, min_size=model.min_group_size,
-                       backend=model.backend)
+                       backend=backend)
     state = json.loads(store.meta(STATE_KEY, "{}") or "{}")
     previous = {int(k): set(v) for k, v in state.get("groups", {}).items()}
     mapping, events = match_groups(previous, gr.as_sets(), next_id=int(state.get("next_id", 1)))
