@@ -178,6 +178,9 @@ def test_bad_input_is_refused():
     G.add_edge(1, 2, weight=-0.5)
     with pytest.raises(ValueError, match="positive finite"):
         detect_groups(G)
+    G.add_edge(1, 2, weight=None)
+    with pytest.raises(ValueError, match="positive finite"):
+        detect_groups(G)
     with pytest.raises(ValueError, match="backend"):
         detect_groups(nx.path_graph(3), backend="leiden")
     with pytest.raises(ValueError, match="resolution"):

@@ -160,7 +160,7 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
         infos.append(GroupInfo(gid, label, label, round(float(share), 4), False, len(groups[gid]), groups[gid]))
     links = [dict(v, a=int(g), b=int(h)) for (g, h), v in sorted(group_links(G, sets).items())]
     links = [{k: (sorted(map(int, v)) if isinstance(v, (set, frozenset)) else v) for k, v in link.items()} for link in links]
-    bridges = group_bridges(G, sets)
+    bridges = group_bridges(G, sets, limit=200)
     ego = {cid: w.warmth for cid, w in net.warmth.items() if w.warmth > 0}
     access = single_points_of_access(G, sets, ego_ties=ego)
     flat = {
