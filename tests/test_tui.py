@@ -10,7 +10,6 @@ import asyncio
 import json
 import shutil
 import sqlite3
-import threading
 from datetime import date
 from pathlib import Path
 
@@ -78,6 +77,16 @@ async def settle(pilot) -> None:
         await pilot.pause()
         if not app.workers._workers and not app._jobs:
             return
+
+
+async def until(pilot, condition, seconds: float = 10.0) -> None:
+    """Wait (settling workers) until ``condition()`` holds."""
+    for _ in range(int(seconds / 0.05)):
+        await settle(pilot)
+        if condition():
+            return
+        await pilot.pause(0.05)
+    assert condition()
 
 
 async def started(pilot) -> None:
@@ -250,8 +259,9 @@ def test_person_shows_ties_strongest_first_with_evidence(workspace):
             strengths = [s for _o, s, _r in snap.ties_of(cid)]
             assert [r.key for r in ties] == [o for o, _s, _r in snap.ties_of(cid)]
             assert strengths == sorted(strengths, reverse=True) and strengths
+            await until(pilot, lambda: " per " in str(app.screen.query_one("#evidence").render()))
             evidence = str(app.screen.query_one("#evidence").render())
-            assert snap.net.name(ties[0].key) in evidence and " per " in evidence  # file:line provenance
+            assert snap.net.name(ties[0].key) in evidence and ".vcf:" in evidence  # file:line provenance
             card = str(app.screen.query_one("#person-card").render())
             assert snap.net.name(cid) in card and ".vcf:" in card  # the sources with their lines
             await pilot.press("enter")  # the other end of the tie
@@ -381,9 +391,6 @@ def test_a_busy_workspace_waits_and_says_so(workspace):
         holder = sqlite3.connect(workspace, timeout=5, isolation_level=None)
         holder.execute("BEGIN IMMEDIATE")
         holder.execute("UPDATE meta SET value = value WHERE key = 'data_version'")
-        with open_workspace(workspace) as store:  # make the loader need to write: a stale cache
-            pass
-        holder_release = threading.Event()
         app = create_app(workspace, today=date(2026, 12, 2), watch_interval=0)  # a new day: warmth is recomputed
         async with app.run_test(size=(80, 24)) as pilot:
             for _ in range(60):
@@ -392,7 +399,6 @@ def test_a_busy_workspace_waits_and_says_so(workspace):
                     break
             assert "busy" in app.busy_label and app.snapshot is None
             holder.execute("COMMIT")
-            holder_release.set()
             await started(pilot)
             assert app.snapshot.contacts
         holder.close()

@@ -18,6 +18,7 @@ from .demo import register as _register_demo
 from .network import register as _register_network
 from .reach import register as _register_reach
 from .analysis import register as _register_analysis
+from .browse import register as _register_browse
 
 __all__ = ["main", "cli"]
 
@@ -41,6 +42,7 @@ _register_contacts(cli)
 _register_network(cli)
 _register_reach(cli)
 _register_analysis(cli)
+_register_browse(cli)
 _register_demo(cli)
 
 

@@ -121,7 +121,9 @@ class Page(Screen):
 class MainScreen(Page):
     """The top-level views, one at a time, picked by number or by a click on the view bar."""
 
-    crumb = "Views"
+    @property
+    def crumb(self) -> str:  # type: ignore[override]
+        return dict(VIEWS).get(self.current, "Groups")
 
     def body(self) -> ComposeResult:
         from .views_main import GroupsView, MapView, PeopleView
@@ -144,7 +146,10 @@ class MainScreen(Page):
 
     @property
     def current(self) -> str:
-        return self.query_one(ContentSwitcher).current or "groups"
+        try:
+            return self.query_one(ContentSwitcher).current or "groups"
+        except Exception:  # not composed yet
+            return "groups"
 
     def show_view(self, view: str) -> None:
         self.query_one(ContentSwitcher).current = view

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import json
 import sqlite3
+import threading
 import time
 from collections import Counter
 from dataclasses import dataclass, field
@@ -23,7 +24,7 @@ from ..analysis.snapshot import Analysis, GroupInfo, analyse
 from ..errors import WorkspaceError
 from ..identity import Suggestion
 from ..model import Contact
-from ..network import Network, describe, evidence_summary, load_network
+from ..network import Network, describe, evidence_summary, explain_tie, load_network
 from ..normalise import fold_text
 from ..reach import org_catalogue, tag_catalogue
 from ..store import Store
@@ -111,6 +112,11 @@ class Snapshot:
     _hay: list[str] | None = None
     _choices: list[Choice] | None = None
     _internal: dict[int, tuple[int, float]] | None = None
+    _links: dict[tuple[int, int], dict[str, Any]] | None = None
+    _bridges: dict[tuple[int, int], list[dict[str, Any]]] | None = None
+    _fragile: dict[tuple[int, int], bool] = field(default_factory=dict)
+    _reading: tuple | None = None
+    _reading_lock: threading.Lock = field(default_factory=threading.Lock)
 
     # -- people ----------------------------------------------------------------
     @property
@@ -189,26 +195,67 @@ class Snapshot:
         return self._internal.get(gid, (0, 0.0))
 
     def link(self, g: int, h: int) -> dict[str, Any] | None:
-        lo, hi = min(g, h), max(g, h)
-        return next((x for x in self.analysis.links if x["a"] == lo and x["b"] == hi), None)
+        """The ties between two groups (count, density, carriers), or None."""
+        if self._links is None:
+            self._links = {(x["a"], x["b"]): x for x in self.analysis.links}
+        return self._links.get((min(g, h), max(g, h)))
 
     def bridges_between(self, g: int, h: int) -> list[dict[str, Any]]:
-        pair = sorted((g, h))
-        return [b for b in self.analysis.bridges if sorted(b["groups"]) == pair]
+        if self._bridges is None:
+            self._bridges = {}
+            for b in self.analysis.bridges:
+                if len(b["groups"]) == 2:
+                    self._bridges.setdefault((min(b["groups"]), max(b["groups"])), []).append(b)
+        return self._bridges.get((min(g, h), max(g, h)), [])
 
     def fragile(self, g: int, h: int) -> bool:
         """Whether the pair hangs on one person on either side, or on a local bridge."""
-        link = self.link(g, h)
-        if not link:
-            return False
-        here, there = link.get("carriers") or ([], [])
-        return len(here) == 1 or len(there) == 1 or any(b.get("local_bridge") for b in self.bridges_between(g, h))
+        key = (min(g, h), max(g, h))
+        if key not in self._fragile:
+            link = self.link(g, h)
+            here, there = (link.get("carriers") or ([], [])) if link else ([], [])
+            self._fragile[key] = bool(link) and (len(here) == 1 or len(there) == 1 or
+                                                 any(b.get("local_bridge") for b in self.bridges_between(g, h)))
+        return self._fragile[key]
+
+    # -- evidence with its files -----------------------------------------------------
+    def explain(self, a: int, b: int) -> dict[str, Any]:
+        """:func:`mynet.network.explain_tie`, reading the records and interactions once per snapshot.
+
+        Call from a worker thread: the first call reads every record of the workspace.
+        """
+        with self._reading_lock:
+            if self._reading is None:
+                def read(store: Store):
+                    return store.contact_map(), store.records(), store.interactions()
+                self._reading = with_store(self.path, read)
+        cmap, records, interactions = self._reading
+        return with_store(self.path, lambda store: explain_tie(_Reading(store, cmap, records, interactions), self.net, a, b))
 
     # -- reach completion ------------------------------------------------------------
     def choices(self) -> list[Choice]:
         if self._choices is None:
             self._choices = choices(self.net)
         return self._choices
+
+
+class _Reading:
+    """A store whose records, interactions and contact map are read once (they do not change within a snapshot)."""
+
+    def __init__(self, store: Store, cmap, records, interactions) -> None:
+        self._store, self._cmap, self._records, self._interactions = store, cmap, records, interactions
+
+    def contact_map(self):
+        return self._cmap
+
+    def records(self):
+        return self._records
+
+    def interactions(self):
+        return self._interactions
+
+    def __getattr__(self, name: str) -> Any:
+        return getattr(self._store, name)
 
 
 def choices(net: Network) -> list[Choice]:

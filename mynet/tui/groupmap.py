@@ -12,10 +12,11 @@ from rich.style import Style
 from rich.text import Text
 from textual import events
 from textual.binding import Binding
-from textual.geometry import Region, Size
+from textual.geometry import Size
 from textual.message import Message
 from textual.reactive import reactive
-from textual.widget import Widget
+from textual.scroll_view import ScrollView
+from textual.strip import Strip
 
 from .data import Snapshot
 from .look import SHADES, SUGGESTED, BOUNDS, RAMP, clip, density_cell
@@ -37,11 +38,14 @@ def legend() -> Text:
     return out
 
 
-class GroupMap(Widget, can_focus=True):
-    """A group-to-group matrix with a cell cursor."""
+class GroupMap(ScrollView, can_focus=True):
+    """A group-to-group matrix with a cell cursor, drawn line by line (large maps stay quick).
+
+    The header line and the row labels stay in place while the cells scroll.
+    """
 
     DEFAULT_CSS = """
-    GroupMap { width: auto; height: auto; padding: 0 1; }
+    GroupMap { height: 1fr; padding: 0 1; }
     GroupMap > .groupmap--cursor { text-style: reverse bold; }
     GroupMap > .groupmap--head { color: $text-muted; text-style: bold; }
     """
@@ -70,33 +74,35 @@ class GroupMap(Widget, can_focus=True):
         self.snap: Snapshot | None = None
         self.gids: list[int] = []
         self.label = LABEL
-
-    def _fit_label(self) -> None:
-        room = (self.parent.size.width if self.parent else 80) - 4 - CELL * len(self.gids) - 1
-        self.label = max(LABEL, min(34, room))
+        self._cells: dict[tuple[int, int], Text] = {}
+        self._lines: dict[tuple, Strip] = {}
 
     def show(self, snap: Snapshot) -> None:
         self.snap = snap
+        self._cells, self._lines = {}, {}
         self.gids = [g.id for g in snap.analysis.groups]
         self.row = min(self.row, max(0, len(self.gids) - 1))
         self.col = min(self.col, max(0, len(self.gids) - 1))
-        self._fit_label()
-        self.refresh(layout=True)
+        self._fit()
+        self.refresh()
         self._moved()
 
+    def _fit(self) -> None:
+        room = self.scrollable_content_region.width or 80
+        self.label = max(LABEL, min(34, room - CELL * len(self.gids) - 1))
+        self.virtual_size = Size(self.label + 1 + CELL * len(self.gids), len(self.gids) + 1)
+        self._lines = {}
+
     def on_resize(self) -> None:
-        old = self.label
-        self._fit_label()
-        if old != self.label:
-            self.refresh(layout=True)
-
-    def get_content_width(self, container: Size, viewport: Size) -> int:
-        return self.label + 1 + CELL * max(1, len(self.gids))
-
-    def get_content_height(self, container: Size, viewport: Size, width: int) -> int:
-        return len(self.gids) + 1 if self.gids else 1
+        self._fit()
 
     def cell(self, g: int, h: int) -> Text:
+        """One cell (a fresh copy: the caller may style it)."""
+        if (g, h) not in self._cells:
+            self._cells[(g, h)] = self._cell(g, h)
+        return self._cells[(g, h)].copy()
+
+    def _cell(self, g: int, h: int) -> Text:
         snap = self.snap
         assert snap is not None
         if g == h:
@@ -105,45 +111,84 @@ class GroupMap(Widget, can_focus=True):
             link = snap.link(g, h)
             ties, density = (link["ties"], link["density"]) if link else (0, 0.0)
         if not ties:
-            return Text("   ·   ".ljust(CELL), style="#56606e")
+            return Text("   ·   ", style="#56606e")
         mark = "!" if g != h and snap.fragile(g, h) else " "
-        out = density_cell(density) + Text(f"{ties:>4}"[-4:] if ties < 10000 else " 10k") + Text(mark, style="bold #e3a33b")
-        return out
+        return density_cell(density) + Text(f"{ties:>4}" if ties < 10000 else " 10k") + Text(mark, style="bold #e3a33b")
 
     def render(self) -> Text:
+        """The whole map as text (for tests and for reading; the screen draws it line by line)."""
+        if self.snap is None or not self.gids:
+            return Text(self._empty(), style="italic")
+        return Text("\n").join(self._row_text(y) for y in range(len(self.gids) + 1))
+
+    def _empty(self) -> str:
+        return "No groups yet: the map needs ties between your contacts."
+
+    def _row_text(self, y: int) -> Text:
         snap = self.snap
-        if snap is None or not self.gids:
-            return Text("No groups yet: the map needs ties between your contacts.", style="italic")
-        head_style = self.get_component_rich_style("groupmap--head")
+        assert snap is not None
+        head = self.get_component_rich_style("groupmap--head")
         cursor = self.get_component_rich_style("groupmap--cursor")
-        out = Text()
-        out.append(" " * (self.label + 1))
-        for j, gid in enumerate(self.gids):
-            out.append(f"{j + 1:^{CELL}}", style=head_style + (cursor if j == self.col else Style()))
-        for i, g in enumerate(self.gids):
-            out.append("\n")
-            info = snap.group(g)
-            name = (("" if info.user_named else SUGGESTED) + info.name) if info else str(g)
-            label = f"{i + 1:>2} {clip(name, self.label - 3)}".ljust(self.label)
-            out.append(label, style=head_style + (cursor if i == self.row else Style()))
-            out.append(" ")
-            for j, h in enumerate(self.gids):
-                c = self.cell(g, h)
-                if i == self.row and j == self.col and self.has_focus:
-                    c.stylize(cursor)
-                elif i == self.row and j == self.col:
-                    c.stylize("underline")
-                out.append_text(c)
+        out = Text(no_wrap=True)
+        if y == 0:
+            out.append(" " * (self.label + 1))
+            for j, _gid in enumerate(self.gids):
+                out.append(f"{j + 1:^{CELL}}", style=head + (cursor if j == self.col else Style()))
+            return out
+        i = y - 1
+        g = self.gids[i]
+        info = snap.group(g)
+        name = (("" if info.user_named else SUGGESTED) + info.name) if info else str(g)
+        out.append(f"{i + 1:>2} {clip(name, self.label - 3)}".ljust(self.label), style=head + (cursor if i == self.row else Style()))
+        out.append(" ")
+        for j, h in enumerate(self.gids):
+            c = self.cell(g, h)
+            if i == self.row and j == self.col:
+                c.stylize(cursor if self.has_focus else Style(underline=True))
+            out.append_text(c)
         return out
+
+    def render_line(self, y: int) -> Strip:
+        width = self.scrollable_content_region.width
+        base = self.rich_style
+        if self.snap is None or not self.gids:
+            text = Text(self._empty() if y == 0 else "", style="italic")
+            return Strip(list(text.render(self.app.console))).crop_extend(0, width, base).apply_style(base)
+        line = y if y == 0 else y + int(self.scroll_offset.y)
+        if line > len(self.gids):
+            return Strip.blank(width, base)
+        key = (line, self.row if line in (0, self.row + 1) else -1, self.col, self.has_focus, width,
+               int(self.scroll_offset.x))
+        if key not in self._lines:
+            if len(self._lines) > 400:
+                self._lines = {}
+            strip = Strip(list(self._row_text(line).render(self.app.console))).apply_style(base)
+            fixed = self.label + 1
+            scroll_x = int(self.scroll_offset.x)
+            left = strip.crop(0, fixed)
+            right = strip.crop(fixed + scroll_x, fixed + scroll_x + max(0, width - fixed))
+            self._lines[key] = Strip.join([left, right]).crop_extend(0, width, base)
+        return self._lines[key]
 
     def _moved(self) -> None:
         if self.gids:
             self.post_message(self.Moved(self.gids[self.row], self.gids[self.col]))
-            self.scroll_visible_cell()
+            self._scroll_to_cursor()
 
-    def scroll_visible_cell(self) -> None:
-        region = Region(self.label + 1 + self.col * CELL, self.row + 1, CELL, 1)
-        self.call_after_refresh(self.scroll_to_region, region, animate=False)
+    def _scroll_to_cursor(self) -> None:
+        region = self.scrollable_content_region
+        rows_visible = max(1, region.height - 1)
+        cols_visible = max(1, (region.width - self.label - 1) // CELL)
+        top, left = int(self.scroll_offset.y), int(self.scroll_offset.x) // CELL
+        if self.row < top:
+            top = self.row
+        elif self.row >= top + rows_visible:
+            top = self.row - rows_visible + 1
+        if self.col < left:
+            left = self.col
+        elif self.col >= left + cols_visible:
+            left = self.col - cols_visible + 1
+        self.scroll_to(x=left * CELL, y=top, animate=False, immediate=True)
 
     def watch_row(self) -> None:
         self.refresh()
@@ -167,9 +212,10 @@ class GroupMap(Widget, can_focus=True):
         offset = event.get_content_offset(self)
         if offset is None or not self.gids:
             return
-        i, j = offset.y - 1, (offset.x - self.label - 1) // CELL
-        if 0 <= i < len(self.gids):
-            j = j if 0 <= j < len(self.gids) else i
+        i = offset.y - 1 + int(self.scroll_offset.y)
+        j = (offset.x - self.label - 1 + int(self.scroll_offset.x)) // CELL
+        if offset.y >= 1 and 0 <= i < len(self.gids):
+            j = j if 0 <= j < len(self.gids) and offset.x > self.label else i
             again = (i, j) == (self.row, self.col)
             self.row, self.col = i, j
             self._moved()

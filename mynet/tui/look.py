@@ -44,7 +44,10 @@ def plural(n: int, word: str, many: str | None = None) -> str:
 
 
 def clip(text: str, width: int) -> str:
+    """Text cut to ``width`` cells with an ellipsis; a trailing "(…)" aside goes first."""
     text = " ".join(str(text).split())
+    if len(text) > width and text.endswith(")") and " (" in text:
+        text = text[: text.rindex(" (")]
     return text if len(text) <= width else text[: max(0, width - 1)] + "…"
 
 

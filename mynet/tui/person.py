@@ -12,7 +12,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Label, Static
 from textual.worker import WorkerState
 
-from ..network import describe, evidence_summary, explain_tie
+from ..network import describe, evidence_summary
 from ..workspace import contact_records
 from ..workspace_ties import add_tie, rate_contact, remove_tie
 from .app import Page
@@ -131,6 +131,10 @@ class PersonScreen(Page):
         super().__init__()
         self.cid = cid
         self.sources: list[str] | None = None
+        self._explained: dict[int, dict[str, Any]] = {}
+        self._want: int | None = None
+        self._explaining = False
+        self._timer = None
 
     @property
     def crumb(self) -> str:  # type: ignore[override]
@@ -168,6 +172,7 @@ class PersonScreen(Page):
         self.run_worker(work, thread=True, group="sources", exclusive=True, exit_on_error=False)
 
     def refresh_view(self, snap: Snapshot) -> None:
+        self._explained = {}
         if self.cid not in snap.net.by_id:
             self.query_one("#person-card", Static).update("This person is no longer in the workspace (merged?). Escape goes back.")
             self.query_one(RowList).set_rows([])
@@ -186,6 +191,8 @@ class PersonScreen(Page):
         if worker.group not in ("sources", "explain") or event.state not in (WorkerState.SUCCESS, WorkerState.ERROR):
             return
         event.stop()
+        if worker.group == "explain":
+            self._explaining = False
         if event.state == WorkerState.ERROR:
             self.app.status_text = f"Could not read the records: {worker.error!r}"  # type: ignore[attr-defined]
             return
@@ -196,8 +203,11 @@ class PersonScreen(Page):
                 self.query_one("#person-card", Static).update(card_text(snap, self.cid, self.sources))
         else:
             other, ex = worker.result
+            self._explained[other] = ex
             if other == self.query_one(RowList).current_key:
                 self.query_one("#evidence", Static).update(evidence_text(ex))
+            elif self._want not in self._explained:
+                self._explain()  # the cursor moved on meanwhile
 
     def show_evidence(self, other) -> None:
         snap = self.app.snapshot  # type: ignore[attr-defined]
@@ -210,14 +220,29 @@ class PersonScreen(Page):
         if row is not None:
             for ev in evidence_summary(snap.net, row):
                 quick.append("\n• " + describe(ev))
+        done = self._explained.get(other)
+        if done is not None:
+            box.update(evidence_text(done))
+            return
         quick.append("\nfinding the files behind it…", style="italic")
         box.update(quick)
-        cid = self.cid
+        # Look the files up once the cursor rests, one look-up at a time: each reads every record.
+        self._want = other
+        if self._timer is not None:
+            self._timer.stop()
+        self._timer = self.set_timer(0.25, self._explain)
+
+    def _explain(self) -> None:
+        snap = self.app.snapshot  # type: ignore[attr-defined]
+        other, cid = self._want, self.cid
+        if snap is None or other is None or self._explaining or other in self._explained:
+            return
+        self._explaining = True
 
         def work():
-            return other, with_store(snap.path, lambda store: explain_tie(store, snap.net, cid, other))
+            return other, snap.explain(cid, other)
 
-        self.run_worker(work, thread=True, group="explain", exclusive=True, exit_on_error=False)
+        self.run_worker(work, thread=True, group="explain", exit_on_error=False)
 
     def on_row_list_highlighted(self, event: RowList.Highlighted) -> None:
         self.show_evidence(event.key)

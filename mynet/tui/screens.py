@@ -24,7 +24,7 @@ __all__ = ["GroupScreen", "LinksScreen", "HelpScreen", "AskScreen", "help_sectio
 class GroupScreen(Page):
     """The members of one group: warmth, role and organisation."""
 
-    hint = "Warmth: how close you are (0-1), from meetings, mail or your rating. Enter opens a person."
+    hint = "Warmth: how close you are, 0-1, from meetings, mail or your own rating"
 
     BINDINGS = [
         Binding("n", "name", "Name group"),
@@ -65,11 +65,11 @@ class GroupScreen(Page):
         members = g.members if g else snap.ungrouped()
         net = snap.net
         members = sorted((m for m in members if m in net.by_id), key=lambda m: (-tier_of(net, m)[0], net.name(m)))
-        rows = []
-        for m in members:
-            c = net.by_id[m]
-            rows.append(Row(m, (c.name, warmth_bar(tier_of(net, m)[0], 4), snap.role(m),
-                                ", ".join(c.orgs) or (f"({c.past_orgs[0]})" if c.past_orgs else ""))))
+        def cells(c):
+            return lambda: (c.name, warmth_bar(tier_of(net, c.id)[0], 4), snap.role(c.id),
+                            ", ".join(c.orgs) or (f"({c.past_orgs[0]})" if c.past_orgs else ""))
+
+        rows = [Row(m, cells(net.by_id[m])) for m in members]
         self.query_one(RowList).set_rows(rows)
         head = self.query_one("#group-head", Static)
         if g is None:
@@ -253,6 +253,9 @@ class HelpScreen(ModalScreen):
             yield Label(" Keys  (Escape closes)", classes="head")
             with VerticalScroll():
                 yield Static(out, id="help-text")
+
+    def on_mount(self) -> None:
+        self.query_one(VerticalScroll).focus()  # arrows and Page keys scroll the list of keys
 
     def action_dismiss(self) -> None:  # type: ignore[override]
         self.dismiss(None)

@@ -7,7 +7,7 @@ from typing import Callable
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.containers import Horizontal, ScrollableContainer, Vertical
+from textual.containers import Horizontal, Vertical
 from textual.widgets import Input, Label, Static
 
 from .data import Snapshot, tier_of
@@ -186,8 +186,7 @@ class MapView(Vertical):
     hint = "Arrows move over the map; the panel below explains the highlighted pair."
 
     def compose(self) -> ComposeResult:
-        with ScrollableContainer(id="map-scroll"):
-            yield GroupMap(id="map-grid")
+        yield GroupMap(id="map-grid")
         yield Static(legend(), classes="legend", id="map-legend")
         yield Static("", classes="detail", id="map-detail")
 
