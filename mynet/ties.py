@@ -43,10 +43,12 @@ from __future__ import annotations
 
 import math
 from collections import defaultdict
+from itertools import chain
 from dataclasses import asdict, dataclass, field, fields
 from typing import Any, Iterable, Mapping, Sequence
 
 import numpy as np
+import pandas as pd
 import scipy.sparse as sp
 
 from .model import Contact, Interaction
@@ -232,31 +234,22 @@ def infer_ties(
     counts: dict[str, sp.coo_matrix] = {}
 
     # Meetings and threads: Newman weights 1/(n-1), broadcast events dropped.
-    meetings: list[list[int]] = []
-    meeting_sizes: list[int] = []
+    meeting_parts: list[list[str]] = []
     threads: dict[str, set[str]] = defaultdict(set)
     for it in interactions:
         if it.bulk:
             continue
         if it.kind == "meeting":
-            people = set(it.participants)  # importers give normalised addresses
-            people.discard("")
-            size = len(people)
-            if size < 2 or size > model.broadcast_cap:
-                continue  # nobody to pair, or a broadcast
-            members = [by_email[p] for p in people if p in by_email]  # distinct: one contact per address
-            if len(members) >= 2:
-                meetings.append(members)
-                meeting_sizes.append(size)
+            meeting_parts.append(it.participants)  # importers give sorted, unique, normalised addresses
         elif it.kind == "message":
             threads[it.thread or it.key].update(it.participants)
-    for kind, groups, sizes in (
-        ("meeting", meetings, meeting_sizes),
-        ("thread", *_thread_groups(threads, by_email, model.broadcast_cap)),
-    ):
-        if groups:
-            B = incidence(groups, n)
-            w = 1.0 / (np.asarray(sizes, dtype=float) - 1.0)
+    emails_index = pd.Index(list(by_email)) if by_email else None
+    email_pos = np.fromiter(by_email.values(), dtype=np.int64, count=len(by_email))
+    thread_parts = [sorted(threads[k] - {""}) for k in sorted(threads)]
+    for kind, parts in (("meeting", meeting_parts), ("thread", thread_parts)):
+        B, sizes = _event_incidence(parts, emails_index, email_pos, n, model.broadcast_cap)
+        if B is not None:
+            w = 1.0 / (sizes - 1.0)
             mats[kind] = _clean(cooccurrence(B, w))
             counts[kind] = _clean(cooccurrence(B))
 
@@ -311,17 +304,32 @@ def infer_ties(
     return _assemble(ids, pos, n, mats, counts, model, manual or {}, suppressed)
 
 
-def _thread_groups(threads: dict[str, set[str]], by_email: dict[str, int], cap: int):
-    groups, sizes = [], []
-    for key in sorted(threads):
-        people = threads[key] - {""}
-        if len(people) < 2 or len(people) > cap:
-            continue
-        members = sorted({by_email[p] for p in people if p in by_email})
-        if len(members) >= 2:
-            groups.append(members)
-            sizes.append(len(people))
-    return groups, sizes
+def _event_incidence(parts: list[list[str]], emails_index, email_pos: np.ndarray, n: int, cap: int):
+    """Contacts x events incidence for events of 2..cap people with at least two contacts, and their sizes.
+
+    Vectorised: all addresses are looked up at once in a hash index (pandas), so
+    a hundred thousand events cost a few tenths of a second.
+    """
+    if not parts or emails_index is None:
+        return None, None
+    sizes = np.fromiter((len(p) - (1 if p and p[0] == "" else 0) for p in parts), dtype=np.int64, count=len(parts))
+    flat = list(chain.from_iterable(parts))
+    event = np.repeat(np.arange(len(parts), dtype=np.int64), np.fromiter(map(len, parts), dtype=np.int64, count=len(parts)))
+    hit = emails_index.get_indexer(flat)
+    ok = hit >= 0
+    rows, cols = email_pos[hit[ok]], event[ok]
+    keep_event = (sizes >= 2) & (sizes <= cap)
+    sel = keep_event[cols]
+    rows, cols = rows[sel], cols[sel]
+    if rows.size == 0:
+        return None, None
+    B = sp.csr_matrix((np.ones(rows.size), (rows, cols)), shape=(n, len(parts)))
+    B.data[:] = 1.0  # a contact listed under two addresses counts once
+    members = np.asarray((B != 0).sum(axis=0)).ravel()
+    used = np.nonzero(members >= 2)[0]
+    if used.size == 0:
+        return None, None
+    return B[:, used].tocsr(), sizes[used].astype(float)
 
 
 def _clean(m: sp.coo_matrix) -> sp.coo_matrix:
