@@ -221,6 +221,7 @@ def reach(
     min_strength: float = 0.0,
     index: PathIndex | None = None,
     groups: dict[int, Any] | None = None,
+    per_target: bool = True,
 ) -> ReachResult:
     """Ranked intro paths to the targets, each step explained, plus the direct (cold) routes."""
     if max_intermediaries < 1:
@@ -242,16 +243,16 @@ def reach(
                            "last": info.last if info else None, "weak": w < WARM_ENOUGH,
                            "dormant": _dormant(info.last if info else None, net.warmth_model.dormant_days),
                            "insider": m in insiders})
-    per_target = []
+    by_target = []
     unreachable = []
-    if len(outsiders) > 1:
+    if per_target and len(outsiders) > 1:
         best = best_per_target(index, outsiders, k=1, max_intermediaries=max_intermediaries, avoid=avoid, min_strength=min_strength)
         for m, ps in best.items():
             if ps:
-                per_target.append({"target": m, "name": net.name(m), "past": m in targets.past,
-                                   "best": _describe_path(net, ps[0], groups)})
+                by_target.append({"target": m, "name": net.name(m), "past": m in targets.past,
+                                  "best": _describe_path(net, ps[0], groups)})
             else:
                 unreachable.append(m)
     elif outsiders and not paths:
         unreachable = list(outsiders)
-    return ReachResult(targets, described, sorted(direct, key=lambda d: -d["warmth"]), per_target, unreachable)
+    return ReachResult(targets, described, sorted(direct, key=lambda d: -d["warmth"]), by_target, unreachable)

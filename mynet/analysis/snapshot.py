@@ -108,9 +108,9 @@ def tie_graph(net: Network) -> nx.Graph:
     return G
 
 
-def contact_attrs(net: Network) -> dict[str, dict[int, list[str]]]:
+def contact_attrs(net: Network, extra_webmail: frozenset[str] | set[str] = frozenset()) -> dict[str, dict[int, list[str]]]:
     """Per contact: organisations (current and past), tags, work mail domains, places."""
-    extra = set()
+    extra = set(extra_webmail)
     orgs, tags, domains, places = {}, {}, {}, {}
     for c in net.contacts:
         orgs[c.id] = [o for o in c.orgs + c.past_orgs if is_real_org(normalise_org(o))]
@@ -153,7 +153,7 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     measures = {int(k): {mk: (None if isinstance(mv, float) and not np.isfinite(mv) else mv) for mk, mv in m.items()}
                 for k, m in measures.items()}
     sets = {g: set(m) for g, m in groups.items()}
-    attrs = contact_attrs(net)
+    attrs = contact_attrs(net, set(store.setting("webmail_domains", []) or []))
     infos = []
     for gid in sorted(groups, key=lambda g: (-len(groups[g]), g)):
         label, share = suggest_label(groups[gid], attrs)

@@ -19,6 +19,7 @@ from .network import register as _register_network
 from .reach import register as _register_reach
 from .analysis import register as _register_analysis
 from .browse import register as _register_browse
+from .report import register as _register_report
 
 __all__ = ["main", "cli"]
 
@@ -43,6 +44,7 @@ _register_network(cli)
 _register_reach(cli)
 _register_analysis(cli)
 _register_browse(cli)
+_register_report(cli)
 _register_demo(cli)
 
 

@@ -133,6 +133,11 @@ def register(cli: click.Group) -> None:
                     crossing = " [crosses groups]" if p.get("crosses_groups") else ""
                     click.echo(f"   {rank}. {' -> '.join(['you', *p['names']])}  score {p['score']:.2f}{crossing}")
                     click.echo(f"      {p['ask']}")
+            from ..report import write_report
+
+            report = write_report(store, folder / "network.html")
+            heading("12. A report to keep (mynet report -o network.html; --redact for one to share)")
+            click.echo(f"   Written to {report}")
         click.echo(f"\nTry it yourself: mynet --workspace {ws} browse   (or: groups, reach --org NAME, audit)")
 
 

@@ -5,7 +5,7 @@ from __future__ import annotations
 import re
 from typing import Any
 
-__all__ = ["SECTIONS", "READING_NOTES", "xml_safe", "num", "pct", "path_chain", "group_roles"]
+__all__ = ["SECTIONS", "READING_NOTES", "xml_safe", "num", "pct", "path_chain", "group_roles", "plural", "headline"]
 
 #: (anchor, title) of each section, in order.
 SECTIONS = (
@@ -81,3 +81,16 @@ def group_roles(roles: dict[str, int]) -> str:
     """A short summary of the roles in a group (members and peripheral ones left out)."""
     shown = [(r, n) for r, n in sorted(roles.items(), key=lambda kv: (-kv[1], kv[0])) if r and r not in ("member", "peripheral")]
     return ", ".join(f"{n} {r}" for r, n in shown) or "-"
+
+
+def plural(n: int, word: str, many: str | None = None) -> str:
+    """``1 group``, ``3 groups``."""
+    return f"{n:,} {word if n == 1 else (many or word + 's')}"
+
+
+def headline(summary: dict[str, Any], groups: int, generated: str) -> str:
+    """The report's one-line summary under its title."""
+    s = summary
+    return (f"{plural(s.get('contacts', 0), 'contact')}, {plural(s.get('ties', 0), 'tie')}, {plural(groups, 'group')} "
+            f"(modularity {num(s.get('modularity'))}); {plural(s.get('warm', 0), 'warm contact')}. Made by mynet on "
+            f"{generated} from your own workspace; nothing in it is fetched from elsewhere.")

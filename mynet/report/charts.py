@@ -134,7 +134,7 @@ def network_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
     if data.picture == "groups":
         return _group_map_svg(data, seed=seed)
     net, a = data.net, data.analysis
-    G = tie_graph(net)
+    G = data.graph if data.graph is not None else tie_graph(net)
     order = [g["id"] for g in data.groups]
     blocks = [(gid, list(a.group(gid).members)) for gid in order]
     loose = sorted(c for c, g in a.group_of.items() if g is None and c in G)
@@ -207,6 +207,19 @@ def network_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
 
 
 @_styled
+def _strongest_links(links: list[dict], groups: int) -> list[dict]:
+    """The links worth drawing: the most tied ``max(40, 2 * groups)`` pairs plus each group's strongest link."""
+    cap = max(40, 2 * groups)
+    ranked = sorted(links, key=lambda l: (-l["ties"], l["a"], l["b"]))
+    keep = {(l["a"], l["b"]) for l in ranked[:cap]}
+    best: dict[int, dict] = {}
+    for l in ranked:
+        for g in (l["a"], l["b"]):
+            best.setdefault(g, l)
+    keep |= {(l["a"], l["b"]) for l in best.values()}
+    return [l for l in ranked if (l["a"], l["b"]) in keep]
+
+
 def _group_map_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
     """Groups as discs sized by their members, linked by the number of ties between them."""
     order = [g["id"] for g in data.groups]
@@ -218,11 +231,12 @@ def _group_map_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
     ax = fig.add_axes((0.0, 0.0, 0.66, 1.0))
     ax.set_axis_off()
     ax.set_aspect("equal")
-    links = [l for l in data.analysis.links if l["a"] in at and l["b"] in at]
+    every = [l for l in data.analysis.links if l["a"] in at and l["b"] in at]
+    links = _strongest_links(every, len(order))
     most = max((l["ties"] for l in links), default=1)
     segs = [(at[l["a"]], at[l["b"]]) for l in links]
     if segs:
-        ax.add_collection(LineCollection(segs, colors=[(0.15, 0.15, 0.15, 0.55)],
+        ax.add_collection(LineCollection(segs, colors=[(0.15, 0.15, 0.15, 0.45)],
                                          linewidths=[0.5 + 5.5 * math.sqrt(l["ties"] / most) for l in links], zorder=1))
     for i, (g, r) in enumerate(zip(order, radii)):
         col, _mk, hatch = group_style(i)
@@ -240,8 +254,10 @@ def _group_map_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
     handles.append(Line2D([], [], color=(0.15, 0.15, 0.15, 0.7), linewidth=3, label="ties between two groups (wider: more)"))
     fig.legend(handles=handles, loc="upper left", bbox_to_anchor=(0.67, 0.98), fontsize=8, frameon=False,
                title="Groups: G number, name  [contacts]", title_fontsize=9, alignment="left")
+    shown = (f"the {len(links)} most tied of the {len(every)} linked pairs of groups are drawn (and each group's "
+             "strongest link)" if len(links) < len(every) else f"all {len(every)} linked pairs of groups are drawn")
     caption = (f"Map of {len(order)} groups ({sum(sizes.values()):,} of {len(data.net.contacts):,} contacts; "
-               f"{data.unclustered:,} without a group are not drawn); {len(links)} pairs of groups are linked by ties.")
+               f"{data.unclustered:,} without a group are not drawn); {shown}.")
     return _render(fig, "map"), caption
 
 

@@ -17,7 +17,7 @@ from datetime import date
 from typing import Any, Callable
 
 from ..analysis.audit import WARM, audit
-from ..analysis.snapshot import Analysis, analyse
+from ..analysis.snapshot import Analysis, analyse, tie_graph
 from ..network import Network, describe, evidence_summary, load_network
 from ..normalise import normalise_email
 from ..reach import Targets, path_index, reach
@@ -56,6 +56,7 @@ class ReportData:
     picture: str  # "contacts" or "groups"
     remarks: list[str] = field(default_factory=list)
     pseudonyms: Pseudonyms | None = None
+    graph: Any = None  # the tie graph (networkx), built once for the pictures
 
     def group_name(self, gid: int | None) -> str:
         """The group's name (``no group`` for None)."""
@@ -110,7 +111,7 @@ def _intros(net: Network, a: Analysis, limit: int, k: int) -> list[dict[str, Any
     index = path_index(net)
     out = []
     for g in cands[:limit]:
-        res = reach(net, Targets("group", g.name, list(g.members)), k=k, index=index, groups=a.group_of)
+        res = reach(net, Targets("group", g.name, list(g.members)), k=k, index=index, groups=a.group_of, per_target=False)
         out.append({"group": g.id, "name": g.name, "size": g.size, "warm": g.warm,
                     "paths": res.paths, "direct": [d for d in res.direct if not d["weak"]],
                     "unreachable": len(res.unreachable)})
@@ -218,5 +219,5 @@ def collect(
         bridges=_bridges(net_r, analysis_r, limit), intros=intros, timeline=timeline, tiers=_tiers(net_r),
         summary=dict(analysis_r.summary, modularity=analysis_r.modularity, contacts=len(net.contacts),
                      warm=sum(1 for w in net.warmth.values() if w.warmth >= WARM)),
-        picture=picture, remarks=remarks, pseudonyms=ps,
+        picture=picture, remarks=remarks, pseudonyms=ps, graph=tie_graph(net_r) if picture == "contacts" else None,
     )

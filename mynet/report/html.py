@@ -14,7 +14,7 @@ from __future__ import annotations
 import html
 from typing import Any
 
-from ._text import READING_NOTES, SECTIONS, group_roles, num, path_chain, pct, xml_safe
+from ._text import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
 from .data import ReportData
 
 __all__ = ["render_html", "esc", "CSS"]
@@ -164,9 +164,7 @@ def render_html(d: ReportData, svgs: dict[str, Any]) -> str:
     nav = "".join(f'<li><a href="#{a}">{esc(t)}</a></li>' for a, t in SECTIONS)
     sections = "".join(f'<section id="{a}"><h2>{i}. {esc(t)}</h2>{body[a]}</section>' for i, (a, t) in enumerate(SECTIONS, 1))
     red = '<p class="redacted"><strong>Redacted copy:</strong> names and addresses are pseudonyms.</p>' if d.redacted else ""
-    meta = (f"{s.get('contacts', 0):,} contacts, {s.get('ties', 0):,} ties, {len(d.groups)} groups "
-            f"(modularity {num(s.get('modularity'))}); {s.get('warm', 0):,} warm contacts. Made by mynet on {d.generated} "
-            "from your own workspace; nothing in this file is fetched from elsewhere.")
+    meta = headline(s, len(d.groups), d.generated)
     return (
         "<!DOCTYPE html>\n"
         '<html xmlns="http://www.w3.org/1999/xhtml" lang="en">\n'

@@ -14,7 +14,7 @@ import html
 import re
 from typing import Any
 
-from ._text import READING_NOTES, SECTIONS, group_roles, num, path_chain, pct, xml_safe
+from ._text import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
 from .data import ReportData
 
 __all__ = ["render_markdown", "md", "IMAGE_NAMES"]
@@ -22,13 +22,21 @@ __all__ = ["render_markdown", "md", "IMAGE_NAMES"]
 #: File names of the pictures inside the ``<stem>_files`` folder.
 IMAGE_NAMES = {"network": "picture.svg", "groups": "groups.svg", "time": "time.svg", "tiers": "tiers.svg"}
 
-_MD_SPECIAL = re.compile(r"([\\`*_{}\[\]()#+!|~>-])")
+_MD_SPECIAL = re.compile(r"([\\`*_\[\]|~])")
+_MD_LEADING = re.compile(r"^([-+#>=]|\d+[.)])")
 
 
 def md(text: Any) -> str:
-    """Text from the data, safe inside a Markdown paragraph or table cell (one line)."""
-    t = " ".join(xml_safe(text).split())
-    return _MD_SPECIAL.sub(r"\\\1", html.escape(t, quote=False))
+    """Text from the data, safe inside a Markdown paragraph or table cell (one line).
+
+    HTML's special characters become entities; backslash, backtick, ``*``,
+    ``_``, brackets, ``|`` and ``~`` are backslash-escaped everywhere, and a
+    leading ``-``, ``+``, ``#``, ``>``, ``=`` or ``1.`` that would start a
+    list, heading or quote is escaped too.
+    """
+    t = html.escape(" ".join(xml_safe(text).split()), quote=False)
+    t = _MD_SPECIAL.sub(r"\\\1", t)
+    return _MD_LEADING.sub(lambda m: m.group(1)[:-1] + "\\" + m.group(1)[-1], t)
 
 
 def _table(headers: list[str], rows: list[list[Any]]) -> list[str]:
@@ -47,9 +55,7 @@ def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has
     L: list[str] = ["# Your network", ""]
     if d.redacted:
         L += ["**Redacted copy:** names and addresses are pseudonyms.", ""]
-    L += [md(f"{s.get('contacts', 0):,} contacts, {s.get('ties', 0):,} ties, {len(d.groups)} groups (modularity "
-             f"{num(s.get('modularity'))}); {s.get('warm', 0):,} warm contacts. Made by mynet on {d.generated} from your "
-             "own workspace."), ""]
+    L += [md(headline(s, len(d.groups), d.generated)), ""]
     titles = dict(SECTIONS)
     n = iter(range(1, len(SECTIONS) + 1))
 
