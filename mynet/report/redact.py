@@ -219,10 +219,27 @@ def find_leaks(text: str, values: Iterable[str], *, ignore_case: bool = False) -
         toks = _WORD.findall(needle)
         if toks and not all(t in words for t in toks):
             continue
-        if needle not in hay:
+        if len(toks) == 1 and toks[0] == needle:
+            found.append(v)  # a single word: a whole-word occurrence is exactly membership in ``words``
             continue
-        pat = (r"(?<!\w)" if needle[0].isalnum() or needle[0] == "_" else "") + re.escape(needle)
-        pat += r"(?!\w)" if needle[-1].isalnum() or needle[-1] == "_" else ""
-        if re.search(pat, hay):
+        if _whole_word_in(needle, hay):
             found.append(v)
     return found
+
+
+def _is_word_char(ch: str) -> bool:
+    return ch.isalnum() or ch == "_"
+
+
+def _whole_word_in(needle: str, hay: str) -> bool:
+    """Whether ``needle`` occurs in ``hay`` not inside a longer word (str.find, no regex backtracking)."""
+    check_left, check_right = _is_word_char(needle[0]), _is_word_char(needle[-1])
+    start = hay.find(needle)
+    while start != -1:
+        end = start + len(needle)
+        left_ok = not check_left or start == 0 or not _is_word_char(hay[start - 1])
+        right_ok = not check_right or end == len(hay) or not _is_word_char(hay[end])
+        if left_ok and right_ok:
+            return True
+        start = hay.find(needle, start + 1)
+    return False
