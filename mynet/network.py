@@ -246,6 +246,35 @@ def describe(ev: dict[str, Any]) -> str:
     return k
 
 
+@dataclass
+class _EvidenceIndex:
+    """Records per contact and interactions per address, built once per loaded network."""
+
+    records: dict[int, list[tuple[str, Any]]]
+    interactions: list[Interaction]
+    by_email: dict[str, list[int]]
+
+
+def _evidence_index(store: Store, net: Network) -> _EvidenceIndex:
+    ix = getattr(net, "_evidence_ix", None)
+    if ix is not None:
+        return ix
+    cmap = store.contact_map()
+    records: dict[int, list[tuple[str, Any]]] = defaultdict(list)
+    for _rid, key, src, rec in store.records():
+        cid = cmap.get(key)
+        if cid is not None:
+            records[cid].append((f"{src['path'].rsplit('/', 1)[-1]}:{rec.line}", rec))
+    interactions = store.interactions()
+    by_email: dict[str, list[int]] = defaultdict(list)
+    for k, it in enumerate(interactions):
+        for p in it.participants:
+            by_email[normalise_email(p) or p].append(k)
+    ix = _EvidenceIndex(dict(records), interactions, dict(by_email))
+    net._evidence_ix = ix  # type: ignore[attr-defined]
+    return ix
+
+
 def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, Any]:
     """Every piece of evidence for the tie between two contacts, with where it came from."""
     a, b = net.by_id[a_id], net.by_id[b_id]
@@ -253,18 +282,15 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
     t = net.all_ties
     rows = np.nonzero((t.a == lo) & (t.b == hi))[0]
     i = int(rows[0]) if rows.size else None
-    cmap = store.contact_map()
+    ix = _evidence_index(store, net)
     # Provenance of organisations and tags: file:line of every record that says so.
     said: dict[tuple[int, str, str], list[str]] = defaultdict(list)
-    for _rid, key, src, rec in store.records():
-        cid = cmap.get(key)
-        if cid not in (a_id, b_id):
-            continue
-        where = f"{src['path'].rsplit('/', 1)[-1]}:{rec.line}"
-        for o in rec.orgs:
-            said[(cid, "org", normalise_org(o))].append(where)
-        for tg in rec.tags:
-            said[(cid, "tag", fold_text(tg))].append(where)
+    for cid in (a_id, b_id):
+        for where, rec in ix.records.get(cid, []):
+            for o in rec.orgs:
+                said[(cid, "org", normalise_org(o))].append(where)
+            for tg in rec.tags:
+                said[(cid, "tag", fold_text(tg))].append(where)
     evidence: list[dict[str, Any]] = []
     for name, current in _shared_orgs(a, b):
         norm = normalise_org(name)
@@ -272,16 +298,16 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
         evidence.append({"kind": "organisation", "name": name, "current": current, "provenance": prov})
     ea, eb = set(a.emails), set(b.emails)
     meetings, threads = [], defaultdict(list)
-    for it in store.interactions():
+    shared = {k for e in ea for k in ix.by_email.get(e, ())} & {k for e in eb for k in ix.by_email.get(e, ())}
+    for k in sorted(shared):
+        it = ix.interactions[k]
         if it.bulk:
             continue
-        people = {normalise_email(p) for p in it.participants}
-        if people & ea and people & eb:
-            if it.kind == "meeting":
-                if len(people) <= net.model.broadcast_cap:
-                    meetings.append(it)
-            else:
-                threads[it.thread or it.key].append(it)
+        if it.kind == "meeting":
+            if len(it.participants) <= net.model.broadcast_cap:
+                meetings.append(it)
+        else:
+            threads[it.thread or it.key].append(it)
     if meetings:
         meetings.sort(key=lambda m: m.when)
         evidence.append({

@@ -176,6 +176,8 @@ def register(cli: click.Group) -> None:
         """A readable report on the shape of your network, most useful finding first."""
         store = obj.store()
         net, a = _load(store)
+        if not net.contacts:
+            raise NotFoundError("there is nothing to audit yet: import your contacts first (mynet import FILE)")
         findings = audit(store, net, a)
         if as_json:
             emit_json({"findings": findings, "summary": a.summary, "modularity": a.modularity})
