@@ -36,6 +36,7 @@ __all__ = [
     "reject_suggestion",
     "merge_suggestions",
     "contact_records",
+    "link_addresses_by_name",
 ]
 
 Progress = Callable[[str], None]
@@ -242,10 +243,44 @@ def refresh_contacts(store: Store) -> Resolution:
             default_region=store.setting("region", "") or "",
             org_aliases=store.setting("org_aliases", {}) or {},
         )
+        link_addresses_by_name(res.contacts, store.interactions(), get_me(store))
         store.write_contacts(res.contacts, res.mapping, res.next_id)
         store.set_meta("held_back", json.dumps([s.__dict__ for s in res.held_back]))
         store.set_meta("me_keys", json.dumps(res.me_keys))
     return res
+
+
+def link_addresses_by_name(contacts: list[Contact], interactions, me: Me) -> int:
+    """Give contacts the addresses their calendar and mail use, when the name there is unmistakably theirs.
+
+    An address that no card or row holds, used in meetings or mail under a
+    display name of two words or more that matches exactly one contact (names
+    compared folded and order-free), is that contact's too: address books
+    often keep a private address while the calendar uses the work one. A name
+    shared by several contacts links nothing. Returns how many addresses were linked.
+    """
+    from .normalise import name_key
+
+    known = {e for c in contacts for e in c.emails} | me.emails
+    by_name: dict[str, list[Contact]] = {}
+    for c in contacts:
+        for nm in {c.name, *c.nicknames}:
+            k = name_key(nm)
+            if k and len(k.split()) >= 2:
+                by_name.setdefault(k, [])
+                if c not in by_name[k]:
+                    by_name[k].append(c)
+    linked: dict[str, Contact] = {}
+    for it in interactions:
+        for addr, display in (it.names or {}).items():
+            if addr in known or addr in linked or not display:
+                continue
+            hits = by_name.get(name_key(display), [])
+            if len(hits) == 1:
+                linked[addr] = hits[0]
+    for addr, c in sorted(linked.items()):
+        c.emails.append(addr)
+    return len(linked)
 
 
 def set_me(store: Store, emails: list[str], names: list[str], *, replace: bool = False) -> Me:

@@ -128,3 +128,19 @@ def test_organisation_and_group_cards_are_not_contacts():
     grp.card_kind = "group"
     res = resolve(stored([org, grp, rec(2, "Ana Lind", ["ana@x.example"])]), {}, Decisions(), Me())
     assert [c.name for c in res.contacts] == ["Ana Lind"] and len(res.not_people) == 2
+
+
+def test_calendar_addresses_link_to_the_one_contact_with_that_name():
+    from mynet.identity import Me
+    from mynet.model import Contact, Interaction
+    from mynet.workspace import link_addresses_by_name
+
+    ana = Contact(id=1, name="Ana Lind", emails=["ana@home.example"])
+    bo1 = Contact(id=2, name="Bo Ek", emails=["bo@a.example"])
+    bo2 = Contact(id=3, name="Bo Ek", emails=["bo@b.example"])
+    it = Interaction(kind="meeting", source="c.ics", index=0, line=1, when="2026-01-01",
+                     participants=["ana.lind@work.example", "bo@c.example", "you@example.org"],
+                     names={"ana.lind@work.example": "Lind, Ana", "bo@c.example": "Bo Ek", "you@example.org": "Me"})
+    assert link_addresses_by_name([ana, bo1, bo2], [it], Me(emails={"you@example.org"})) == 1
+    assert ana.emails == ["ana@home.example", "ana.lind@work.example"]
+    assert bo1.emails == ["bo@a.example"] and bo2.emails == ["bo@b.example"]  # ambiguous name: not linked
