@@ -6,7 +6,6 @@ workspace under the current data version) and explains any one tie in full.
 
 from __future__ import annotations
 
-import json
 from collections import defaultdict
 from dataclasses import dataclass, field
 from datetime import date
@@ -18,7 +17,7 @@ from .model import Contact, Interaction
 from .normalise import email_domain, fold_text, is_webmail, normalise_email, normalise_name, normalise_org
 from .store import Store
 from .ties import KINDS, TieModel, TieTable, disparity_filter, infer_ties
-from .warmth import Warmth, WarmthModel, compute_warmth, parse_when
+from .warmth import Warmth, WarmthModel, compute_warmth
 
 __all__ = ["Network", "load_network", "load_warmth", "describe", "explain_tie", "evidence_summary", "tie_decisions", "anchor_key", "contact_of_key"]
 

@@ -21,7 +21,7 @@ from typing import Iterable
 from .errors import NotFoundError
 from .identity import _norm_emails, _norm_phones  # same normalisation as merging
 from .model import Record
-from .normalise import normalise_email, normalise_name
+from .normalise import normalise_name
 from .store import Store
 
 __all__ = ["forget_contact", "remove_source", "compact", "forgotten_filter", "ForgetReport"]

@@ -15,7 +15,7 @@ import numpy as np
 
 from .errors import MynetError, NotFoundError
 from .network import Network, describe, evidence_summary
-from .normalise import email_domain, fold_text, normalise_email, normalise_org
+from .normalise import email_domain, fold_text, normalise_org
 from .paths import IntroPath, PathIndex, best_per_target, direct_route, find_paths
 
 __all__ = ["Targets", "resolve_targets", "path_index", "reach", "ReachResult", "org_catalogue", "tag_catalogue"]

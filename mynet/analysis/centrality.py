@@ -20,15 +20,14 @@ from __future__ import annotations
 
 import math
 from collections.abc import Hashable, Mapping
-from dataclasses import dataclass
-from functools import cached_property
 from typing import Any
 
-import igraph as ig
 import networkx as nx
 import numpy as np
 import scipy.sparse as sp
 from scipy.sparse.csgraph import dijkstra
+
+from ._sparse_graph import _from_arrays, _prepare, _Prepared, _sorted_nodes  # noqa: F401  (re-exported)
 
 __all__ = [
     "ROLE_THRESHOLDS", "betweenness", "clustering", "constraint", "contact_measures", "contact_role",
@@ -49,64 +48,6 @@ ROLE_THRESHOLDS: dict[str, float] = {
 # Row blocks for the structural-hole products are sized so that one block's
 # two-step neighbourhood holds about this many entries (bounds peak memory).
 _BLOCK_BUDGET = 4_000_000
-
-
-@dataclass
-class _Prepared:
-    """Sorted nodes, undirected edge list (i < j, once each) and the symmetric weight matrix."""
-
-    nodes: list
-    src: np.ndarray
-    dst: np.ndarray
-    w: np.ndarray
-    W: sp.csr_array
-
-    @property
-    def n(self) -> int:
-        return len(self.nodes)
-
-    @cached_property
-    def graph(self) -> ig.Graph:
-        """The same edges as an igraph Graph (edge i is (src[i], dst[i]))."""
-        g = ig.Graph(n=self.n)
-        g.add_edges(np.column_stack([self.src, self.dst]))  # from numpy: no per-edge Python objects
-        return g
-
-
-def _sorted_nodes(G) -> list:
-    try:
-        return sorted(G)
-    except TypeError:  # mixed node types: still deterministic
-        return sorted(G, key=lambda x: (type(x).__name__, repr(x)))
-
-
-def _prepare(G, weight: str | None = "weight") -> _Prepared:
-    if G.is_directed() or G.is_multigraph():
-        raise nx.NetworkXNotImplemented("contact measures need an undirected simple Graph")
-    nodes = _sorted_nodes(G)
-    index = {v: i for i, v in enumerate(nodes)}
-    src, dst, w = [], [], []
-    for u, v, d in G.edges(data=True):
-        if u == v:
-            continue
-        i, j = index[u], index[v]
-        src.append(min(i, j))
-        dst.append(max(i, j))
-        w.append(1.0 if weight is None else float(d.get(weight, 1.0)))
-    return _from_arrays(nodes, np.asarray(src, dtype=np.int64), np.asarray(dst, dtype=np.int64), np.asarray(w, dtype=float))
-
-
-def _from_arrays(nodes: list, src_a: np.ndarray, dst_a: np.ndarray, w_a: np.ndarray) -> _Prepared:
-    """Build from undirected edges given once each as index pairs with src < dst."""
-    if w_a.size and not (np.all(np.isfinite(w_a)) and np.all(w_a > 0)):
-        raise ValueError("tie strengths must be positive finite numbers")
-    order = np.lexsort((dst_a, src_a))
-    src_a, dst_a, w_a = src_a[order], dst_a[order], w_a[order]
-    n = len(nodes)
-    both = (np.concatenate([src_a, dst_a]), np.concatenate([dst_a, src_a]))
-    W = sp.coo_array((np.concatenate([w_a, w_a]), both), shape=(n, n)).tocsr()
-    W.sort_indices()
-    return _Prepared(nodes, src_a, dst_a, w_a, W)
 
 
 def _pivots(n: int, k: int, seed) -> np.ndarray:

@@ -11,7 +11,6 @@ from ..model import Contact
 from ..workspace import (
     contact_records,
     find_contact,
-    get_me,
     import_paths,
     merge_contacts,
     merge_suggestions,
@@ -103,9 +102,7 @@ def register(cli: click.Group) -> None:
         """Declare who you are; your own cards become you, never a contact."""
         store = obj.store()
         if emails or names or replace:
-            me = set_me(store, list(emails), list(names), replace=replace)
-        else:
-            me = get_me(store)
+            set_me(store, list(emails), list(names), replace=replace)
         raw = store.setting("me", {}) or {}
         if as_json:
             emit_json({"emails": raw.get("emails", []), "names": raw.get("names", [])})

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import click
-import numpy as np
 
 from ..errors import MynetError
 from ..network import describe, evidence_summary, explain_tie, load_network
