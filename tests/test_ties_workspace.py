@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import json
 
-import networkx as nx
 import pytest
 from networkx.algorithms import bipartite
 
