@@ -98,6 +98,16 @@ def _scrub_interactions(store: Store, emails: set[str]) -> int:
     return changed
 
 
+def _drop_from_group_state(store: Store, contact_id: int) -> None:
+    """Remove a contact from the remembered group memberships, keeping the group ids (and so their names)."""
+    state = json.loads(store.meta("groups_state", "{}") or "{}")
+    groups = state.get("groups", {})
+    for gid, members in groups.items():
+        groups[gid] = [m for m in members if m != contact_id]
+    state["groups"] = groups
+    store.set_meta("groups_state", json.dumps(state))
+
+
 def _drop_decisions_about(store: Store, keys: Iterable[str]) -> int:
     keys = list(keys)
     n = 0
@@ -134,7 +144,7 @@ def forget_contact(store: Store, contact_id: int) -> ForgetReport:
         scrubbed = _scrub_interactions(store, emails)
         dropped = _drop_decisions_about(store, keys)
         store.set_meta("forgotten", json.dumps(sorted(hashes)))
-        store.set_meta("groups_state", "{}")
+        _drop_from_group_state(store, contact_id)
         store.bump_data_version()
         refresh_contacts(store)
     compact(store)
@@ -158,16 +168,33 @@ def remove_source(store: Store, path: str) -> ForgetReport:
     with store.transaction():
         n_rec = store.conn.execute("SELECT COUNT(*) FROM records WHERE source_id = ?", (src["id"],)).fetchone()[0]
         n_int = store.conn.execute("SELECT COUNT(*) FROM interactions WHERE source_id = ?", (src["id"],)).fetchone()[0]
+        before = store.contact_map()
+        keys_of: dict[int, list[str]] = {}
+        for k, cid in sorted(before.items()):
+            keys_of.setdefault(cid, []).append(k)
         store.conn.execute("DELETE FROM sources WHERE id = ?", (src["id"],))
         live = {k for (k,) in store.conn.execute("SELECT rkey FROM records")}
-        orphans = {k for (k,) in store.conn.execute("SELECT rkey FROM contact_map")} - live
-        dropped = 0
+        dropped = moved = 0
         for row in store.decisions():
-            for key in (row["a"], row["b"]):
-                if key in orphans:
-                    dropped += store.conn.execute("DELETE FROM decisions WHERE id = ?", (row["id"],)).rowcount
-                    break
+            new = {}
+            gone = False
+            for col in ("a", "b"):
+                key = row[col]
+                if key in before and key not in live:
+                    # The record the decision was anchored to is gone; the person may remain through
+                    # another source: anchor the decision to one of their remaining records.
+                    rest = [k for k in keys_of.get(before[key], []) if k in live]
+                    if rest:
+                        new[col] = rest[0]
+                    else:
+                        gone = True
+            if gone:
+                dropped += store.conn.execute("DELETE FROM decisions WHERE id = ?", (row["id"],)).rowcount
+            elif new:
+                sets = ", ".join(f"{c} = ?" for c in new)
+                store.conn.execute(f"UPDATE decisions SET {sets} WHERE id = ?", (*new.values(), row["id"]))
+                moved += 1
         store.bump_data_version()
         refresh_contacts(store)
     compact(store)
-    return ForgetReport(source=src["path"], records=n_rec, interactions=n_int, decisions=dropped)
+    return ForgetReport(source=src["path"], records=n_rec, interactions=n_int, decisions=dropped, decisions_kept=moved)

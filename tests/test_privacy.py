@@ -5,6 +5,8 @@ from __future__ import annotations
 import json
 from pathlib import Path
 
+import pytest
+
 from mynet.cli import main
 
 PEOPLE = """Name,Email,Phone,Company,Notes
@@ -91,3 +93,21 @@ def test_remove_source_removes_what_only_it_supported(tmp_path, capsys):
     assert b"Inthisfile" not in raw and b"Unique-Marker-Q" not in raw
     code, _, err = run(capsys, *base, "sources", "--remove", "nope.csv", "--yes")
     assert code == 4 and "no imported source" in err
+
+
+@pytest.mark.parametrize("removed", ["a.csv", "b.csv"])  # one of the two holds the records decisions are anchored to
+def test_remove_source_keeps_decisions_about_people_still_in_other_files(tmp_path, capsys, removed):
+    ws = tmp_path / "ws.sqlite"
+    a = tmp_path / "a.csv"
+    a.write_text("Name,Email\nAna Lind,ana@x.example\nBo Ek,bo@x.example\n", encoding="utf-8")
+    b = tmp_path / "b.csv"
+    b.write_text("Name,Email\nBo Ek,bo@x.example\nAna Lind,ana@x.example\n", encoding="utf-8")
+    base = ["--workspace", str(ws)]
+    run(capsys, *base, "import", str(a), str(b))
+    run(capsys, *base, "rate", "Ana Lind", "0.9")
+    run(capsys, *base, "tie", "Ana Lind", "Bo Ek", "--note", "rowing")
+    assert run(capsys, *base, "sources", "--remove", removed, "--yes")[0] == 0
+    people = {p["name"]: p for p in json.loads(run(capsys, *base, "contacts", "--json")[1])}
+    assert people["Ana Lind"]["warmth"] == 0.9
+    code, out, _ = run(capsys, *base, "why", "Ana Lind", "Bo Ek")
+    assert "you said they know each other: rowing" in out

@@ -24,6 +24,20 @@ def _org(net, cid: int) -> str:
     return ", ".join(c.orgs) or (f"(was {c.past_orgs[0]})" if c.past_orgs else "")
 
 
+def describe_event(ev: dict, names: dict[int, str]) -> str:
+    """A split or merge of groups since the last analysis, in words."""
+    def ids(x):
+        return x if isinstance(x, list) else [x]
+
+    def label(g):
+        return f"{g} ({names[g]})" if g in names else str(g)
+
+    src, dst = ids(ev.get("from")), ids(ev.get("into"))
+    if ev["kind"] == "split":
+        return f"group {src[0]} split into groups {', '.join(label(g) for g in dst)}"
+    return f"groups {', '.join(map(str, src))} merged into group {label(dst[0])}"
+
+
 def audit_markdown(net, a, findings) -> str:
     lines = ["# Your network: audit", ""]
     s = a.summary
@@ -66,9 +80,10 @@ def register(cli: click.Group) -> None:
         ]))
         loose = sum(1 for g in a.group_of.values() if g is None)
         click.echo(f"\nModularity {a.modularity:.2f}; {loose} contacts unclustered (few or no ties).")
+        names = {g.id: g.name for g in a.groups}
         for ev in a.events:
             if ev.get("kind") in ("split", "merge"):
-                click.echo(f"Note: group {ev.get('from')} {'split into' if ev['kind'] == 'split' else 'merged into'} {ev.get('into')}")
+                click.echo("Note: " + describe_event(ev, names))
         note("Name one: mynet groups name ID \"Old team\"   Members: mynet groups show ID")
 
     @groups_cmd.command("name")
