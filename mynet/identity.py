@@ -426,7 +426,12 @@ def _build_contact(cid: int, stored: list[StoredRecord], emails, phones, members
     organisations seen only on older records are *past*.
     """
     def when(s: StoredRecord) -> str:
-        return (s.record.rev or s.as_of or "")[:10]
+        rev = s.record.rev
+        if rev:
+            digits = "".join(ch for ch in rev[:10] if ch.isdigit())[:8]
+            if len(digits) == 8:
+                return f"{digits[:4]}-{digits[4:6]}-{digits[6:8]}"
+        return (s.as_of or "")[:10]
 
     with_orgs = [s for s in stored if s.record.orgs]
     newest = max((when(s) for s in with_orgs), default="")

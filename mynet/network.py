@@ -6,6 +6,7 @@ workspace under the current data version) and explains any one tie in full.
 
 from __future__ import annotations
 
+import json
 from collections import defaultdict
 from dataclasses import dataclass, field
 from datetime import date
@@ -119,8 +120,10 @@ def _related_pairs(store: Store, contacts: list[Contact]) -> list[tuple[int, int
 
 
 def _me_emails(store: Store) -> set[str]:
+    """Your declared addresses, plus those your meetings and mail show under your full name."""
     raw = store.setting("me", {}) or {}
-    return {normalise_email(e) for e in raw.get("emails", []) if normalise_email(e)}
+    declared = {normalise_email(e) for e in raw.get("emails", []) if normalise_email(e)}
+    return declared | set(json.loads(store.meta("me_seen_as", "[]") or "[]"))
 
 
 def load_warmth(

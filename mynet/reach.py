@@ -232,7 +232,10 @@ def reach(
     # listed as your direct way in and may be intermediaries towards their colleagues.
     insiders = [m for m in members if len(members) > 1 and (direct_route(index, m) or 0) >= WARM_ENOUGH]
     outsiders = [m for m in members if m not in insiders] or members
-    paths = find_paths(index, outsiders, k=k, max_intermediaries=max_intermediaries, avoid=avoid, min_strength=min_strength)
+    # A path that goes through someone you already know warmly after its first step is a detour:
+    # you could ask that person yourself. Ask for spare paths and leave those out.
+    paths = find_paths(index, outsiders, k=2 * k, max_intermediaries=max_intermediaries, avoid=avoid, min_strength=min_strength)
+    paths = [p for p in paths if not any((direct_route(index, m) or 0) >= WARM_ENOUGH for m in p.nodes[1:-1])][:k]
     described = [_describe_path(net, p, groups) for p in paths]
     direct = []
     for m in members:

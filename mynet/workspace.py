@@ -37,6 +37,7 @@ __all__ = [
     "merge_suggestions",
     "contact_records",
     "link_addresses_by_name",
+    "your_other_addresses",
 ]
 
 Progress = Callable[[str], None]
@@ -113,10 +114,20 @@ class ImportReport:
         }
 
 
+def _iso_date(text: str) -> str:
+    """``YYYY-MM-DD`` from an ISO 8601 date or date-time, basic (20211223T...) or extended form; "" if none."""
+    digits = "".join(ch for ch in text[:10] if ch.isdigit())
+    if len(digits) >= 8:
+        y, m, d = digits[:4], digits[4:6], digits[6:8]
+        if "01" <= m <= "12" and "01" <= d <= "31":
+            return f"{y}-{m}-{d}"
+    return ""
+
+
 def _as_of(path: Path, records, explicit: str | None) -> str:
     if explicit:
         return explicit
-    revs = [r.rev[:10] for r in records if getattr(r, "rev", "")]
+    revs = [d for d in (_iso_date(r.rev) for r in records if getattr(r, "rev", "")) if d]
     if revs:
         return max(revs)
     try:
@@ -243,11 +254,36 @@ def refresh_contacts(store: Store) -> Resolution:
             default_region=store.setting("region", "") or "",
             org_aliases=store.setting("org_aliases", {}) or {},
         )
-        link_addresses_by_name(res.contacts, store.interactions(), get_me(store))
+        interactions = store.interactions()
+        me = get_me(store)
+        seen_as = your_other_addresses(res.contacts, interactions, me)
+        store.set_meta("me_seen_as", json.dumps(seen_as))
+        me.emails |= set(seen_as)
+        link_addresses_by_name(res.contacts, interactions, me)
         store.write_contacts(res.contacts, res.mapping, res.next_id)
         store.set_meta("held_back", json.dumps([s.__dict__ for s in res.held_back]))
         store.set_meta("me_keys", json.dumps(res.me_keys))
     return res
+
+
+def your_other_addresses(contacts: list[Contact], interactions, me: Me) -> list[str]:
+    """Addresses your meetings and mail show under your own declared name (two words or more).
+
+    You are declared by your addresses and your name; an address no contact
+    holds, written with your full name, is yours too (an old work address, say).
+    """
+    from .normalise import name_key
+
+    mine = {name_key(n) for n in me.names if len(n.split()) >= 2}
+    if not mine:
+        return []
+    known = {e for c in contacts for e in c.emails} | me.emails
+    found = set()
+    for it in interactions:
+        for addr, display in (it.names or {}).items():
+            if addr not in known and display and name_key(display) in mine:
+                found.add(addr)
+    return sorted(found)
 
 
 def link_addresses_by_name(contacts: list[Contact], interactions, me: Me) -> int:

@@ -53,7 +53,7 @@ def remove_tie(store: Store, a: int, b: int) -> None:
 def rate_contact(store: Store, cid: int, value: float | None) -> None:
     """Set (or, with None, clear) your own closeness to a contact, 0-1."""
     if value is not None and not 0 <= value <= 1:
-        raise MynetError("a rating is between 0 (not close) and 1 (closest)")
+        raise MynetError("a warmth is between 0 (not close) and 1 (closest)")
     key = anchor_key(store, cid)
     with store.transaction():
         store.delete_decisions("rate", key)

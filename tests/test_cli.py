@@ -69,7 +69,9 @@ def test_reimport_unchanged_is_a_no_op_and_decisions_survive_changes(capsys, fil
     code, out, _ = run(capsys, "contacts", "--json")
     ids = {p["name"]: p["id"] for p in json.loads(out)}
     # Merge two different people by hand, split Ana's records apart.
-    assert run(capsys, "merge", str(ids["Bo Ek"]), str(ids["Cara Moss"]))[0] == 0
+    code, _, err = run(capsys, "merge", str(ids["Bo Ek"]), str(ids["Cara Moss"]))
+    assert code == 1 and "--yes" in err  # different names: not merged without confirmation
+    assert run(capsys, "merge", str(ids["Bo Ek"]), str(ids["Cara Moss"]), "--yes")[0] == 0
     code, out, _ = run(capsys, "show", str(ids["Ána Lind"]), "--json")
     rec_ids = [r["id"] for r in json.loads(out)["records"]]
     assert run(capsys, "unmerge", str(ids["Ána Lind"]), "--record", str(rec_ids[1]))[0] == 0

@@ -136,7 +136,7 @@ def audit(store, net: Network, analysis: Analysis, *, today: date | None = None)
     if cold:
         findings.append(_finding(
             "cold-groups", f"{len(cold)} group{'s' if len(cold) != 1 else ''} where you have no warm contact",
-            "; ".join(f"{g.name} ({g.size} people)" for g in cold[:6]),
+            "; ".join(f"{g.name}: {g.size} people" for g in cold[:6]) + (f"; and {len(cold) - 6} more" if len(cold) > 6 else ""),
             {"groups": [g.id for g in cold], "people": sum(g.size for g in cold)},
             "Pick one person in each whom you know a little and get back in touch; mynet reach shows who can "
             "introduce you.",
@@ -154,7 +154,8 @@ def audit(store, net: Network, analysis: Analysis, *, today: date | None = None)
         dormant.sort()
         findings.append(_finding(
             "dormant", f"{len(dormant)} once-active tie{'s' if len(dormant) != 1 else ''} gone quiet for over {int(limit)} days",
-            "; ".join(f"{net.name(c)} (last {last}, {n} interactions)" for last, c, n in dormant[:6]),
+            "; ".join(f"{net.name(c)} (last {last}, {n} interactions)" for last, c, n in dormant[:6])
+            + (f"; and {len(dormant) - 6} more" if len(dormant) > 6 else ""),
             {"count": len(dormant), "days": limit, "people": [c for _l, c, _n in dormant]},
             "Dormant ties are cheap to revive and often know things your current circle does not.",
             min(1.0, 0.25 + 0.05 * len(dormant)),
@@ -166,7 +167,7 @@ def audit(store, net: Network, analysis: Analysis, *, today: date | None = None)
     if broker["size"]:
         con = broker["constraint"]
         findings.append(_finding(
-            "brokerage", f"Your constraint is {con:.2f}, effective size {broker['effective_size']:.1f} of {broker['size']}",
+            "brokerage", f"Your constraint is {con:.2f}; {broker['effective_size']:.0f} of the {broker['size']} people you are in touch with are non-redundant",
             "Constraint measures how much your contacts are tied to each other (1: one closed circle; low: you "
             "span structural holes). Effective size counts your non-redundant contacts (Burt 1992).",
             {k: round(v, 4) if isinstance(v, float) else v for k, v in broker.items()},

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import json
 from pathlib import Path
 
 import click
@@ -61,6 +62,19 @@ def _parse_map(items: tuple[str, ...]) -> dict[str, str]:
     return mapping
 
 
+def confirm_or_refuse(question: str) -> None:
+    """Ask on a terminal; without one, refuse clearly (add --yes) instead of waiting or aborting oddly."""
+    import sys
+
+    if not sys.stdin.isatty():
+        raise MynetError("this changes your workspace for good; run it in a terminal to confirm, or add --yes")
+    click.confirm(question, abort=True)
+
+
+def plural(n: int, word: str) -> str:
+    return f"{n} {word}{'' if n == 1 else 's'}"
+
+
 def print_import_report(report, as_json: bool) -> None:
     if as_json:
         emit_json(report.to_dict())
@@ -72,7 +86,7 @@ def print_import_report(report, as_json: bool) -> None:
         if f.status == "refused":
             click.echo(f"{f.path}: refused: {f.error}")
             continue
-        what = f"{f.records} records" if f.kind in ("vcard", "csv") else f"{f.interactions} {'events' if f.kind == 'ics' else 'messages'}"
+        what = plural(f.records, "record") if f.kind in ("vcard", "csv") else plural(f.interactions, "event" if f.kind == "ics" else "message")
         click.echo(f"{f.path}: {f.status}, {what} ({f.kind}){', ' + str(len(f.skipped)) + ' skipped' if f.skipped else ''}")
         for w in f.warnings:
             note(f"  note: {w}")
@@ -82,11 +96,14 @@ def print_import_report(report, as_json: bool) -> None:
             click.echo(f"  {s.source}:{s.line}: {s.reason}")
         if len(report.skipped) > 50:
             click.echo(f"  ... and {len(report.skipped) - 50} more (see --json)")
+    extra = ""
+    if report.you_records:
+        extra += f"; {report.you_records} record{'s are' if report.you_records != 1 else ' is'} you"
+    if report.not_people:
+        extra += f"; {report.not_people} {'are organisation or group cards' if report.not_people != 1 else 'is an organisation or group card'}"
     click.echo(
-        f"{report.records_total} records in the workspace -> {report.contacts_after} contacts "
-        f"({report.merged_records} duplicate records merged"
-        f"{', ' + str(report.you_records) + ' of them you' if report.you_records else ''}"
-        f"{', ' + str(report.not_people) + ' organisation or group cards' if report.not_people else ''}); "
+        f"{report.records_total} records in the workspace -> {report.contacts_after} contacts: "
+        f"{report.merged_records} duplicate records merged{extra}. "
         f"{report.suggestions} possible duplicates to review (mynet contacts --suggested)"
     )
 
@@ -111,6 +128,9 @@ def register(cli: click.Group) -> None:
             click.echo("You have not said who you are yet: mynet me --email you@example.org --name \"Your Name\"")
             return
         click.echo(f"You: {', '.join(raw.get('names', [])) or '(no name)'} <{', '.join(raw.get('emails', []))}>")
+        seen = json.loads(store.meta("me_seen_as", "[]") or "[]")
+        if seen:
+            click.echo(f"Also you (your name on these addresses in meetings and mail): {', '.join(seen)}")
 
     @cli.command("import")
     @click.argument("paths", nargs=-1, required=True, type=click.Path())
@@ -170,7 +190,7 @@ def register(cli: click.Group) -> None:
             from ..privacy import remove_source
 
             if not yes:
-                click.confirm(f"Remove {remove} and everything only it supported from the workspace?", abort=True)
+                confirm_or_refuse(f"Remove {remove} and everything only it supported from the workspace?")
             rep = remove_source(obj.store(), remove)
             if as_json:
                 emit_json(dict(rep))
@@ -204,10 +224,14 @@ def register(cli: click.Group) -> None:
             from ..network import _me_emails
             from ..warmth import unlisted_people
 
+
             from ..warmth import WarmthModel
 
             threshold = WarmthModel.from_settings(store.setting("warmth_model", {})).unlisted_threshold
             people = unlisted_people(store.contacts(), store.interactions(), _me_emails(store), threshold)
+            total = len(people)
+            if limit:
+                people = people[:limit]
             if as_json:
                 emit_json(people)
                 return
@@ -215,7 +239,7 @@ def register(cli: click.Group) -> None:
                 click.echo(f"Nobody outside your address book shows up {threshold} or more times.")
                 return
             click.echo(table(["seen", "last", "name", "e-mail"], [(p["count"], p["last"], p["name"], p["email"]) for p in people]))
-            note(f"{len(people)} people met {threshold}+ times who are not in your address book")
+            note(f"{total} people met {threshold}+ times who are not in your address book")
             return
         if suggested:
             sugg = merge_suggestions(store)
@@ -305,13 +329,19 @@ def register(cli: click.Group) -> None:
 
     @cli.command("merge")
     @click.argument("who", nargs=-1, required=True)
+    @click.option("--yes", is_flag=True, help="Merge even when the names differ, without asking.")
     @json_option
     @click.pass_obj
-    def merge_cmd(obj, who, as_json):
+    def merge_cmd(obj, who, yes, as_json):
         """Merge two or more contacts into one person (kept across re-imports)."""
         store = obj.store()
-        ids = [find_contact(store, w).id for w in who]
-        c = merge_contacts(store, ids)
+        people = [find_contact(store, w) for w in who]
+        from ..identity import names_compatible
+
+        odd = [p for p in people[1:] if not names_compatible(people[0].name, p.name)]
+        if odd and not yes:
+            confirm_or_refuse(f"{people[0].name} and {', '.join(p.name for p in odd)} have different names. Merge anyway?")
+        c = merge_contacts(store, [p.id for p in people])
         if as_json:
             emit_json(contact_json(c))
             return
@@ -347,9 +377,9 @@ def register(cli: click.Group) -> None:
         store = obj.store()
         c = find_contact(store, who)
         if not yes:
-            click.confirm(f"Forget {c.name} (id {c.id}) completely? This cannot be undone", abort=True)
+            confirm_or_refuse(f"Forget {c.name} (id {c.id}) completely? This cannot be undone")
         rep = forget_contact(store, c.id)
-        click.echo(f"Forgotten: {rep['records']} records removed, {rep['interactions_scrubbed']} meetings/messages "
+        click.echo(f"Forgotten: {plural(rep['records'], 'record')} removed, {rep['interactions_scrubbed']} meetings/messages "
                    f"cleaned, {rep['decisions']} decisions dropped; the workspace file was compacted.")
 
     @cli.command("apart")

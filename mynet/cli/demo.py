@@ -55,7 +55,8 @@ def register(cli: click.Group) -> None:
             personal = truth.get("personal_email_domains", [])
             if personal:
                 update_list_setting(store, "webmail_domains", ",".join(d for d in personal if d != "example.org"))
-                click.echo(f"   Private-mail domains of this world, which say nothing about an employer: {', '.join(personal)}")
+                click.echo("   This invented world's private mail domains are declared as webmail (they say nothing about "
+                           f"an employer): mynet settings webmail_domains={','.join(d for d in personal if d != 'example.org')}")
 
             heading("2. Import the exports")
             files = [src / f for f in SOURCE_FILES if (src / f).exists()]
@@ -71,7 +72,7 @@ def register(cli: click.Group) -> None:
             contacts = store.contacts()
             names = {c.id: c.name for c in contacts}
             multi = sorted(contacts, key=lambda c: (-len(c.sources), c.id))[:4]
-            heading("3. One person, several exports (mynet show ID)")
+            heading("3. People found in several exports (mynet show ID lists every record behind one)")
             click.echo(table(["id", "name", "works at", "worked at", "files"], [
                 (c.id, c.name, ", ".join(c.orgs), ", ".join(c.past_orgs), len(c.sources)) for c in multi
             ]))
@@ -116,10 +117,9 @@ def register(cli: click.Group) -> None:
             if analysis.bridges:
                 b = analysis.bridges[0]
                 heading("9. A bridge between groups (mynet bridges)")
-                click.echo(f"   {net.name(b['a'])} - {net.name(b['b'])}: the only tie between "
-                           f"{' and '.join(gnames.get(g, str(g)) for g in b['groups'])}"
-                           if b.get("ties_between") == 1 else
-                           f"   {net.name(b['a'])} - {net.name(b['b'])} links {' and '.join(gnames.get(g, str(g)) for g in b['groups'])}")
+                pair = " and ".join(f"group {g} ({gnames.get(g, '?')})" for g in b["groups"])
+                only = "the only tie" if b.get("ties_between") == 1 else "a tie"
+                click.echo(f"   {net.name(b['a'])} - {net.name(b['b'])}: {only} between {pair}")
             findings = audit(store, net, analysis)
             heading("10. The audit, most useful findings first (mynet audit)")
             for i, f in enumerate(findings[:3], 1):

@@ -80,7 +80,7 @@ def register(cli: click.Group) -> None:
             parts = ", ".join(f"{k} {v:.2f}" for k, v in ex["contributions"].items())
             click.echo(f"  How the strength adds up: {parts}; combined as 1 - product of (1 - each) = {ex['strength']:.2f}")
         if ex["suppressed"]:
-            click.echo("  You suppressed this tie (mynet tie A B brings it back).")
+            click.echo(f"  You suppressed this tie; to say they do know each other: mynet tie {ca.id} {cb.id}")
 
     @cli.command("tie")
     @click.argument("a")
@@ -112,7 +112,7 @@ def register(cli: click.Group) -> None:
     @click.option("--clear", is_flag=True, help="Forget your rating; warmth comes from interactions again.")
     @click.pass_obj
     def rate_cmd(obj, who, closeness, clear):
-        """Set your own closeness to a person, from 0 (distant) to 1 (closest)."""
+        """Set your warmth to a person yourself, from 0 (not close) to 1 (closest); it overrides the computed one."""
         store = obj.store()
         c = find_contact(store, who)
         if clear:
@@ -120,13 +120,13 @@ def register(cli: click.Group) -> None:
             click.echo(f"Rating cleared for {c.name}")
             return
         if closeness is None:
-            raise MynetError("give a closeness between 0 and 1, or --clear")
+            raise MynetError("give a warmth between 0 (not close) and 1 (closest), or --clear")
         try:
             value = float(closeness)
         except ValueError as exc:
-            raise MynetError(f"closeness must be a number between 0 and 1, got {closeness!r}") from exc
+            raise MynetError(f"warmth must be a number between 0 and 1, got {closeness!r}") from exc
         rate_contact(store, c.id, value)
-        click.echo(f"{c.name}: closeness {value:.2f}")
+        click.echo(f"{c.name}: warmth {value:.2f} (your rating)")
 
     @cli.command("settings")
     @click.argument("assignment", required=False, metavar="[NAME=VALUE]")
@@ -147,6 +147,10 @@ def register(cli: click.Group) -> None:
                 update_settings(store, group, key.strip(), value.strip())
             else:
                 raise MynetError(f"unknown setting {lhs!r}; see mynet settings")
+            if not as_json:
+                shown = store.setting(lhs) if lhs in LIST_SETTINGS else (store.setting(lhs.split(".")[0], {}) or {}).get(lhs.split(".", 1)[1])
+                click.echo(f"{lhs} = {shown}")
+                return
         data = {}
         for group, cls in SETTING_GROUPS.items():
             data[group] = cls().__dict__ | (store.setting(group, {}) or {})
