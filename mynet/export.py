@@ -2,7 +2,7 @@
 
 One graph (:func:`network_graph`) is the single source of every format:
 
-* **GraphML** (the open XML format networkx, Gephi and yEd read) via
+* **GraphML** (the open XML graph format that networkx and other graph tools read) via
   :func:`networkx.write_graphml`. Node ids are contact ids; attributes are
   plain strings, integers, floats and booleans: lists are joined with
   ``"; "`` and missing values are left out.

@@ -37,7 +37,7 @@ SYNONYM_TEXT: dict[str, str] = {
     "notizen|kommentar|remarques|commentaire|commentaires|notas|nota|comentarios|note personali|opmerkingen|"
     "notities|observacoes",
     "urls": "website|web site|url|web page|webpage|homepage|home page|web|web address|website url|"
-    "profile url|linkedin|linkedin url|webseite|site web|sitio web|pagina web|sito web",
+    "profile url|webseite|site web|sitio web|pagina web|sito web",
     "locality": "city|town|locality|municipality|village|stadt|ort|wohnort|ville|ciudad|localidad|citta|"
     "plaats|woonplaats|cidade",
     "region": "state|region|province|state province|county|bundesland|provincia|estado|provincie|regione",
