@@ -374,7 +374,7 @@ def test_help_lists_every_key(workspace):
             for _title, keys in help_sections(app):
                 for key, desc in keys:
                     assert desc in text
-            for word in ("Name group", "Merge", "Keep apart", "Rate closeness", "Search", "Quit"):
+            for word in ("Name group", "Merge", "Keep apart", "Set warmth", "Search", "Quit"):
                 assert word in text
             await pilot.press("escape")
             assert type(app.screen).__name__ == "MainScreen"

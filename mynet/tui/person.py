@@ -120,10 +120,10 @@ class PersonScreen(Page):
     hint = "The highlighted tie's evidence is below the list, with the files it came from."
 
     BINDINGS = [
-        Binding("w", "rate", "Rate closeness"),
+        Binding("w", "rate", "Set warmth"),
         Binding("t", "tie", "Add tie"),
-        Binding("x", "untie", "Remove tie"),
-        Binding("r", "reach", "Reach them"),
+        Binding("x", "untie", "Untie"),
+        Binding("r", "reach", "Reach"),
         Binding("escape", "app.back", "Back"),
     ]
 
@@ -267,11 +267,11 @@ class PersonScreen(Page):
             except ValueError:
                 self.app.status_text = f"Not a number: {text!r}; nothing changed."  # type: ignore[attr-defined]
                 return
-            said = f"Saved: your closeness to {name} is {value:.2f}." if value is not None else \
+            said = f"Saved: your warmth to {name} is {value:.2f} (your rating)." if value is not None else \
                 f"Saved: your rating of {name} is cleared; warmth comes from your interactions."
             self.app.edit("Saving your rating…", lambda store: rate_contact(store, self.cid, value), said=said)  # type: ignore[attr-defined]
 
-        self.app.push_screen(AskScreen(f"Your closeness to {name}, from 0 (distant) to 1 (closest); empty clears it:",
+        self.app.push_screen(AskScreen(f"Your warmth to {name}, from 0 (not close) to 1 (closest); empty clears it:",
                                        value=f"{w.rated:.2f}" if w and w.rated is not None else "",
                                        placeholder="e.g. 0.7"), answer)
 
