@@ -25,3 +25,24 @@ def _isolated_workspace(tmp_path, monkeypatch):
     monkeypatch.setenv("MYNET_WORKSPACE", str(tmp_path / "workspace.sqlite"))
     monkeypatch.setenv("NO_COLOR", "1")
     yield
+
+
+def import_sample(ws_path: Path):
+    """The sample scenario imported the way ``mynet demo`` does it: you, its private mail domains, every file.
+
+    Returns the open store and the scenario's ground truth.
+    """
+    import json
+
+    from mynet.cli.demo import SOURCE_FILES, sample_dir
+    from mynet.workspace import import_paths, open_workspace, set_me
+    from mynet.workspace_ties import update_list_setting
+
+    src = sample_dir()
+    truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
+    store = open_workspace(ws_path)
+    set_me(store, truth["you"]["emails"], [truth["you"]["name"]])
+    personal = [d for d in truth.get("personal_email_domains", []) if d != "example.org"]
+    update_list_setting(store, "webmail_domains", ",".join(personal))
+    import_paths(store, [src / f for f in SOURCE_FILES], region="GB")
+    return store, truth

@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 
 import pytest
+from conftest import import_sample
 
 from mynet.analysis.audit import audit, blau_index, shannon_evenness
 from mynet.analysis.groups import normalised_mutual_information
@@ -80,17 +81,7 @@ def test_blau_and_shannon_hand_computed():
 @pytest.fixture(scope="module")
 def sample_ws(tmp_path_factory):
     """The sample scenario imported as the demo does it."""
-    from mynet.cli.demo import SOURCE_FILES, sample_dir
-    from mynet.workspace import set_me
-    from mynet.workspace_ties import update_list_setting
-
-    src = sample_dir()
-    truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
-    store = open_workspace(tmp_path_factory.mktemp("sample") / "ws.sqlite")
-    set_me(store, truth["you"]["emails"], [truth["you"]["name"]])
-    update_list_setting(store, "webmail_domains", ",".join(d for d in truth["personal_email_domains"] if d != "example.org"))
-    import_paths(store, [src / f for f in SOURCE_FILES], region="GB")
-    return store, truth
+    return import_sample(tmp_path_factory.mktemp("sample") / "ws.sqlite")
 
 
 def _person_of(store, truth):

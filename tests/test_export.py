@@ -10,6 +10,7 @@ from datetime import date
 
 import networkx as nx
 import pytest
+from conftest import import_sample
 from hypothesis import given
 from hypothesis import strategies as st
 
@@ -26,17 +27,7 @@ RISKY = ("=", "+", "-", "@", "\t", "\r")
 @pytest.fixture(scope="module")
 def sample(tmp_path_factory):
     """The sample scenario imported as the demo does it."""
-    from mynet.cli.demo import SOURCE_FILES, sample_dir
-    from mynet.workspace import set_me
-    from mynet.workspace_ties import update_list_setting
-
-    src = sample_dir()
-    truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
-    store = open_workspace(tmp_path_factory.mktemp("sample") / "ws.sqlite")
-    set_me(store, truth["you"]["emails"], [truth["you"]["name"]])
-    update_list_setting(store, "webmail_domains", ",".join(d for d in truth["personal_email_domains"] if d != "example.org"))
-    import_paths(store, [src / f for f in SOURCE_FILES], region="GB")
-    return store
+    return import_sample(tmp_path_factory.mktemp("sample") / "ws.sqlite")[0]
 
 
 @pytest.fixture

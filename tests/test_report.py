@@ -13,6 +13,7 @@ from pathlib import Path
 import click
 import networkx as nx
 import pytest
+from conftest import import_sample
 from click.testing import CliRunner
 
 from mynet.analysis.audit import audit
@@ -37,17 +38,7 @@ SVG = "{http://www.w3.org/2000/svg}"
 @pytest.fixture(scope="module")
 def sample(tmp_path_factory):
     """The sample scenario imported as the demo does it."""
-    from mynet.cli.demo import SOURCE_FILES, sample_dir
-    from mynet.workspace import set_me
-    from mynet.workspace_ties import update_list_setting
-
-    src = sample_dir()
-    truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
-    store = open_workspace(tmp_path_factory.mktemp("sample") / "ws.sqlite")
-    set_me(store, truth["you"]["emails"], [truth["you"]["name"]])
-    update_list_setting(store, "webmail_domains", ",".join(d for d in truth["personal_email_domains"] if d != "example.org"))
-    import_paths(store, [src / f for f in SOURCE_FILES], region="GB")
-    return store, truth
+    return import_sample(tmp_path_factory.mktemp("sample") / "ws.sqlite")
 
 
 @pytest.fixture(scope="module")

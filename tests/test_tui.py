@@ -7,7 +7,6 @@ imported the way ``mynet demo`` does it, with the day frozen at the scenario's e
 from __future__ import annotations
 
 import asyncio
-import json
 import shutil
 import sqlite3
 from datetime import date
@@ -23,25 +22,18 @@ from mynet.reach import reach, resolve_targets  # noqa: E402
 from mynet.tui import create_app  # noqa: E402
 from mynet.tui.data import load_extras, load_snapshot  # noqa: E402
 from mynet.tui.rowlist import RowList  # noqa: E402
-from mynet.workspace import import_paths, merge_suggestions, open_workspace, search_contacts, set_me  # noqa: E402
-from mynet.workspace_ties import update_list_setting  # noqa: E402
+from mynet.workspace import merge_suggestions, open_workspace, search_contacts  # noqa: E402
+from conftest import import_sample  # noqa: E402
 
-ROOT = Path(__file__).resolve().parents[1]
-SAMPLE = ROOT / "sample_contacts"
 #: The day after the scenario's last day (sample_contacts/_activity.py ends it on 2026-11-30).
 TODAY = date(2026, 12, 1)
-FILES = ("phone.vcf", "phone-recent.vcf", "old-work.vcf", "conference.csv", "club-members.csv", "calendar.ics", "mail.mbox")
 
 
 def build_sample(folder: Path) -> Path:
     """The sample scenario imported like ``mynet demo`` does, with every cache filled for TODAY."""
-    truth = json.loads((SAMPLE / "ground_truth.json").read_text(encoding="utf-8"))
     ws = folder / "sample.sqlite"
-    with open_workspace(ws) as store:
-        set_me(store, truth["you"]["emails"], [truth["you"]["name"]])
-        personal = [d for d in truth.get("personal_email_domains", []) if d != "example.org"]
-        update_list_setting(store, "webmail_domains", ",".join(personal))
-        import_paths(store, [SAMPLE / f for f in FILES], region="GB")
+    store, _truth = import_sample(ws)
+    with store:
         net = load_network(store, today=TODAY)
         analyse(store, net)
     return ws
