@@ -303,9 +303,8 @@ class DuplicatesView(Vertical):
     def _pair(self) -> tuple[int, int] | None:
         return self.query_one(RowList).current_key  # type: ignore[return-value]
 
-    def action_merge(self) -> None:
-        from ..workspace import merge_contacts
-
+    def _decide(self, doing: str, done: str, work) -> None:
+        """Record a decision on the highlighted pair: hide it at once, save it in a worker."""
         pair = self._pair()
         snap = self.app.snapshot  # type: ignore[attr-defined]
         if pair is None or snap is None:
@@ -313,21 +312,20 @@ class DuplicatesView(Vertical):
         names = f"{snap.net.name(pair[0])} and {snap.net.name(pair[1])}"
         self.decided.add(pair)
         self.refresh_view(snap)
-        self.app.edit(f"Merging {names}…", lambda store: merge_contacts(store, list(pair)),  # type: ignore[attr-defined]
-                      said=f"Merged {names} into one person.")
+        self.app.edit(doing.format(names=names), lambda store: work(store, pair),  # type: ignore[attr-defined]
+                      said=done.format(names=names))
+
+    def action_merge(self) -> None:
+        from ..workspace import merge_contacts
+
+        self._decide("Merging {names}…", "Merged {names} into one person.",
+                     lambda store, pair: merge_contacts(store, list(pair)))
 
     def action_apart(self) -> None:
         from ..workspace import reject_suggestion
 
-        pair = self._pair()
-        snap = self.app.snapshot  # type: ignore[attr-defined]
-        if pair is None or snap is None:
-            return
-        names = f"{snap.net.name(pair[0])} and {snap.net.name(pair[1])}"
-        self.decided.add(pair)
-        self.refresh_view(snap)
-        self.app.edit(f"Keeping {names} apart…", lambda store: reject_suggestion(store, *pair),  # type: ignore[attr-defined]
-                      said=f"Kept apart: {names} will not be suggested again.")
+        self._decide("Keeping {names} apart…", "Kept apart: {names} will not be suggested again.",
+                     lambda store, pair: reject_suggestion(store, *pair))
 
     def action_skip(self) -> None:
         pair = self._pair()
