@@ -6,6 +6,7 @@ what a value needs to describe itself.
 
 from __future__ import annotations
 
+import re
 from dataclasses import asdict, dataclass, field, fields
 from typing import Any
 
@@ -20,6 +21,9 @@ __all__ = [
     "Evidence",
     "Tie",
 ]
+
+
+_ADDRESS_ONLY = re.compile(r"^<?(?:mailto:)?[^\s@<>]+@[^\s@<>]+\.[^\s@<>]+>?$", re.IGNORECASE)
 
 
 @dataclass
@@ -97,13 +101,20 @@ class Record:
     warnings: list[str] = field(default_factory=list)
 
     def display_name(self) -> str:
-        """Best human name the record offers (FN, else N parts, else e-mail)."""
-        if self.full_name.strip():
-            return self.full_name.strip()
+        """Best human name the record offers (FN, else N parts, else e-mail).
+
+        An FN that is only an e-mail address (some phones write the address
+        there) gives way to the name parts of N when the card has them.
+        """
+        fn = self.full_name.strip()
         parts = [self.prefix, self.given, self.additional, self.family, self.suffix]
         joined = " ".join(p.strip() for p in parts if p and p.strip())
+        if fn and not (joined and _ADDRESS_ONLY.match(fn)):
+            return fn
         if joined:
             return joined
+        if fn:
+            return fn
         if self.nicknames:
             return self.nicknames[0]
         if self.emails:
@@ -174,6 +185,8 @@ class Contact:
     notes: list[str] = field(default_factory=list)
     sources: list[str] = field(default_factory=list)
     record_ids: list[int] = field(default_factory=list)
+    found_in: list[str] = field(default_factory=list)  # "mail", "calendar": found there, in no address book
+    address_from: dict[str, str] = field(default_factory=dict)  # e-mail -> where mynet got it, in plain words
 
     def to_dict(self) -> dict[str, Any]:
         return dict(self.__dict__)
@@ -190,6 +203,17 @@ class Interaction:
 
     ``participants`` are normalised e-mail addresses (lower case), ``names``
     maps an address to the display name the file gave it.
+
+    Mail only: ``sender`` is the author (after undoing a list relay's
+    rewriting), ``in_reply_to`` the Message-ID of the message answered
+    (RFC 5322 section 3.6.4), ``list_id`` the list it went through (RFC 2919
+    List-Id, else the RFC 2369 List-Post address), ``mass`` says the message
+    went out through a list or bulk mailer (list fields, Precedence), so that a
+    thread nobody answered is bulk. ``recipients`` counts the distinct To and
+    Cc addresses even when ``participants`` was cut short. ``not_people``
+    holds addresses in the headers (or a calendar's rooms) that are lists,
+    relays, robots or resources rather than people: address -> kind (see
+    :data:`mynet.mailaddr.KIND_WORDS`).
     """
 
     kind: str  # "meeting" or "message"
@@ -205,6 +229,11 @@ class Interaction:
     participants: list[str] = field(default_factory=list)
     names: dict[str, str] = field(default_factory=dict)
     bulk: bool = False
+    in_reply_to: str = ""
+    list_id: str = ""
+    mass: bool = False
+    recipients: int = 0
+    not_people: dict[str, str] = field(default_factory=dict)
 
     def to_dict(self) -> dict[str, Any]:
         return asdict(self)

@@ -25,7 +25,7 @@ from .model import Contact, Interaction, Record
 
 __all__ = ["Store", "SCHEMA_VERSION", "SourceRow"]
 
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
 
 # Each entry migrates from version i to i+1 (index 0 creates version 1).
 MIGRATIONS: list[str] = [
@@ -74,6 +74,14 @@ MIGRATIONS: list[str] = [
     CREATE INDEX decisions_kind ON decisions(kind);
     CREATE TABLE settings (key TEXT PRIMARY KEY, value TEXT NOT NULL);
     CREATE TABLE cache (key TEXT PRIMARY KEY, version INTEGER NOT NULL, data TEXT NOT NULL);
+    """,
+    # 1 -> 2: which reader version read a source (a source read by an older reader is read again on the
+    # next import of that file even when its bytes did not change: mail read before lists and relays were
+    # understood keeps nothing of them), and whether the people you corresponded with there may become
+    # contacts (import --no-new-contacts).
+    """
+    ALTER TABLE sources ADD COLUMN reader TEXT NOT NULL DEFAULT '';
+    ALTER TABLE sources ADD COLUMN new_contacts INTEGER NOT NULL DEFAULT 1;
     """,
 ]
 
@@ -265,11 +273,15 @@ class Store:
         as_of: str | None,
         region: str | None,
         n_skipped: int,
+        reader: str = "",
+        new_contacts: bool = True,
     ) -> int:
         """Insert or replace one source with its records and interactions.
 
-        ``records`` pairs each record with its stable key. Must run inside a
-        transaction opened by the caller (the whole import is one transaction).
+        ``records`` pairs each record with its stable key. ``reader`` names the
+        version of the reader that read it; ``new_contacts`` says whether people
+        found there may become contacts. Must run inside a transaction opened
+        by the caller (the whole import is one transaction).
         """
         assert self._in_tx, "replace_source must run inside Store.transaction()"
         old = self.source_by_path(path)
@@ -277,14 +289,18 @@ class Store:
             self.conn.execute("DELETE FROM records WHERE source_id = ?", (old["id"],))
             self.conn.execute("DELETE FROM interactions WHERE source_id = ?", (old["id"],))
             self.conn.execute(
-                "UPDATE sources SET kind=?, sha256=?, size=?, as_of=?, region=?, imported_at=?, n_records=?, n_skipped=? WHERE id=?",
-                (kind, sha256, size, as_of, region, _now(), len(records) + len(interactions), n_skipped, old["id"]),
+                "UPDATE sources SET kind=?, sha256=?, size=?, as_of=?, region=?, imported_at=?, n_records=?, n_skipped=?,"
+                " reader=?, new_contacts=? WHERE id=?",
+                (kind, sha256, size, as_of, region, _now(), len(records) + len(interactions), n_skipped, reader,
+                 int(new_contacts), old["id"]),
             )
             source_id = old["id"]
         else:
             cur = self.conn.execute(
-                "INSERT INTO sources(path, kind, sha256, size, as_of, region, imported_at, n_records, n_skipped) VALUES (?,?,?,?,?,?,?,?,?)",
-                (path, kind, sha256, size, as_of, region, _now(), len(records) + len(interactions), n_skipped),
+                "INSERT INTO sources(path, kind, sha256, size, as_of, region, imported_at, n_records, n_skipped, reader,"
+                " new_contacts) VALUES (?,?,?,?,?,?,?,?,?,?,?)",
+                (path, kind, sha256, size, as_of, region, _now(), len(records) + len(interactions), n_skipped, reader,
+                 int(new_contacts)),
             )
             source_id = cur.lastrowid
         self.conn.executemany(
@@ -323,11 +339,12 @@ class Store:
         )
         return [(rid, rkey, srcs[sid], Record.from_dict(json.loads(d))) for rid, sid, rkey, d in rows]
 
-    def interactions(self) -> list[Interaction]:
-        return [
-            Interaction.from_dict(json.loads(d))
-            for (d,) in self.conn.execute("SELECT data FROM interactions ORDER BY source_id, idx")
-        ]
+    def interactions(self, *, with_source: bool = False) -> list:
+        """Every meeting and message as imported, in file order (``(source id, interaction)`` pairs with ``with_source``)."""
+        rows = self.conn.execute("SELECT source_id, data FROM interactions ORDER BY source_id, idx")
+        if with_source:
+            return [(sid, Interaction.from_dict(json.loads(d))) for sid, d in rows]
+        return [Interaction.from_dict(json.loads(d)) for _sid, d in rows]
 
     # -- contacts ----------------------------------------------------------------
     def contact_map(self) -> dict[str, int]:

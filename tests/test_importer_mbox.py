@@ -16,7 +16,7 @@ from hypothesis import strategies as st
 
 from mynet.errors import InputError, RecordError
 from mynet.importers import iter_input_files, parse_file
-from mynet.importers.mbox import MAX_HEADER_BYTES, bulk_reason, decode_words, iter_mbox_messages, parse_mail
+from mynet.importers.mbox import FIELD_CAP, MAX_KEPT, bulk_reason, decode_words, iter_mbox_messages, parse_mail
 
 CORPUS = Path(__file__).resolve().parents[1].parent / "shared" / "corpus"
 
@@ -253,25 +253,30 @@ def test_thread_groups_a_conversation():
 # --------------------------------------------------------------------------
 
 @pytest.mark.parametrize(
-    "header, bulk",
+    "header, bulk, mass",
     [
-        ("List-Id: Garden club <garden.example.org>", True),
-        ("List-Unsubscribe: <mailto:leave@example.org>", True),
-        ("Precedence: bulk", True),
-        ("Precedence: List", True),
-        ("Precedence: junk", True),
-        ("Precedence: first-class", False),
-        ("Auto-Submitted: auto-replied", True),
-        ("Auto-Submitted: auto-generated; owner-email=a@example.org", True),
-        ("Auto-Submitted: no", False),
-        ("X-Mailer: Example Mail 1.0", False),
+        # RFC 2919 section 3 (List-Id), RFC 2369 section 3.2 (List-Unsubscribe): list mail is only marked;
+        # whether anyone answered decides later (see test_correspondence.py).
+        ("List-Id: Garden club <garden.example.org>", False, True),
+        ("List-Unsubscribe: <mailto:leave@example.org>", False, True),
+        # Precedence is common practice (RFC 3834 section 2 tells responders to respect it): marked only.
+        ("Precedence: bulk", False, True),
+        ("Precedence: List", False, True),
+        ("Precedence: junk", False, True),
+        ("Precedence: first-class", False, False),
+        # RFC 3834 section 5: any Auto-Submitted value other than "no" is an automatic message.
+        ("Auto-Submitted: auto-replied", True, False),
+        ("Auto-Submitted: auto-generated; owner-email=a@example.org", True, False),
+        ("Auto-Submitted: no", False, False),
+        ("X-Mailer: Example Mail 1.0", False, False),
     ],
 )
-def test_bulk_rules(header, bulk):
-    data = mbox(msg("From: news@example.org", "To: you@example.org", header))
+def test_bulk_rules(header, bulk, mass):
+    data = mbox(msg("From: ada@example.org", "To: you@example.org", header))
     result = parse_mail(data, "a.mbox")
     assert len(result.interactions) == 1  # bulk mail is kept, only marked
     assert result.interactions[0].bulk is bulk
+    assert result.interactions[0].mass is mass
 
 
 def test_bulk_by_recipient_count():
@@ -282,9 +287,18 @@ def test_bulk_by_recipient_count():
     assert parse_mail(with_recipients(25), "a.mbox").interactions[0].bulk is False
     assert parse_mail(with_recipients(26), "a.mbox").interactions[0].bulk is True
     assert parse_mail(with_recipients(5), "a.mbox", max_recipients=4).interactions[0].bulk is True
+    assert parse_mail(with_recipients(26), "a.mbox").interactions[0].recipients == 26
     assert bulk_reason({}, 26) == "26 recipients (more than 25)"
-    assert bulk_reason({"precedence": ["Bulk "]}, 1) == "Precedence: bulk"
-    assert bulk_reason({"list-id": [""]}, 1) == ""
+    assert bulk_reason({"precedence": ["Bulk "]}, 1) == ""
+    assert bulk_reason({"auto-submitted": ["auto-generated"]}, 1) == "Auto-Submitted: auto-generated"
+
+
+@pytest.mark.parametrize("sender", ["noreply@shop.example", "no-reply@shop.example", "mailer-daemon@mx.example",
+                                    "jenkins@ci.build.example", "notifications@tracker.example"])
+def test_robot_and_no_reply_authors_are_bulk(sender):
+    (m,) = parse_mail(mbox(msg(f"From: Shop <{sender}>", "To: you@example.org")), "a.mbox").interactions
+    assert m.bulk is True and m.not_people[sender] in ("machine", "bot", "feed")
+    assert sender not in m.participants
 
 
 # --------------------------------------------------------------------------
@@ -417,12 +431,24 @@ def test_header_line_that_is_not_a_field_is_reported():
     assert any("not a header field" in w for w in result.warnings)
 
 
-def test_oversized_header_block_is_skipped():
+def test_huge_header_fields_are_read_with_bounded_memory():
     filler = "X-Filler: " + "a" * 1000
-    big = msg("From: a@example.org", *([filler] * (MAX_HEADER_BYTES // 1000 + 10)))
+    big = msg("From: a@example.org", *([filler] * 1100), "To: b@example.org")
     result = parse_mail(mbox(msg(*BASIC), big), "a.mbox")
-    assert len(result.interactions) == 1
-    assert result.skipped[0].line == 10 and "larger than" in result.skipped[0].reason
+    assert len(result.interactions) == 2 and not result.skipped
+    assert result.interactions[1].participants == ["a@example.org", "b@example.org"]
+
+
+def test_hundred_thousand_recipients_do_not_make_the_file_not_mail():
+    to = "To: " + ",\n ".join(f"Person {i} <p{i}@crowd.example>" for i in range(100_000))
+    data = mbox(msg("From: Ada Quill <ada@example.org>", to, "Subject: all of you"), msg(*BASIC))
+    result = parse_mail(data, "crowd.mbox")
+    first, second = result.interactions
+    assert first.recipients == 100_000 and first.bulk is True
+    assert len(first.participants) <= MAX_KEPT + 1 and "ada@example.org" in first.participants
+    assert second.key == "lunch-1@example.org" and second.line > 100_000
+    assert any("over" in w and "KiB" in w for w in result.warnings)
+    assert FIELD_CAP < len(to)
 
 
 # --------------------------------------------------------------------------

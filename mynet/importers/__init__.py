@@ -1,7 +1,9 @@
 """Importers: one entry point that picks the reader by content and suffix.
 
 Each reader takes the file's bytes and its path and returns a
-:class:`mynet.model.ParseResult`; it never touches the workspace.
+:class:`mynet.model.ParseResult`; it never touches the workspace. A folder of
+message files (a Maildir, or saved messages without a suffix) is one source,
+read by :mod:`mynet.importers.maildir`.
 """
 
 from __future__ import annotations
@@ -13,7 +15,12 @@ from typing import Iterable, Iterator
 from ..errors import InputError, UnknownFormatError
 from ..model import ParseResult
 
-__all__ = ["detect_kind", "parse_file", "iter_input_files", "MAX_FILE_BYTES", "KNOWN_SUFFIXES"]
+__all__ = ["detect_kind", "parse_file", "iter_input_files", "source_digest", "MAX_FILE_BYTES", "KNOWN_SUFFIXES",
+           "READERS"]
+
+#: The version of the reader of each source kind. A source read by another version is read again on the
+#: next import of the same file, even when its bytes did not change (the store keeps what read it).
+READERS = {"mbox": "mail-2", "eml": "mail-2", "maildir": "mail-2", "mailfolder": "mail-2", "ics": "ics-2"}
 
 #: Files larger than this are refused with a clear message (a contact export this
 #: big is almost certainly the wrong file). 512 MiB.
@@ -46,6 +53,10 @@ def _sniff(head: bytes) -> str | None:
         return "ics"
     if text.startswith(b"From ") and b"\n" in text:
         return "mbox"
+    from .mbox import looks_like_message
+
+    if looks_like_message(text):
+        return "eml"
     return None
 
 
@@ -58,10 +69,12 @@ def detect_kind(path: str | os.PathLike, head: bytes) -> str:
         When neither the content nor the suffix says what the file is.
     """
     kind = _sniff(head)
-    if kind:
-        return kind
     suffix = Path(path).suffix.lower()
     by_suffix = KNOWN_SUFFIXES.get(suffix)
+    if kind == "eml" and by_suffix in ("mbox", "csv"):
+        return by_suffix  # header lines alone do not overrule a .mbox (one message) or a .csv name
+    if kind:
+        return kind
     if by_suffix in ("csv", "eml", "mbox"):
         return by_suffix
     if by_suffix in ("vcard", "ics"):
@@ -77,25 +90,86 @@ def detect_kind(path: str | os.PathLike, head: bytes) -> str:
     raise UnknownFormatError(str(path), "is not a vCard, CSV, iCalendar or mailbox file (unknown format)")
 
 
+def _walk(folder: Path) -> Iterator[Path]:
+    """Inputs inside a folder: files with a known suffix, mboxes and single vCard/iCalendar files found by
+    content, and folders of message files (each Maildir, and each folder's own suffix-less messages)."""
+    from .maildir import is_maildir, message_files, sniff_message
+
+    if is_maildir(folder):
+        yield folder
+        # Maildir++ keeps subfolders as ".Name" Maildirs inside the top one.
+        for sub in sorted(folder.iterdir()):
+            if sub.name.startswith(".") and sub.is_dir() and is_maildir(sub):
+                yield sub
+        return
+    try:
+        entries = sorted(folder.iterdir())
+    except OSError as exc:
+        raise InputError(str(folder), f"cannot be read ({exc.strerror})") from exc
+    has_messages = False
+    for sub in entries:
+        if sub.name.startswith("."):
+            continue
+        if sub.is_dir():
+            yield from _walk(sub)
+        elif sub.is_file():
+            suffix = sub.suffix.lower()
+            if suffix in KNOWN_SUFFIXES and suffix != ".txt":
+                yield sub
+                continue
+            kind = sniff_message(sub)
+            if kind == "mbox":
+                yield sub
+            elif kind == "message":
+                has_messages = True
+            elif _sniff(_head(sub)) in ("vcard", "ics"):
+                yield sub
+    if has_messages and message_files(folder, _SUFFIXES):
+        yield folder
+
+
+def _head(path: Path, size: int = 4096) -> bytes:
+    try:
+        with open(path, "rb") as f:
+            return f.read(size)
+    except OSError:
+        return b""
+
+
+_SUFFIXES = frozenset(k for k in KNOWN_SUFFIXES if k != ".txt")
+
+
 def iter_input_files(paths: Iterable[str | os.PathLike]) -> Iterator[Path]:
     """Expand the paths a user gave: files as they are, directories recursively.
 
-    Inside a directory only files with a known suffix are taken, in sorted order,
-    and hidden files and folders are left out.
+    Inside a directory, files with a known suffix are taken, and so are files
+    whose content says they are an mbox, a vCard or a calendar; hidden files
+    and folders are left out. A Maildir (and each Maildir++ subfolder), and a
+    folder's own message files without a suffix, come out as the folder's
+    path: one source of many messages (see :mod:`mynet.importers.maildir`).
+    Order: each directory's entries sorted by name.
     """
     for p in paths:
         path = Path(p)
         if path.is_dir():
-            for sub in sorted(path.rglob("*")):
-                rel = sub.relative_to(path)
-                if any(part.startswith(".") for part in rel.parts):
-                    continue
-                if sub.is_file() and sub.suffix.lower() in KNOWN_SUFFIXES and sub.suffix.lower() != ".txt":
-                    yield sub
+            yield from _walk(path)
         elif path.exists():
             yield path
         else:
             raise InputError(str(path), "no such file or directory")
+
+
+def source_digest(path: Path, data: bytes | None = None) -> tuple[str, int]:
+    """The content hash and size of a source: its bytes, or for a message folder its messages' names and sizes."""
+    import hashlib
+
+    if path.is_dir():
+        from .maildir import folder_digest, message_files
+
+        return folder_digest(path, message_files(path, _SUFFIXES))
+    if data is None:
+        data = read_bytes(path)
+    return hashlib.sha256(data).hexdigest(), len(data)
 
 
 def read_bytes(path: Path) -> bytes:
@@ -132,6 +206,10 @@ def parse_file(
         CSV only: field name -> column header overrides (``--map``).
     """
     path = Path(path)
+    if path.is_dir():
+        from .maildir import parse_message_folder
+
+        return parse_message_folder(path, strict=strict, known_suffixes=_SUFFIXES)
     if data is None:
         data = read_bytes(path)
     if not data.strip():

@@ -208,6 +208,21 @@ def _is_person_attending(line: ContentLine) -> bool:
     return not (first("PARTSTAT") in _ABSENT or first("CUTYPE") in _NOT_PEOPLE or first("ROLE") == "NON-PARTICIPANT")
 
 
+def event_resources(attendees: list[ContentLine]) -> dict[str, str]:
+    """Attendees that are rooms or resources (RFC 5545 section 3.2.3, CUTYPE=ROOM / RESOURCE): address -> kind.
+
+    They are never people: mynet keeps their addresses only to know that, wherever else they show up.
+    """
+    out: dict[str, str] = {}
+    for line in attendees:
+        cutype = ((line.params.get("CUTYPE") or [""])[0] or "").strip().upper()
+        if cutype in ("ROOM", "RESOURCE"):
+            email = _address(line)
+            if email:
+                out[email] = cutype.lower()
+    return out
+
+
 def event_people(organizers: list[ContentLine], attendees: list[ContentLine]) -> tuple[str, list[str], dict[str, str]]:
     """Organizer address, sorted participant addresses and their CN names."""
     organizer = _address(organizers[0]) if organizers else ""

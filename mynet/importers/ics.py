@@ -24,7 +24,8 @@ from vobject.base import ContentLine, VObjectError, textLineToContentLine
 
 from ..errors import InputError, RecordError
 from ..model import Interaction, ParseResult, Skipped
-from ._ics_text import BEGIN_END, Block, decode_bytes, decode_param, event_people, logical_lines, scan_blocks, unescape_text
+from ._ics_text import (BEGIN_END, Block, decode_bytes, decode_param, event_people, event_resources, logical_lines,
+                        scan_blocks, unescape_text)
 
 __all__ = ["parse_ics"]
 
@@ -99,6 +100,7 @@ class _Event:
     organizer: str
     participants: list[str]
     names: dict[str, str]
+    resources: dict[str, str]
 
     def label(self) -> str:
         what = repr(self.summary) if self.summary else "event"
@@ -365,6 +367,7 @@ def _read_event(block: Block, zones: _Zones, problems: list[str]) -> _Event:
         organizer=organizer,
         participants=participants,
         names=names,
+        resources=event_resources(props.get("ATTENDEE", [])),
     )
 
 
@@ -397,6 +400,7 @@ def _interaction(ev: _Event, source: str, when: str, occurrence: str) -> Interac
         organizer=ev.organizer,
         participants=list(ev.participants),
         names=dict(ev.names),
+        not_people=dict(ev.resources),
     )
 
 

@@ -1,9 +1,11 @@
-"""Mail importer: the header fields of an mbox file or of one ``.eml`` message.
+"""Mail importer: the header fields of an mbox file or of one message file.
 
 Only the header block of each message is read (RFC 5322 section 2.2); bodies
 are skipped over byte by byte and never decoded, parsed or kept. Each message
 becomes one :class:`mynet.model.Interaction` of kind ``"message"``; no
-:class:`mynet.model.Record` is produced.
+:class:`mynet.model.Record` is produced. Folders of message files (Maildir,
+saved messages) are read by :mod:`mynet.importers.maildir` with the same
+per-message reader, :func:`read_message`.
 
 Choices made here (the rest of mynet relies on them)
 ----------------------------------------------------
@@ -20,34 +22,51 @@ Choices made here (the rest of mynet relies on them)
   zone") is read as UTC.
 * ``key`` is the Message-ID without angle brackets; without one it is
   ``"sha256:"`` and 32 hex digits of the From, Date and Subject fields, so the
-  same message imported twice gets the same key.
+  same message imported twice gets the same key. ``thread`` is the first
+  Message-ID of References, else of In-Reply-To, else the key; ``in_reply_to``
+  is the message answered (In-Reply-To, else the last of References).
 * Header bytes that are not UTF-8 (raw 8-bit headers) are read as
   Windows-1252, a superset of Latin-1 for printable text; a warning says so.
-* ``participants`` are the addresses of From, To and Cc (not Bcc, not
-  Reply-To); the recipient count for the bulk rule counts To and Cc.
+* ``participants`` are the author and the addresses of To and Cc (not Bcc,
+  not Reply-To), less the addresses that are lists, relays or robots
+  (``not_people``, see :func:`mynet.importers._mail_headers.message_roles`);
+  the author is the From address, or the original one when a list relay
+  rewrote From. ``recipients`` counts To and Cc for the bulk rule.
+* A header block of any size is read with bounded memory; a message with more
+  than :data:`MAX_KEPT` recipients keeps only the first of them (it is a
+  broadcast whatever they are).
+* ``bulk`` is set here only for mail no person wrote to the people in it:
+  Auto-Submitted other than ``no`` (RFC 3834 section 5), a robot or no-reply
+  author, or more recipients than ``max_recipients``. List and bulk-mailer
+  mail is only marked (``mass``, ``list_id``): whether anyone answered is
+  known once every mailbox is read (see :mod:`mynet.correspondence`).
 """
 
 from __future__ import annotations
 
-import codecs
 import hashlib
 import re
-from functools import lru_cache
 from datetime import timezone
-from email.errors import HeaderParseError
-from email.header import decode_header
-from email.parser import BytesHeaderParser
-from email.policy import compat32
-from email.utils import getaddresses, parsedate_to_datetime
+from email.utils import parsedate_to_datetime
 
 from ..errors import InputError, RecordError
 from ..model import Interaction, ParseResult, Skipped
+from ._mail_headers import (
+    FIELD_CAP,
+    Fields,
+    addresses,
+    decode_words,
+    first_id,
+    last_id,
+    message_roles,
+    read_fields,
+)
 
-__all__ = ["parse_mail", "decode_words", "bulk_reason", "iter_mbox_messages", "MAX_HEADER_BYTES"]
+__all__ = ["parse_mail", "decode_words", "bulk_reason", "iter_mbox_messages", "read_message", "looks_like_message",
+           "MAX_KEPT", "FIELD_CAP"]
 
-#: A header block larger than this is refused (the message is skipped): real
-#: header blocks are a few kilobytes, a larger one means a missing blank line.
-MAX_HEADER_BYTES = 1024 * 1024
+#: A message to more people than this keeps only the first of them as participants.
+MAX_KEPT = 200
 
 _BOM = b"\xef\xbb\xbf"
 _LEADING_BLANK = re.compile(rb"[\r\n]*")
@@ -57,91 +76,6 @@ _FROM_CANDIDATE = re.compile(rb"^From ", re.M)
 _HEADER_LINE = re.compile(rb"[!-9;-~]+[ \t]*:")
 _ENVELOPE = re.compile(rb"From \S+[ \t]+(?:Mon|Tue|Wed|Thu|Fri|Sat|Sun)\b")
 _BLANK_LINE = re.compile(rb"\n\r?\n")
-_LINE_BREAK = re.compile(r"\r\n|\r|\n")
-_ENCODED_WORD = re.compile(r"=\?[^?\s]+\?[qQbB]\?[^?\s]*\?=")
-_MSG_ID = re.compile(r"<\s*([^<>\s]+?)\s*>")
-_ADDRESS = re.compile(r"[^\s@<>,;:\"]+@[^\s@<>,;:\"]+")
-_PARSER = BytesHeaderParser(policy=compat32)
-
-#: Field names that only mail has; a file with none of them is not mail.
-_MAIL_FIELDS = frozenset(
-    "from to cc bcc date subject message-id received return-path sender reply-to in-reply-to "
-    "references mime-version delivered-to x-mailer list-id".split()
-)
-_BULK_PRECEDENCE = frozenset({"bulk", "list", "junk"})
-_UNKNOWN_CHARSETS = frozenset({"", "unknown-8bit", "x-unknown", "unknown"})
-
-
-# --------------------------------------------------------------------------
-# Encoded words (RFC 2047)
-# --------------------------------------------------------------------------
-
-
-def _decode_part(raw: bytes | str, charset: str | None) -> str:
-    """Decode one piece returned by :func:`email.header.decode_header`."""
-    if isinstance(raw, str):
-        return raw
-    if charset is None:
-        # decode_header turns plain text between encoded words into bytes with
-        # the raw-unicode-escape codec; this undoes it exactly.
-        return raw.decode("raw-unicode-escape", errors="replace")
-    name = charset.split("*", 1)[0].strip().lower()  # RFC 2231 adds "*language"
-    if name not in _UNKNOWN_CHARSETS:
-        try:
-            codecs.lookup(name)
-            return raw.decode(name, errors="replace")
-        except (LookupError, ValueError):  # unknown charset, or not a text codec
-            pass
-    try:
-        return raw.decode("utf-8")
-    except UnicodeDecodeError:
-        return raw.decode("cp1252", errors="replace")
-
-
-def _decode_each(text: str) -> str:
-    """Decode encoded words one at a time, keeping malformed ones as written."""
-    out: list[str] = []
-    pos, previous_ok = 0, False
-    for match in _ENCODED_WORD.finditer(text):
-        gap, word = text[pos : match.start()], match.group(0)
-        try:
-            decoded = "".join(_decode_part(raw, cs) for raw, cs in decode_header(word))
-        except (HeaderParseError, ValueError, LookupError, UnicodeError):
-            decoded = None
-        if not (previous_ok and decoded is not None and not gap.strip()):
-            out.append(gap)  # whitespace between two good words goes (RFC 2047 6.2)
-        out.append(word if decoded is None else decoded)
-        pos, previous_ok = match.end(), decoded is not None
-    out.append(text[pos:])
-    return "".join(out)
-
-
-def decode_words(text: str) -> str:
-    """Decode the RFC 2047 encoded words of a header value.
-
-    Whitespace between two adjacent encoded words is dropped (RFC 2047
-    section 6.2); text outside encoded words is kept as it is. A malformed
-    encoded word is left as written and an unknown charset falls back to UTF-8,
-    then Windows-1252, so this never raises.
-
-    Parameters
-    ----------
-    text : str
-        An unfolded header value (or a display name taken from one).
-
-    Returns
-    -------
-    str
-        The decoded text.
-    """
-    if "=?" not in text:
-        return text
-    try:
-        return "".join(_decode_part(raw, cs) for raw, cs in decode_header(text))
-    except (HeaderParseError, ValueError, LookupError, UnicodeError):
-        # One bad word spoils decode_header for the whole value: decode the
-        # words one at a time, keeping the bad ones as written.
-        return _decode_each(text)
 
 
 def _squash(text: str) -> str:
@@ -150,7 +84,7 @@ def _squash(text: str) -> str:
 
 
 # --------------------------------------------------------------------------
-# Splitting an mbox and reading one header block
+# Splitting an mbox
 # --------------------------------------------------------------------------
 
 
@@ -192,7 +126,7 @@ def iter_mbox_messages(data: bytes):
         yield pending[0], pending[1], len(data)
 
 
-def _header_end(data: bytes, start: int, end: int) -> int:
+def header_end(data: bytes, start: int, end: int) -> int:
     """Offset just past the header block starting at ``start`` (before ``end``)."""
     if data.startswith(b"\n", start) or data.startswith(b"\r\n", start):
         return start
@@ -200,77 +134,9 @@ def _header_end(data: bytes, start: int, end: int) -> int:
     return found.start() + 1 if found else end
 
 
-def _text_of(value: str) -> tuple[str, bool]:
-    """Turn a raw header value into text; say whether it was non-UTF-8 8-bit."""
-    value = _LINE_BREAK.sub("", value)  # unfold (RFC 5322 section 2.2.3)
-    if value.isascii():
-        return value, False
-    raw = value.encode("utf-8", errors="surrogateescape")
-    try:
-        return raw.decode("utf-8"), False
-    except UnicodeDecodeError:
-        return raw.decode("cp1252", errors="replace"), True
-
-
-def _read_headers(block: bytes) -> tuple[dict[str, list[str]], bool, bool]:
-    """Parse a header block into ``{lower-case name: [unfolded values]}``.
-
-    Returns the fields, whether some bytes were not UTF-8, and whether the
-    parser met a line that is not a header field (the rest of the block is then
-    lost, as in any RFC 5322 reader).
-    """
-    msg = _PARSER.parsebytes(block)
-    fields: dict[str, list[str]] = {}
-    latin = False
-    for name, value in msg.raw_items():
-        text, was_latin = _text_of(value)
-        latin = latin or was_latin
-        fields.setdefault(name.strip().lower(), []).append(text.strip())
-    return fields, latin, bool(msg.defects)
-
-
 # --------------------------------------------------------------------------
 # From header fields to an interaction
 # --------------------------------------------------------------------------
-
-
-@lru_cache(maxsize=4096)
-def _parse_field(value: str) -> tuple[tuple[tuple[str, str], ...], int]:
-    """Addresses of one field value (cached: the same To or From recurs a lot)."""
-    pairs: list[tuple[str, str]] = []
-    bad = 0
-    for name, addr in getaddresses([value]):
-        addr = addr.strip().lower()
-        if not addr:
-            continue  # group syntax such as "undisclosed-recipients:;"
-        if not _ADDRESS.fullmatch(addr):
-            bad += 1
-            continue
-        name = _squash(decode_words(name)).strip("\"' ")
-        if name.lower() == addr:
-            name = ""
-        pairs.append((name, addr))
-    return tuple(pairs), bad
-
-
-def _addresses(values: list[str]) -> tuple[list[tuple[str, str]], int]:
-    """``(display name, lower-case address)`` pairs, and how many were not addresses."""
-    pairs: list[tuple[str, str]] = []
-    bad = 0
-    for value in values:
-        found, wrong = _parse_field(value)
-        pairs.extend(found)
-        bad += wrong
-    return pairs, bad
-
-
-def _first_id(value: str) -> str:
-    """The first Message-ID in a field, without angle brackets."""
-    found = _MSG_ID.search(value)
-    if found:
-        return found.group(1)
-    tokens = value.split()
-    return tokens[0].strip("<>") if tokens else ""
 
 
 def _when(values: list[str]) -> str | None:
@@ -286,13 +152,13 @@ def _when(values: list[str]) -> str | None:
         return None
 
 
-def bulk_reason(fields: dict[str, list[str]], recipients: int, max_recipients: int = 25) -> str:
-    """Say why a message looks like bulk mail, or return ``""``.
+def bulk_reason(fields: Fields | dict[str, list[str]], recipients: int, max_recipients: int = 25) -> str:
+    """Say why a message is bulk whatever its thread, or return ``""``.
 
     Parameters
     ----------
-    fields : dict
-        Lower-case field name -> list of values, as read from the header block.
+    fields : Fields or dict
+        The message's fields (lower-case name -> list of values).
     recipients : int
         Number of distinct To and Cc addresses.
     max_recipients : int
@@ -301,18 +167,14 @@ def bulk_reason(fields: dict[str, list[str]], recipients: int, max_recipients: i
     Returns
     -------
     str
-        The first rule that matched (List-Id, List-Unsubscribe, Precedence,
-        Auto-Submitted other than ``no`` (RFC 3834 section 5), too many
-        recipients), or ``""``.
+        ``"Auto-Submitted: <value>"`` for an automatic message (RFC 3834
+        section 5: any value other than ``no``), ``"N recipients (more than
+        M)"`` for a broadcast, else ``""``. List fields and Precedence do not
+        make a message bulk by themselves: a list thread someone answered is a
+        discussion (see :mod:`mynet.correspondence`).
     """
-    if any(v.strip() for v in fields.get("list-id", [])):
-        return "List-Id header"
-    if any(v.strip() for v in fields.get("list-unsubscribe", [])):
-        return "List-Unsubscribe header"
-    for value in fields.get("precedence", []):
-        if value.strip().lower() in _BULK_PRECEDENCE:
-            return f"Precedence: {value.strip().lower()}"
-    for value in fields.get("auto-submitted", []):
+    get = fields.get
+    for value in get("auto-submitted") or []:
         word = value.split(";", 1)[0].strip().lower()
         if word and word != "no":
             return f"Auto-Submitted: {word}"
@@ -322,68 +184,86 @@ def bulk_reason(fields: dict[str, list[str]], recipients: int, max_recipients: i
 
 
 class _Notes:
-    """File-level warnings, one per kind of problem, listing the lines."""
+    """File-level warnings, one per kind of problem, listing the lines (or, in a folder, the files)."""
 
     def __init__(self) -> None:
-        self.lines: dict[str, list[int]] = {}
+        self.lines: dict[str, list[int | str]] = {}
 
-    def add(self, what: str, line: int) -> None:
-        self.lines.setdefault(what, []).append(line)
+    def add(self, what: str, where: int | str) -> None:
+        self.lines.setdefault(what, []).append(where)
 
     def render(self, path: str) -> list[str]:
         out = []
         for what, lines in self.lines.items():
             shown = ", ".join(str(n) for n in lines[:10]) + (", ..." if len(lines) > 10 else "")
             plural = "message" if len(lines) == 1 else "messages"
-            out.append(f"{path}: {len(lines)} {plural} with {what} (line {shown})")
+            unit = "line" if isinstance(lines[0], int) else "in"
+            out.append(f"{path}: {len(lines)} {plural} with {what} ({unit} {shown})")
         return out
 
 
-def _message(
-    data: bytes,
-    start: int,
-    end: int,
+def read_message(
+    block: bytes,
     *,
     path: str,
     index: int,
     line: int,
     max_recipients: int,
     notes: _Notes,
+    where: str = "",
 ) -> tuple[Interaction | None, str, bool]:
-    """Read one message: ``(interaction or None, skip reason, has mail fields)``."""
-    stop = _header_end(data, start, end)
-    if stop - start > MAX_HEADER_BYTES:
-        return None, f"header block is larger than {MAX_HEADER_BYTES // 1024} KiB (no blank line after the headers?)", False
-    if stop == start:
+    """Read one header block: ``(interaction or None, skip reason, has mail fields)``.
+
+    ``where`` names the message in notes (a file name in a folder); by default its line.
+    """
+    at: int | str = where or line
+    if not block.strip():
         return None, "message has no header fields", False
-    fields, latin, defects = _read_headers(data[start:stop])
-    is_mail = not _MAIL_FIELDS.isdisjoint(fields)
-    if latin:
-        notes.add("header bytes that are not UTF-8, read as Windows-1252", line)
-    if defects:
-        notes.add("a line in the header block that is not a header field; the fields after it are ignored", line)
-    senders, bad_from = _addresses(fields.get("from", []))
-    recipients, bad_to = _addresses(fields.get("to", []) + fields.get("cc", []))
+    fields = read_fields(block)
+    if fields.latin:
+        notes.add("header bytes that are not UTF-8, read as Windows-1252", at)
+    if fields.defect:
+        notes.add("a line in the header block that is not a header field; the fields after it are ignored", at)
+    senders, bad_from = addresses(fields.get("from"))
+    recipients, bad_to = addresses(fields.get("to") + fields.get("cc"))
     if bad_from or bad_to:
-        notes.add("an address that is not an e-mail address, left out", line)
+        notes.add("an address that is not an e-mail address, left out", at)
     if not senders and not recipients:
-        return None, "message has no From, To or Cc address", is_mail
-    when = _when(fields.get("date", []))
+        return None, "message has no From, To or Cc address", fields.is_mail
+    when = _when(fields.get("date"))
     if when is None:
         what = "no Date" if not fields.get("date") else "a Date that cannot be read"
-        notes.add(f"{what}, kept without a date", line)
+        notes.add(f"{what}, kept without a date", at)
         when = ""
-    subject = _squash(decode_words(fields.get("subject", [""])[0]))
-    key = _first_id(fields.get("message-id", [""])[0])
+    subject = _squash(decode_words((fields.get("subject") or [""])[0]))
+    key = first_id((fields.get("message-id") or [""])[0])
     if not key:
-        basis = "\x00".join(_squash(fields.get(n, [""])[0]) for n in ("from", "date", "subject"))
+        basis = "\x00".join(_squash((fields.get(n) or [""])[0]) for n in ("from", "date", "subject"))
         key = "sha256:" + hashlib.sha256(basis.encode("utf-8", errors="surrogatepass")).hexdigest()[:32]
-    thread = _first_id(" ".join(fields.get("references", []))) or _first_id(" ".join(fields.get("in-reply-to", []))) or key
-    names: dict[str, str] = {}
-    for name, addr in senders + recipients:
-        if name and addr not in names:
-            names[addr] = name
+    references = " ".join(fields.get("references"))
+    replying = " ".join(fields.get("in-reply-to"))
+    thread = first_id(references) or first_id(replying) or key
+    parent = first_id(replying) or last_id(references)
+    roles = message_roles(fields, senders, recipients)
+    recipients = [(n, roles.rewritten.get(a, a)) for n, a in recipients]
     n_recipients = len({addr for _, addr in recipients})
+    if fields.counted:  # cut fields: their addresses are counted in full, not parsed
+        in_cut = {addr for value in fields.cut for _, addr in addresses([value])[0]}
+        n_recipients += sum(fields.counted.values()) - len(in_cut)
+    if fields.counted:
+        notes.add(f"a To or Cc field over {FIELD_CAP // 1024} KiB; only its first addresses were kept", at)
+    author_name, author = roles.author
+    names: dict[str, str] = {}
+    if author and author_name and author not in roles.not_people:
+        names[author] = author_name
+    kept = [(n, a) for n, a in recipients if a not in roles.not_people][:MAX_KEPT]
+    for name, addr in senders[:1] + kept:
+        if name and addr not in names and addr not in roles.not_people:
+            names[addr] = name
+    people = {addr for _, addr in kept} | ({author} if author and author not in roles.not_people else set())
+    reason = bulk_reason(fields, n_recipients, max_recipients)
+    if not reason and author and roles.not_people.get(author) in ("machine", "bot", "feed"):
+        reason = "automated sender"
     interaction = Interaction(
         kind="message",
         source=path,
@@ -393,21 +273,32 @@ def _message(
         key=key,
         thread=thread,
         title=subject,
-        sender=senders[0][1] if senders else "",
-        participants=sorted({addr for _, addr in senders + recipients}),
+        sender=author,
+        participants=sorted(people),
         names=names,
-        bulk=bool(bulk_reason(fields, n_recipients, max_recipients)),
+        bulk=bool(reason),
+        in_reply_to=parent if parent != key else "",
+        list_id=roles.list_id,
+        mass=roles.mass,
+        recipients=n_recipients,
+        not_people=dict(sorted(roles.not_people.items())),
     )
-    return interaction, "", is_mail
+    return interaction, "", fields.is_mail
 
 
-def _looks_like_headers(data: bytes, start: int) -> bool:
-    """Whether a header block with at least one mail field starts at ``start``."""
+def _message(data: bytes, start: int, end: int, **kw) -> tuple[Interaction | None, str, bool]:
+    stop = header_end(data, start, end)
+    if stop == start:
+        return None, "message has no header fields", False
+    return read_message(data[start:stop], **kw)
+
+
+def looks_like_message(data: bytes, start: int = 0) -> bool:
+    """Whether a header block with at least one field only mail has starts at ``start``."""
     if not _HEADER_LINE.match(data, start):
         return False
-    stop = min(_header_end(data, start, len(data)), start + MAX_HEADER_BYTES)
-    fields, _, _ = _read_headers(data[start:stop])
-    return not _MAIL_FIELDS.isdisjoint(fields)
+    stop = header_end(data, start, min(len(data), start + 4 * FIELD_CAP))
+    return read_fields(data[start:stop]).is_mail
 
 
 def parse_mail(
@@ -459,14 +350,14 @@ def parse_mail(
         if data.startswith(b"From ", lead) and not _HEADER_LINE.match(data, lead):
             eol = data.find(b"\n", lead)  # an mbox envelope line in front of a message
             start = len(data) if eol < 0 else eol + 1
-        if not _looks_like_headers(data, start):
+        if not looks_like_message(data, start):
             raise InputError(path, "is not an e-mail message (it does not start with header fields such as From:, To: or Date:)")
         spans = iter([(1, start, len(data))])
     else:
         spans = iter_mbox_messages(data)
         first = next(spans, None)
         if first is None:
-            if not _looks_like_headers(data, lead):
+            if not looks_like_message(data, lead):
                 raise InputError(path, "is not a mailbox (no line starting with 'From ' opens a message, and it does not start with mail header fields)")
             result.warnings.append(f"{path}: has no 'From ' separator line; read as a single message")
             spans = iter([(1, lead, len(data))])
