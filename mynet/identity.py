@@ -71,6 +71,7 @@ class Me:
 
     emails: set[str] = field(default_factory=set)
     names: set[str] = field(default_factory=set)
+    phones: set[str] = field(default_factory=set)  # E.164, from ``mynet me --phone``
 
     def matches(self, emails: set[str], name: str) -> bool:
         if emails & self.emails:
@@ -468,7 +469,7 @@ def _build_contact(cid: int, stored: list[StoredRecord], emails, phones, members
         urls=_unique(u for s in stored for u in s.record.urls),
         notes=_unique(nt for s in stored for nt in s.record.notes),
         sources=_unique(s.source for s in stored),
-        record_ids=sorted(s.id for s in stored),
+        record_ids=sorted(s.id for s in stored if s.id > 0),  # people found in mail have no record of a file
     )
 
 
@@ -483,7 +484,9 @@ def suggest_merges(
     Scores (a documented heuristic, not a published model): same normalised
     name and same organisation 0.9; same name and same work e-mail domain 0.8;
     near-identical name (token-set similarity >= 90) and same organisation
-    0.7; shared e-mail or phone with differing names 0.5.
+    0.7; the same full name (two words or more) under different addresses,
+    unless both name an organisation and none is shared, 0.6; shared e-mail
+    or phone with differing names 0.5.
     """
     from rapidfuzz import fuzz
 
@@ -517,6 +520,13 @@ def suggest_merges(
                     add(a.id, b.id, 0.9, f"same name, both at {shown[sorted(orgs_a & orgs_b)[0]]}")
                 elif work:
                     add(a.id, b.id, 0.8, f"same name, both use {sorted(work)[0]}")
+                elif (len(name_key(a.name).split()) >= 2 and a.emails and b.emails
+                      and not (orgs_a and orgs_b)):
+                    # The same full name under different addresses: often one person's work and private
+                    # mail, or an address only mail or the calendar knew; sometimes namesakes: the user
+                    # decides. Two organisations that differ say namesakes more often than not: left out.
+                    add(a.id, b.id, 0.6, f"same full name ({a.name}) under different addresses: "
+                                         f"{a.emails[0]} / {b.emails[0]}")
     from rapidfuzz import process
 
     for org, group in by_org.items():

@@ -17,6 +17,8 @@ import numpy as np
 from .model import Contact, Interaction
 from .normalise import email_domain, fold_text, is_webmail, normalise_email, normalise_name, normalise_org
 from .store import Store
+from .correspondence import thread_members
+from .mailpeople import evidence_interactions, me_emails, not_employer_domains
 from .ties import KINDS, TieModel, TieTable, disparity_filter, infer_ties
 from .warmth import Warmth, WarmthModel, compute_warmth
 
@@ -120,10 +122,8 @@ def _related_pairs(store: Store, contacts: list[Contact]) -> list[tuple[int, int
 
 
 def _me_emails(store: Store) -> set[str]:
-    """Your declared addresses, plus those your meetings and mail show under your full name."""
-    raw = store.setting("me", {}) or {}
-    declared = {normalise_email(e) for e in raw.get("emails", []) if normalise_email(e)}
-    return declared | set(json.loads(store.meta("me_seen_as", "[]") or "[]"))
+    """Your declared addresses, plus those your meetings and mail show as yours."""
+    return me_emails(store)
 
 
 def load_warmth(
@@ -145,7 +145,7 @@ def load_warmth(
     if ratings is None:
         ratings = tie_decisions(store)[3]
     if interactions is None:
-        interactions = store.interactions()
+        interactions = evidence_interactions(store)
     wmodel = WarmthModel.from_settings(store.setting("warmth_model", {}))
     warmth = compute_warmth(contacts, interactions, _me_emails(store), ratings, wmodel, today)
     store.put_cache(wkey, {str(k): v.to_dict() for k, v in warmth.items()})
@@ -165,11 +165,11 @@ def load_network(store: Store, *, today: date | None = None) -> Network:
     if cached is not None:
         all_ties = TieTable.from_json(cached)
     else:
-        interactions = store.interactions()
+        interactions = evidence_interactions(store)
         all_ties = infer_ties(
             contacts, interactions, me, model,
             related=_related_pairs(store, contacts), manual=manual, suppressed=suppressed,
-            extra_webmail=frozenset(store.setting("webmail_domains", []) or []),
+            extra_webmail=not_employer_domains(store),
         )
         store.put_cache(TIES_CACHE, all_ties.to_json())
     warmth = load_warmth(store, contacts, today=today, interactions=interactions, ratings=ratings)
@@ -255,6 +255,8 @@ class _EvidenceIndex:
     records: dict[int, list[tuple[str, Any]]]
     interactions: list[Interaction]
     by_email: dict[str, list[int]]
+    threads_of: dict[str, set[str]]  # address -> the threads it is a member of
+    members: dict[str, set[str]]  # thread -> its members (as the tie step counts them)
 
 
 def _evidence_index(store: Store, net: Network) -> _EvidenceIndex:
@@ -267,12 +269,17 @@ def _evidence_index(store: Store, net: Network) -> _EvidenceIndex:
         cid = cmap.get(key)
         if cid is not None:
             records[cid].append((f"{src['path'].rsplit('/', 1)[-1]}:{rec.line}", rec))
-    interactions = store.interactions()
+    interactions = evidence_interactions(store, store.interactions())
     by_email: dict[str, list[int]] = defaultdict(list)
     for k, it in enumerate(interactions):
         for p in it.participants:
             by_email[normalise_email(p) or p].append(k)
-    ix = _EvidenceIndex(dict(records), interactions, dict(by_email))
+    threads_of: dict[str, set[str]] = defaultdict(set)
+    members = thread_members(interactions)
+    for thread, people in members.items():
+        for p in people:
+            threads_of[p].add(thread)
+    ix = _EvidenceIndex(dict(records), interactions, dict(by_email), dict(threads_of), members)
     net._evidence_ix = ix  # type: ignore[attr-defined]
     return ix
 
@@ -303,12 +310,13 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
     shared = {k for e in ea for k in ix.by_email.get(e, ())} & {k for e in eb for k in ix.by_email.get(e, ())}
     for k in sorted(shared):
         it = ix.interactions[k]
-        if it.bulk:
-            continue
-        if it.kind == "meeting":
-            if len(it.participants) <= net.model.broadcast_cap:
-                meetings.append(it)
-        else:
+        if not it.bulk and it.kind == "meeting" and len(it.participants) <= net.model.broadcast_cap:
+            meetings.append(it)
+    # Threads both are members of (a list thread: both wrote in it), as the tie step counts them.
+    both = {t for e in ea for t in ix.threads_of.get(e, ())} & {t for e in eb for t in ix.threads_of.get(e, ())}
+    both = {t for t in both if len(ix.members.get(t, ())) <= net.model.broadcast_cap}
+    for it in ix.interactions:
+        if it.kind == "message" and not it.bulk and (it.thread or it.key) in both:
             threads[it.thread or it.key].append(it)
     if meetings:
         meetings.sort(key=lambda m: m.when)

@@ -24,7 +24,7 @@ from .model import Record
 from .normalise import normalise_name
 from .store import Store
 
-__all__ = ["forget_contact", "remove_source", "compact", "forgotten_filter", "ForgetReport"]
+__all__ = ["forget_contact", "remove_source", "compact", "forgotten_filter", "forgotten_address", "ForgetReport"]
 
 
 def _salt(store: Store) -> str:
@@ -62,6 +62,31 @@ def forgotten_filter(store: Store):
         return any(_digest(salt, k, v) in hashes for k, v in check)
 
     return is_forgotten
+
+
+def forgotten_address(store: Store):
+    """A predicate telling whether an e-mail address belongs to a forgotten person."""
+    hashes = set(json.loads(store.meta("forgotten", "[]") or "[]"))
+    if not hashes:
+        return lambda addr: False
+    salt = _salt(store)
+    return lambda addr: _digest(salt, "email", addr) in hashes
+
+
+def scrub_forgotten(store: Store, interactions) -> int:
+    """Take forgotten people's addresses out of newly read meetings and messages (in place); how many changed."""
+    is_forgotten = forgotten_address(store)
+    changed = 0
+    for it in interactions:
+        gone = {a for a in [*it.participants, it.sender, it.organizer, *(it.names or {})] if a and is_forgotten(a)}
+        if not gone:
+            continue
+        it.participants = [a for a in it.participants if a not in gone]
+        it.names = {a: n for a, n in (it.names or {}).items() if a not in gone}
+        it.sender = "" if it.sender in gone else it.sender
+        it.organizer = "" if it.organizer in gone else it.organizer
+        changed += 1
+    return changed
 
 
 class ForgetReport(dict):
@@ -136,6 +161,8 @@ def forget_contact(store: Store, contact_id: int) -> ForgetReport:
     hashes = set(json.loads(store.meta("forgotten", "[]") or "[]"))
     for _rid, _k, src, rec in rows:
         hashes.update(_digest(salt, kind, value) for kind, value in _identifiers(rec, src["region"] or ""))
+    # Every address of the person, also those only mail or calendars gave (a person found there has no record).
+    hashes.update(_digest(salt, "email", e) for e in emails)
     with store.transaction():
         for rid, _k, _s, _r in rows:
             store.conn.execute("DELETE FROM records WHERE id = ?", (rid,))

@@ -51,6 +51,7 @@ import numpy as np
 import pandas as pd
 import scipy.sparse as sp
 
+from .correspondence import thread_members
 from .model import Contact, Interaction
 from .normalise import GENERIC_TAGS, email_domain, fold_text, is_real_org, is_webmail, normalise_org
 
@@ -203,7 +204,8 @@ def infer_ties(
     ----------
     contacts : sequence of Contact
     interactions : iterable of Interaction
-        Meetings and messages; bulk mail is ignored.
+        Meetings and messages as evidence sees them
+        (:func:`mynet.correspondence.clean`); bulk mail is ignored.
     me_emails : set of str
         The user's own addresses (they count towards an event's size, but the
         user is not a node of the tie graph).
@@ -233,16 +235,11 @@ def infer_ties(
     mats: dict[str, sp.coo_matrix] = {}
     counts: dict[str, sp.coo_matrix] = {}
 
-    # Meetings and threads: Newman weights 1/(n-1), broadcast events dropped.
-    meeting_parts: list[list[str]] = []
-    threads: dict[str, set[str]] = defaultdict(set)
-    for it in interactions:
-        if it.bulk:
-            continue
-        if it.kind == "meeting":
-            meeting_parts.append(it.participants)  # importers give sorted, unique, normalised addresses
-        elif it.kind == "message":
-            threads[it.thread or it.key].update(it.participants)
+    # Meetings and threads: Newman weights 1/(n-1), broadcast events dropped. A thread's members are
+    # everyone in its messages; a list message counts only its author (see mynet.correspondence.clean).
+    interactions = list(interactions)
+    meeting_parts = [it.participants for it in interactions if it.kind == "meeting" and not it.bulk]
+    threads = thread_members(interactions)
     emails_index = pd.Index(list(by_email)) if by_email else None
     email_pos = np.fromiter(by_email.values(), dtype=np.int64, count=len(by_email))
     thread_parts = [sorted(threads[k] - {""}) for k in sorted(threads)]

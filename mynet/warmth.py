@@ -5,7 +5,11 @@ The model
 Every interaction between you and a contact adds ``w * 2^(-age / half_life)``
 to a decayed count ``D``, where ``w = 1 / (n - 1)`` for an event with ``n``
 participants (a one-to-one counts 1, a ten-person meeting 1/9; the same
-down-weighting as Newman 2001) and ``age`` is in days. Then
+down-weighting as Newman 2001) and ``age`` is in days. Mail counts what you
+did: your message in a thread counts with everyone who wrote in it
+(``1 / (w - 1)`` for ``w`` writers, so a list thread counts among the people
+who wrote, not the subscribers), your reply to someone's message counts
+``reply_boost`` times as much, their answer to you on a list counts too. Then
 
     warmth = 1 - (1 - (1 - exp(-D / scale)) * r) * m
 
@@ -44,11 +48,12 @@ class WarmthModel:
     scale: float = 3.0
     dormant_days: float = 365.0
     unlisted_threshold: int = 3  # people outside the address book are shown from this many interactions
+    reply_boost: float = 2.0  # your reply to someone's message counts this many times a message (judgement call)
 
     @classmethod
     def from_settings(cls, raw: Mapping | None) -> "WarmthModel":
         raw = raw or {}
-        out = cls(**{k: float(raw[k]) for k in ("half_life_days", "scale", "dormant_days") if k in raw})
+        out = cls(**{k: float(raw[k]) for k in ("half_life_days", "scale", "dormant_days", "reply_boost") if k in raw})
         if "unlisted_threshold" in raw:
             out.unlisted_threshold = int(raw["unlisted_threshold"])
         return out
@@ -106,35 +111,36 @@ def compute_warmth(
     out = {c.id: Warmth(c.id) for c in contacts}
     decayed: dict[int, float] = defaultdict(float)
     lam = math.log(2) / max(model.half_life_days, 1e-9)
+    interactions = list(interactions)
+    author_of, writers = _mail_threads(interactions)
     for it in interactions:
         if it.bulk:
-            continue
-        people = {normalise_email(p) for p in it.participants} - {""}
-        if not people & me_emails:
             continue
         when = parse_when(it.when)
         if when is None or when.date() > now.date():
             continue
-        others = {by_email[p] for p in people - me_emails if p in by_email}
-        if not others:
+        if it.kind == "meeting":
+            people = {normalise_email(p) for p in it.participants} - {""}
+            if not people & me_emails:
+                continue
+            weight = 1.0 / max(1, len(people) - 1)
+            credits = [(by_email[p], weight, "") for p in sorted(people - me_emails) if p in by_email]
+        else:
+            credits = _message_credits(it, me_emails, by_email, author_of, writers, model.reply_boost)
+        if not credits:
             continue
-        n = len(people)
-        weight = 1.0 / max(1, n - 1)
         age = float((now.date() - when.date()).days)  # whole days: today's events are fresh
         day = when.date().isoformat()
-        sender = normalise_email(it.sender) if it.sender else ""
-        for cid in others:
+        ch = "meeting" if it.kind == "meeting" else "mail"
+        for cid, weight, direction in credits:
             w = out[cid]
             decayed[cid] += weight * math.exp(-lam * age)
-            if it.kind == "meeting":
+            if ch == "meeting":
                 w.meetings += 1
-                ch = "meeting"
-            else:
-                ch = "mail"
-                if sender in me_emails:
-                    w.messages_to += 1
-                elif sender and by_email.get(sender) == cid:
-                    w.messages_from += 1
+            elif direction == "to":
+                w.messages_to += 1
+            elif direction == "from":
+                w.messages_from += 1
             if ch not in w.channels:
                 w.channels.append(ch)
             w.last = max(w.last or day, day)
@@ -157,6 +163,64 @@ def compute_warmth(
             w.warmth = w.rated
     assign_tiers(out.values())
     return out
+
+
+def _mail_threads(interactions: list[Interaction]) -> tuple[dict[str, str], dict[str, set[str]]]:
+    """Author of each message (by Message-ID) and the people who wrote in each thread (bulk left out)."""
+    author_of: dict[str, str] = {}
+    writers: dict[str, set[str]] = defaultdict(set)
+    for it in interactions:
+        if it.kind == "message" and not it.bulk and it.sender:
+            sender = normalise_email(it.sender)
+            if it.key:
+                author_of[it.key] = sender
+            writers[it.thread or it.key].add(sender)
+    return author_of, writers
+
+
+def _message_credits(
+    it: Interaction,
+    me_emails: set[str],
+    by_email: Mapping[str, int],
+    author_of: Mapping[str, str],
+    writers: Mapping[str, set[str]],
+    reply_boost: float,
+) -> list[tuple[int, float, str]]:
+    """What one message adds to your warmth with each contact: ``(contact id, weight, "to"/"from"/"")``.
+
+    * Mail you are in (From, To or Cc) counts ``1 / (n - 1)`` with everyone
+      else in it, as a meeting does.
+    * Your message in a thread counts also with the others who wrote in that
+      thread but were not addressed (a list thread), ``1 / (w - 1)`` for ``w``
+      people who wrote in it.
+    * Your reply to someone's message (In-Reply-To) counts ``reply_boost``
+      times as much with them; their answer to your message on a list counts
+      ``1 / (w - 1)`` with them.
+    """
+    people = {normalise_email(p) for p in it.participants} - {""}
+    sender = normalise_email(it.sender) if it.sender else ""
+    ws = writers.get(it.thread or it.key, set())
+    out: dict[int, tuple[float, str]] = {}
+    if sender in me_emails:
+        n = len(people)
+        for p in sorted(people - me_emails):
+            if p in by_email:
+                out[by_email[p]] = (1.0 / max(1, n - 1), "to")
+        for p in sorted(ws - me_emails - people):
+            if p in by_email:
+                out.setdefault(by_email[p], (1.0 / max(1, len(ws) - 1), "to"))
+        parent = author_of.get(it.in_reply_to, "") if it.in_reply_to else ""
+        if parent and parent not in me_emails and by_email.get(parent) in out:
+            cid = by_email[parent]
+            out[cid] = (out[cid][0] * reply_boost, "to")
+    elif people & me_emails:
+        n = len(people)
+        for p in sorted(people - me_emails):
+            if p in by_email:
+                out.setdefault(by_email[p], (1.0 / max(1, n - 1), "from" if p == sender else ""))
+    elif sender in by_email and it.in_reply_to and author_of.get(it.in_reply_to) in me_emails:
+        out[by_email[sender]] = (1.0 / max(1, len(ws) - 1), "from")
+    return [(cid, weight, direction) for cid, (weight, direction) in out.items()]
 
 
 def assign_tiers(warmths: Iterable[Warmth]) -> None:

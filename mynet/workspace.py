@@ -15,9 +15,12 @@ from pathlib import Path
 from typing import Callable
 
 from .errors import AmbiguousError, InputError, MynetError, NotFoundError
+from .correspondence import address_facts, clean, correspondents
 from .identity import Decisions, Me, Resolution, StoredRecord, Suggestion, record_keys, resolve, suggest_merges
-from .importers import iter_input_files, parse_file, read_bytes
+from .importers import iter_input_files, parse_file, read_bytes, source_digest
 from .locations import resolve_workspace_path
+from .mailpeople import (address_origins, attach_by_name, evidence_interactions, found_records, infer_region, mail_facts,
+                         not_employer_domains, your_other_addresses)
 from .model import Contact, Skipped
 from .normalise import fold_text, normalise_email, normalise_name
 from .store import Store
@@ -36,8 +39,11 @@ __all__ = [
     "reject_suggestion",
     "merge_suggestions",
     "contact_records",
-    "link_addresses_by_name",
     "your_other_addresses",
+    "evidence_interactions",
+    "not_employer_domains",
+    "mail_facts",
+    "detach_address",
 ]
 
 Progress = Callable[[str], None]
@@ -72,6 +78,11 @@ class ImportReport:
     you_records: int = 0
     not_people: int = 0
     suggestions: int = 0
+    found: int = 0  # contacts found in mail and calendars (people you corresponded with)
+    region: str = ""  # the country assumed for phone numbers without one
+    region_why: str = ""
+    national_numbers: int = 0  # numbers without a country code (read with ``region``)
+    who_are_you: str = ""  # mail was imported but you have not said who you are: a likely address of yours
 
     @property
     def skipped(self) -> list[Skipped]:
@@ -108,6 +119,8 @@ class ImportReport:
             "you_records": self.you_records,
             "not_people": self.not_people,
             "suggested_merges": self.suggestions,
+            "found_in_mail_or_calendar": self.found,
+            "phone_region": {"region": self.region, "why": self.region_why, "numbers_without_country_code": self.national_numbers},
             "skipped": [
                 {"file": s.source, "line": s.line, "index": s.index, "reason": s.reason} for s in self.skipped
             ],
@@ -145,34 +158,42 @@ def import_paths(
     region: str | None = None,
     as_of: str | None = None,
     skip_bad_files: bool = False,
+    new_contacts: bool = True,
     progress: Progress | None = None,
 ) -> ImportReport:
-    """Read files into the workspace in one transaction.
+    """Read files (and folders of mail) into the workspace in one transaction.
 
-    Unchanged files (same path and content hash) are left alone; a changed file
-    replaces that source's records and keeps every user decision. When a file
-    cannot be read or recognised, nothing is stored and the error names it,
-    unless ``skip_bad_files`` is set, in which case it is reported as refused.
+    Unchanged files (same path and content hash, read by the same reader) are
+    left alone; a changed file replaces that source's records and keeps every
+    user decision. When a file cannot be read or recognised, nothing is stored
+    and the error names it, unless ``skip_bad_files`` is set, in which case it
+    is reported as refused. With ``new_contacts`` false, the people you
+    corresponded with in these files do not become contacts.
 
     Raises
     ------
     InputError
         A file is unreadable, of unknown format, or (``strict``) has a bad record.
     """
+    from .importers import READERS
+
     report = ImportReport(contacts_before=len(store.contacts()))
     parsed = []
     files = list(iter_input_files(paths))
     if not files:
-        raise InputError(", ".join(str(p) for p in paths), "holds no contact files (.vcf, .csv, .ics, .mbox, .eml)")
+        raise InputError(", ".join(str(p) for p in paths),
+                         "holds no contact files (.vcf, .csv, .ics, .mbox, .eml, Maildir or saved mail messages)")
     for path in files:
         if progress:
             progress(f"reading {path}")
         key_path = str(path.resolve())
         try:
-            data = read_bytes(path)
-            digest = hashlib.sha256(data).hexdigest()
+            data = None if path.is_dir() else read_bytes(path)
+            digest, size = source_digest(path, data)
             old = store.source_by_path(key_path)
-            if old is not None and old["sha256"] == digest and not mapping:
+            if (old is not None and old["sha256"] == digest and not mapping
+                    and old.get("reader", "") == READERS.get(old["kind"], "")
+                    and bool(old.get("new_contacts", 1)) == new_contacts):
                 report.files.append(FileReport(str(path), old["kind"], "unchanged", records=0))
                 continue
             result = parse_file(path, strict=strict, mapping=mapping, data=data)
@@ -187,38 +208,77 @@ def import_paths(
             list(result.skipped), list(result.warnings),
         )
         report.files.append(fr)
-        parsed.append((key_path, path, data, digest, result))
+        parsed.append((key_path, path, size, digest, result))
 
-    from .privacy import forgotten_filter
+    from .privacy import forgotten_filter, scrub_forgotten
 
     is_forgotten = forgotten_filter(store)
+    assumed = (json.loads(store.meta("region_assumed", "{}") or "{}") or {}).get("region", "")
     with store.transaction():
-        for (key_path, path, data, digest, result), fr in zip(parsed, [f for f in report.files if f.status in ("imported", "updated")]):
-            kept = [r for r in result.records if not is_forgotten(r, (region or "").upper())]
+        for (key_path, path, size, digest, result), fr in zip(parsed, [f for f in report.files if f.status in ("imported", "updated")]):
+            kept = [r for r in result.records if not is_forgotten(r, (region or assumed or "").upper())]
             if len(kept) != len(result.records):
                 fr.warnings.append(f"{len(result.records) - len(kept)} record(s) of people you asked mynet to forget were left out")
                 fr.records = len(kept)
                 result.records = kept
+            if scrub_forgotten(store, result.interactions):
+                fr.warnings.append("people you asked mynet to forget were left out of its meetings and messages")
             keys = record_keys(result.records, key_path)
             store.replace_source(
                 key_path,
                 result.kind,
                 digest,
-                len(data),
+                size,
                 list(zip(keys, result.records)),
                 result.interactions,
                 as_of=_as_of(path, result.records, as_of),
                 region=(region or "").upper() or None,
                 n_skipped=len(result.skipped),
+                reader=READERS.get(result.kind, ""),
+                new_contacts=new_contacts,
             )
         res = refresh_contacts(store)
     report.contacts_after = len(res.contacts)
     report.records_total = sum(len(c.record_ids) for c in res.contacts) + len(res.me_keys) + len(res.not_people)
     report.not_people = len(res.not_people)
-    report.merged_records = sum(len(c.record_ids) - 1 for c in res.contacts)
+    report.merged_records = sum(max(0, len(c.record_ids) - 1) for c in res.contacts)
     report.you_records = len(res.me_keys)
+    report.found = sum(1 for c in res.contacts if c.found_in)
     report.suggestions = len(merge_suggestions(store))
+    _region_report(store, report, region)
+    if parsed and any(f.kind in MAIL_KINDS for f in report.files) and not get_me(store).emails:
+        report.who_are_you = _likely_owner(store)
     return report
+
+
+#: Source kinds that hold mail.
+MAIL_KINDS = frozenset({"mbox", "eml", "maildir", "mailfolder"})
+
+
+def _region_report(store: Store, report: "ImportReport", explicit: str | None) -> None:
+    """Count the numbers written without a country code and say which country mynet assumed for them."""
+    if explicit:
+        report.region, report.region_why = explicit.upper(), "--region"
+    else:
+        assumed = json.loads(store.meta("region_assumed", "{}") or "{}") or {}
+        report.region, report.region_why = assumed.get("region", ""), assumed.get("why", "")
+    national = 0
+    for _rid, _key, src, rec in store.records():
+        if src["region"]:
+            continue
+        national += sum(1 for p in rec.phones if p.strip() and not p.strip().startswith(("+", "00")))
+    report.national_numbers = national
+
+
+def _likely_owner(store: Store) -> str:
+    """The address most direct mail was written to or from: probably the mailbox owner's."""
+    from collections import Counter
+
+    counts: Counter[str] = Counter()
+    for it in store.interactions():
+        if it.kind == "message" and not it.mass and not it.bulk:
+            counts.update(set(it.participants))
+    return counts.most_common(1)[0][0] if counts else ""
 
 
 def _decisions(store: Store) -> Decisions:
@@ -235,102 +295,160 @@ def get_me(store: Store) -> Me:
     return Me(
         {normalise_email(e) for e in raw.get("emails", []) if normalise_email(e)},
         {normalise_name(n) for n in raw.get("names", []) if normalise_name(n)},
+        set(raw.get("phones", [])),
     )
 
 
+def _detached(store: Store) -> list[tuple[str, str]]:
+    """Your "not this person's address" decisions: (anchor record key, address)."""
+    return [(row["a"], (row["value"] or {}).get("address", "")) for row in store.decisions("detach")]
+
+
+def _record_names(stored: list[StoredRecord]) -> dict[str, list[str]]:
+    names: dict[str, list[str]] = {}
+    for s in stored:
+        for e in s.record.emails:
+            addr = normalise_email(e)
+            if addr:
+                names.setdefault(addr, []).append(s.record.display_name())
+    return names
+
+
 def refresh_contacts(store: Store) -> Resolution:
-    """Re-run identity resolution over every record and store the contacts."""
+    """Re-run identity resolution over every record (and the people found in mail) and store the contacts."""
     stored = [
         StoredRecord(rid, key, src["path"], src["as_of"] or "", src["region"] or "", rec)
         for rid, key, src, rec in store.records()
     ]
     with store.transaction():
+        pairs = store.interactions(with_source=True)
+        interactions = [it for _sid, it in pairs]
+        me = get_me(store)
+        names = _record_names(stored)
+        facts = address_facts(interactions, names, me.emails, store.setting("mail_relay_domains", []) or [])
+        me_all = Me(me.emails | {a for a, c in facts.aliases.items() if c in me.emails}, set(me.names), set(me.phones))
+        cleaned = clean(interactions, facts, me_all.emails)
+        seen_as = your_other_addresses(set(names), cleaned, me_all)
+        me_all.emails |= set(seen_as)
+        open_sources = {row["id"] for row in store.sources() if row.get("new_contacts", 1)}
+        allowed = [it for (sid, _), it in zip(pairs, cleaned) if sid in open_sources]
+        from .privacy import forgotten_address
+
+        forgotten = forgotten_address(store)
+        found = {a: f for a, f in correspondents(allowed, me_all.emails).items()
+                 if a not in names and a not in me_all.emails and not forgotten(a)}
+        region, why = infer_region(store.setting("region", "") or "", me.phones,
+                                   (p for s in stored for p in s.record.phones))
+        found_recs = found_records(found)
         res = resolve(
-            stored,
+            stored + found_recs,
             store.contact_map(),
             _decisions(store),
-            get_me(store),
+            me_all,
             int(store.meta("next_contact_id", "1") or 1),
-            default_region=store.setting("region", "") or "",
+            default_region=region,
             org_aliases=store.setting("org_aliases", {}) or {},
         )
-        interactions = store.interactions()
-        me = get_me(store)
-        seen_as = your_other_addresses(res.contacts, interactions, me)
-        store.set_meta("me_seen_as", json.dumps(seen_as))
-        me.emails |= set(seen_as)
-        link_addresses_by_name(res.contacts, interactions, me)
+        detached: set[tuple[int, str]] = set()
+        for key, addr in _detached(store):
+            cid = res.mapping.get(key)
+            if cid is not None and addr:
+                detached.add((cid, addr))
+        apart = set()
+        for a, b in _decisions(store).different:
+            ca, cb = res.mapping.get(a), res.mapping.get(b)
+            if ca and cb and ca != cb:
+                apart.add(frozenset((ca, cb)))
+        contacts, linked = attach_by_name(res.contacts, res.mapping, cleaned, me_all, facts,
+                                          detached=detached, apart=apart)
+        contacts = _apply_detach(contacts, res.mapping, detached)
+        address_origins(contacts, stored + found_recs, res.mapping, linked, facts)
+        res.contacts = contacts
+        store.set_meta("me_seen_as", json.dumps(sorted(me_all.emails - me.emails)))
+        store.set_meta("mail_facts", facts.to_json())
+        store.set_meta("region_assumed", json.dumps({"region": region, "why": why}))
         store.write_contacts(res.contacts, res.mapping, res.next_id)
         store.set_meta("held_back", json.dumps([s.__dict__ for s in res.held_back]))
         store.set_meta("me_keys", json.dumps(res.me_keys))
     return res
 
 
-def your_other_addresses(contacts: list[Contact], interactions, me: Me) -> list[str]:
-    """Addresses your meetings and mail show under your own declared name (two words or more).
+def _apply_detach(contacts: list[Contact], mapping: dict[str, int], detached: set[tuple[int, str]]) -> list[Contact]:
+    """Take each detached address off its contact; a person found only through that address goes too."""
+    by_id = {c.id: c for c in contacts}
+    gone = set()
+    for cid, addr in detached:
+        c = by_id.get(cid)
+        if c is None or addr not in c.emails:
+            continue
+        c.emails = [e for e in c.emails if e != addr]
+        if not c.record_ids and not c.emails:
+            gone.add(cid)
+    if gone:
+        for k in [k for k, v in mapping.items() if v in gone]:
+            del mapping[k]
+    return [c for c in contacts if c.id not in gone]
 
-    You are declared by your addresses and your name; an address no contact
-    holds, written with your full name, is yours too (an old work address, say).
+
+def set_me(store: Store, emails: list[str], names: list[str], *, replace: bool = False,
+           phones: list[str] = ()) -> Me:  # type: ignore[assignment]
+    """Declare the user's own addresses, names and phone numbers; their cards become "you".
+
+    Phone numbers must carry their country code (``+44 ...``): your own number
+    tells which country to assume for numbers written without one.
     """
-    from .normalise import name_key
+    from .normalise import normalise_phone
 
-    mine = {name_key(n) for n in me.names if len(n.split()) >= 2}
-    if not mine:
-        return []
-    known = {e for c in contacts for e in c.emails} | me.emails
-    found = set()
-    for it in interactions:
-        for addr, display in (it.names or {}).items():
-            if addr not in known and display and name_key(display) in mine:
-                found.add(addr)
-    return sorted(found)
-
-
-def link_addresses_by_name(contacts: list[Contact], interactions, me: Me) -> int:
-    """Give contacts the addresses their calendar and mail use, when the name there is unmistakably theirs.
-
-    An address that no card or row holds, used in meetings or mail under a
-    display name of two words or more that matches exactly one contact (names
-    compared folded and order-free), is that contact's too: address books
-    often keep a private address while the calendar uses the work one. A name
-    shared by several contacts links nothing. Returns how many addresses were linked.
-    """
-    from .normalise import name_key
-
-    known = {e for c in contacts for e in c.emails} | me.emails
-    by_name: dict[str, list[Contact]] = {}
-    for c in contacts:
-        for nm in {c.name, *c.nicknames}:
-            k = name_key(nm)
-            if k and len(k.split()) >= 2:
-                by_name.setdefault(k, [])
-                if c not in by_name[k]:
-                    by_name[k].append(c)
-    linked: dict[str, Contact] = {}
-    for it in interactions:
-        for addr, display in (it.names or {}).items():
-            if addr in known or addr in linked or not display:
-                continue
-            hits = by_name.get(name_key(display), [])
-            if len(hits) == 1:
-                linked[addr] = hits[0]
-    for addr, c in sorted(linked.items()):
-        c.emails.append(addr)
-    return len(linked)
-
-
-def set_me(store: Store, emails: list[str], names: list[str], *, replace: bool = False) -> Me:
-    """Declare the user's own addresses and names; their cards become "you"."""
     bad = [e for e in emails if not normalise_email(e)]
     if bad:
         raise MynetError(f"not an e-mail address: {bad[0]!r}")
+    numbers = []
+    for p in phones:
+        e164 = normalise_phone(p.strip()) if p.strip().startswith(("+", "00")) else ""
+        if not e164:
+            raise MynetError(f"give your phone number with its country code, e.g. +44 7700 900123 (got {p!r})")
+        numbers.append(e164)
     raw = {} if replace else (store.setting("me", {}) or {})
     all_emails = sorted({*raw.get("emails", []), *(normalise_email(e) for e in emails)})
     all_names = sorted({*raw.get("names", []), *(n.strip() for n in names if n.strip())})
+    all_phones = sorted({*raw.get("phones", []), *numbers})
     with store.transaction():
-        store.set_setting("me", {"emails": all_emails, "names": all_names})
+        store.set_setting("me", {"emails": all_emails, "names": all_names, "phones": all_phones})
         refresh_contacts(store)
     return get_me(store)
+
+
+def detach_address(store: Store, contact_id: int, address: str, *, undo: bool = False) -> Contact | None:
+    """Say that an address is not this person's (kept across re-imports), or take that back with ``undo``.
+
+    Returns the contact afterwards (None when the person existed only through that address).
+    """
+    from .network import anchor_key
+
+    addr = normalise_email(address)
+    if not addr:
+        raise MynetError(f"not an e-mail address: {address!r}")
+    contact = store.contact(contact_id)
+    if contact is None:
+        raise NotFoundError(f"no contact with id {contact_id}")
+    keys = _keys_of(store, contact_id)
+    with store.transaction():
+        if undo:
+            rows = [row["id"] for row in store.decisions("detach")
+                    if row["a"] in keys and (row["value"] or {}).get("address") == addr]
+            if not rows:
+                raise NotFoundError(f"{addr} was not detached from {contact.name} ({contact_id})")
+            for rid in rows:
+                store.conn.execute("DELETE FROM decisions WHERE id = ?", (rid,))
+            store.bump_data_version()
+        else:
+            if addr not in contact.emails:
+                raise NotFoundError(f"{contact.name} ({contact_id}) has no address {addr} (see: mynet show {contact_id})")
+            store.add_decision("detach", anchor_key(store, contact_id), "", {"address": addr})
+        refresh_contacts(store)
+    cmap = store.contact_map()
+    new_id = next((cmap[k] for k in keys if k in cmap), None)
+    return store.contact(new_id) if new_id is not None else None
 
 
 def search_contacts(contacts: list[Contact], text: str) -> list[Contact]:
@@ -470,7 +588,7 @@ def merge_suggestions(store: Store) -> list[Suggestion]:
         if a and b:
             rejected.add((min(a, b), max(a, b)))
     held = [Suggestion(**s) for s in json.loads(store.meta("held_back", "[]") or "[]")]
-    extra = frozenset(store.setting("webmail_domains", []) or [])
+    extra = not_employer_domains(store)
     return suggest_merges(store.contacts(), rejected, extra, held)
 
 

@@ -10,7 +10,8 @@ from .store import Store
 from .ties import TieModel
 from .warmth import WarmthModel
 
-__all__ = ["add_tie", "remove_tie", "rate_contact", "update_settings", "update_list_setting", "SETTING_GROUPS", "LIST_SETTINGS"]
+__all__ = ["add_tie", "remove_tie", "rate_contact", "update_settings", "update_list_setting", "SETTING_GROUPS", "LIST_SETTINGS",
+           "DOMAIN_LISTS"]
 
 def _analysis_model():
     from .analysis.snapshot import AnalysisModel
@@ -62,12 +63,15 @@ def rate_contact(store: Store, cid: int, value: float | None) -> None:
 
 LIST_SETTINGS = {
     "webmail_domains": "mail domains that say nothing about an employer, besides the built-in list",
+    "mail_relay_domains": "domains of list relays, archives and bounce services: never an employer, never a person",
     "org_aliases": "organisation aliases, ALIAS=NAME pairs",
 }
+#: The list settings whose value is a list of domains (the others map names).
+DOMAIN_LISTS = ("webmail_domains", "mail_relay_domains")
 
 
 def update_list_setting(store: Store, name: str, value: str) -> Any:
-    """Set ``webmail_domains`` (comma-separated) or ``org_aliases`` (``A=B`` pairs, comma-separated).
+    """Set ``webmail_domains`` or ``mail_relay_domains`` (comma-separated) or ``org_aliases`` (``A=B`` pairs).
 
     A leading ``+`` adds to the current value instead of replacing it.
     """
@@ -75,7 +79,7 @@ def update_list_setting(store: Store, name: str, value: str) -> Any:
 
     add = value.startswith("+")
     items = [v.strip() for v in value.lstrip("+").split(",") if v.strip()]
-    if name == "webmail_domains":
+    if name in DOMAIN_LISTS:
         current = list(store.setting(name, []) or []) if add else []
         new: Any = sorted({*current, *(i.lower().lstrip("@") for i in items)})
     elif name == "org_aliases":

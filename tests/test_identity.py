@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import pytest
+
 from mynet.identity import Decisions, Me, StoredRecord, names_compatible, record_keys, resolve, suggest_merges
 from mynet.model import Record
 
@@ -131,16 +133,90 @@ def test_organisation_and_group_cards_are_not_contacts():
 
 
 def test_calendar_addresses_link_to_the_one_contact_with_that_name():
+    from mynet.correspondence import MailFacts
     from mynet.identity import Me
+    from mynet.mailpeople import attach_by_name
     from mynet.model import Contact, Interaction
-    from mynet.workspace import link_addresses_by_name
 
-    ana = Contact(id=1, name="Ana Lind", emails=["ana@home.example"])
-    bo1 = Contact(id=2, name="Bo Ek", emails=["bo@a.example"])
-    bo2 = Contact(id=3, name="Bo Ek", emails=["bo@b.example"])
+    ana = Contact(id=1, name="Ana Lind", emails=["ana@home.example"], record_ids=[1])
+    bo1 = Contact(id=2, name="Bo Ek", emails=["bo@a.example"], record_ids=[2])
+    bo2 = Contact(id=3, name="Bo Ek", emails=["bo@b.example"], record_ids=[3])
     it = Interaction(kind="meeting", source="c.ics", index=0, line=1, when="2026-01-01",
                      participants=["ana.lind@work.example", "bo@c.example", "you@example.org"],
                      names={"ana.lind@work.example": "Lind, Ana", "bo@c.example": "Bo Ek", "you@example.org": "Me"})
-    assert link_addresses_by_name([ana, bo1, bo2], [it], Me(emails={"you@example.org"})) == 1
+    contacts, where = attach_by_name([ana, bo1, bo2], {}, [it], Me(emails={"you@example.org"}), MailFacts())
+    assert len(contacts) == 3 and list(where) == ["ana.lind@work.example"] and "c.ics:1" in where["ana.lind@work.example"]
     assert ana.emails == ["ana@home.example", "ana.lind@work.example"]
     assert bo1.emails == ["bo@a.example"] and bo2.emails == ["bo@b.example"]  # ambiguous name: not linked
+
+
+def test_role_and_list_addresses_are_never_linked_by_name():
+    from mynet.correspondence import MailFacts
+    from mynet.identity import Me
+    from mynet.mailpeople import attach_by_name
+    from mynet.model import Contact, Interaction
+
+    ana = Contact(id=1, name="Ana Lind", emails=["ana@home.example"], record_ids=[1])
+    it = Interaction(kind="message", source="m.mbox", index=0, line=1, when="2026-01-01", sender="trivial@proj.example",
+                     participants=["trivial@proj.example"], names={"trivial@proj.example": "Ana Lind"})
+    facts = MailFacts(kinds={"trivial@proj.example": "shared"})
+    _, where = attach_by_name([ana], {}, [it], Me(), facts)
+    assert not where and ana.emails == ["ana@home.example"]
+    # A detached address is not linked back either.
+    _, where = attach_by_name([ana], {}, [it], Me(), MailFacts(), detached={(1, "trivial@proj.example")})
+    assert not where
+
+
+def test_a_card_whose_fn_is_an_address_takes_its_name_from_n():
+    from mynet.model import Record
+
+    r = Record(kind="vcard", source="p.vcf", index=0, line=1, full_name="ana.lind@quillon.example",
+               given="Ana", family="Lind", emails=["ana.lind@quillon.example"])
+    assert r.display_name() == "Ana Lind"
+    # Without N parts the address stays the only name it has; a real FN always wins.
+    assert Record(kind="vcard", source="p.vcf", index=0, line=1, full_name="ana@q.example").display_name() == "ana@q.example"
+    assert Record(kind="vcard", source="p.vcf", index=0, line=1, full_name="Ana L.", given="Ana",
+                  family="Lind").display_name() == "Ana L."
+
+
+def test_the_same_full_name_under_different_addresses_is_suggested():
+    rs = stored([rec(0, "Ana Lind", ["ana@home.example"]), rec(1, "Ana Lind", ["ana.lind@quillon.example"],
+                                                               orgs=["Quillon Labs"]),
+                 rec(2, "Bo", ["bo@a.example"]), rec(3, "Bo", ["bo@b.example"])])
+    res = resolve(rs, {}, Decisions(), Me())
+    (s,) = suggest_merges(res.contacts)  # one-word names say too little
+    assert s.score == 0.6 and "same full name (Ana Lind) under different addresses" in s.reason
+
+
+@pytest.mark.parametrize("setting, mine, phones, env, expected", [
+    ("DE", ["+447700900123"], [], "en_US.UTF-8", ("DE", "your setting")),
+    ("", ["+447700900123"], ["+15555550100"], "en_US.UTF-8", ("GB", "your own number +447700900123")),
+    ("", [], ["+15555550100", "+447700900123", "+447700900124", "07700 900125"], "fr_FR.UTF-8",
+     ("GB", "2 of the 3 numbers with a country code in your imports")),
+    ("", [], ["07700 900125"], "fr_FR.UTF-8", ("FR", "your system's language setting")),
+    ("", [], [], "C", ("", "nothing says which country")),
+])
+def test_phone_region_is_inferred_in_order(monkeypatch, setting, mine, phones, env, expected):
+    from mynet.mailpeople import infer_region
+
+    for var in ("LC_ALL", "LC_CTYPE"):
+        monkeypatch.delenv(var, raising=False)
+    monkeypatch.setenv("LANG", env)
+    # E.164 country codes (ITU-T E.164): +44 is the United Kingdom, +1 North America.
+    assert infer_region(setting, mine, phones) == expected
+
+
+def test_import_says_which_region_it_assumed(tmp_path, capsys):
+    from mynet.cli import main
+
+    csv = tmp_path / "people.csv"
+    csv.write_text("Name,Phone\nAna Lind,07700 900123\nBo Ek,+44 7700 900124\n", encoding="utf-8")
+    ws = str(tmp_path / "w.sqlite")
+    assert main(["--workspace", ws, "import", str(csv)]) == 0
+    out = capsys.readouterr().out
+    assert ("Phone numbers without a country code (1) were read as GB numbers (from 1 of the 1 numbers with a "
+            "country code in your imports)") in out
+    assert main(["--workspace", ws, "me", "--phone", "+1 555 555 0100"]) == 0
+    assert "read as US numbers (from your own number +15555550100)" in capsys.readouterr().out
+    assert main(["--workspace", ws, "me", "--phone", "07700 900999"]) == 1
+    assert "country code" in capsys.readouterr().err

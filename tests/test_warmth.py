@@ -75,3 +75,38 @@ def test_unlisted_people_need_to_recur():
     evs = [meet(k, ["stranger@else.example"], "2026-10-01") for k in range(3)] + [meet(9, ["once@else.example"], "2026-10-01")]
     out = unlisted_people([c(1)], evs, ME, threshold=3)
     assert [e["email"] for e in out] == ["stranger@else.example"] and out[0]["count"] == 3
+
+
+def _msg(k, sender, to, when, *, thread, reply=""):
+    return Interaction(kind="message", source="m.mbox", index=k, line=1, when=when, key=f"y{k}", thread=thread,
+                       sender=sender, participants=sorted({sender, *to}), in_reply_to=reply)
+
+
+def test_your_message_in_a_list_thread_counts_with_those_who_wrote_in_it():
+    # A list thread as evidence sees it: each message keeps only its author (mynet.correspondence.clean).
+    when = "2026-11-30T10:00:00+00:00"
+    items = [_msg(0, "p1@x.example", [], when, thread="t"), _msg(1, "p2@x.example", [], when, thread="t"),
+             _msg(2, "you@example.org", [], when, thread="t"), _msg(3, "p3@x.example", [], when, thread="other")]
+    model = WarmthModel(scale=1)
+    w = compute_warmth([c(1), c(2), c(3)], items, ME, model=model, today=TODAY)
+    # Three people wrote in the thread: your message counts 1/(3-1) with each of the other two; neither
+    # answered you, so reciprocity is 0.6 (the module's model).
+    assert w[1].computed == pytest.approx(0.6 * (1 - math.exp(-0.5)), rel=1e-5) and w[1].messages_to == 1
+    assert w[2].computed == w[1].computed
+    assert w[3].computed == 0  # a thread you did not write in says nothing about you
+
+
+def test_a_reply_counts_more_than_a_message_and_their_answer_to_you_counts():
+    when = "2026-11-30T10:00:00+00:00"
+    model = WarmthModel(scale=1, reply_boost=2.0)
+    replied = [_msg(0, "p1@x.example", [], when, thread="t"), _msg(1, "p2@x.example", [], when, thread="t"),
+               _msg(2, "you@example.org", [], when, thread="t", reply="y0")]
+    w = compute_warmth([c(1), c(2)], replied, ME, model=model, today=TODAY)
+    assert w[1].computed == pytest.approx(0.6 * (1 - math.exp(-1.0)), rel=1e-5)  # 2 x 1/(3-1): you answered p1
+    assert w[2].computed == pytest.approx(0.6 * (1 - math.exp(-0.5)), rel=1e-5)
+    answered = [_msg(0, "you@example.org", [], when, thread="t"), _msg(1, "p1@x.example", [], when, thread="t",
+                                                                       reply="y0")]
+    w = compute_warmth([c(1)], answered, ME, model=model, today=TODAY)
+    assert w[1].messages_from == 1 and w[1].messages_to == 1
+    # Mail both ways, one message each: reciprocity 1; two credits of 1/(2-1).
+    assert w[1].computed == pytest.approx(1 - math.exp(-2.0), rel=1e-5)

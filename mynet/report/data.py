@@ -124,7 +124,9 @@ def _timeline(store: Store, net: Network) -> list[dict[str, Any]]:
     meetings: Counter = Counter()
     messages: Counter = Counter()
     people: dict[str, set[int]] = defaultdict(set)
-    for it in store.interactions():
+    from ..mailpeople import evidence_interactions
+
+    for it in evidence_interactions(store):
         m = _MONTH.match(it.when or "")
         if not m or it.bulk:
             continue
