@@ -87,6 +87,8 @@ def print_import_report(report, as_json: bool) -> None:
             click.echo(f"{f.path}: refused: {f.error}")
             continue
         what = plural(f.records, "record") if f.kind in ("vcard", "csv") else plural(f.interactions, "event" if f.kind == "ics" else "message")
+        if f.kind in ("maildir", "mailfolder"):
+            what += " in a Maildir" if f.kind == "maildir" else " in a folder of saved messages"
         click.echo(f"{f.path}: {f.status}, {what} ({f.kind}){', ' + str(len(f.skipped)) + ' skipped' if f.skipped else ''}")
         for w in f.warnings:
             note(f"  note: {w}")
@@ -101,36 +103,69 @@ def print_import_report(report, as_json: bool) -> None:
         extra += f"; {report.you_records} record{'s are' if report.you_records != 1 else ' is'} you"
     if report.not_people:
         extra += f"; {report.not_people} {'are organisation or group cards' if report.not_people != 1 else 'is an organisation or group card'}"
+    if report.found:
+        extra += (f"; {report.found} {'people' if report.found != 1 else 'person'} you corresponded with "
+                  "found in mail and calendars")
     click.echo(
         f"{report.records_total} records in the workspace -> {report.contacts_after} contacts: "
         f"{report.merged_records} duplicate records merged{extra}. "
         f"{report.suggestions} possible duplicates to review (mynet contacts --suggested)"
     )
+    if report.national_numbers:
+        if report.region:
+            click.echo(f"Phone numbers without a country code ({report.national_numbers}) were read as {report.region} "
+                       f"numbers ({region_words(report.region_why)}); another country: mynet import --region XX, "
+                       "or mynet me --phone +CC...")
+        else:
+            click.echo(f"Phone numbers without a country code ({report.national_numbers}) could not be read: nothing says "
+                       "which country they are in (mynet me --phone +CC... or mynet import --region XX)")
+    if report.who_are_you:
+        click.echo("mynet does not know who you are yet, so it cannot tell whom you corresponded with: "
+                   f"mynet me --email ADDRESS (most of this mail is to or from {report.who_are_you})")
+
+
+def region_words(why: str) -> str:
+    """Why a country was assumed, in words that finish "read as GB numbers (...)"."""
+    if why == "--region":
+        return "as you said with --region"
+    if why == "your setting":
+        return "your region setting"
+    return f"from {why}"
 
 
 def register(cli: click.Group) -> None:
     @cli.command("me")
     @click.option("--email", "emails", multiple=True, help="One of your own addresses (repeat for several).")
     @click.option("--name", "names", multiple=True, help="Your name as your contacts write it (repeatable).")
-    @click.option("--replace", is_flag=True, help="Forget the addresses and names given before.")
+    @click.option("--phone", "phones", multiple=True, metavar="+CC NUMBER",
+                  help="Your own phone number, with its country code: numbers without one are read in that country.")
+    @click.option("--replace", is_flag=True, help="Forget the addresses, names and numbers given before.")
     @json_option
     @click.pass_obj
-    def me_cmd(obj, emails, names, replace, as_json):
+    def me_cmd(obj, emails, names, phones, replace, as_json):
         """Declare who you are; your own cards become you, never a contact."""
         store = obj.store()
-        if emails or names or replace:
-            set_me(store, list(emails), list(names), replace=replace)
+        if emails or names or phones or replace:
+            set_me(store, list(emails), list(names), replace=replace, phones=list(phones))
         raw = store.setting("me", {}) or {}
+        seen = json.loads(store.meta("me_seen_as", "[]") or "[]")
+        region = json.loads(store.meta("region_assumed", "{}") or "{}") or {}
         if as_json:
-            emit_json({"emails": raw.get("emails", []), "names": raw.get("names", [])})
+            emit_json({"emails": raw.get("emails", []), "names": raw.get("names", []), "phones": raw.get("phones", []),
+                       "also_you": seen, "phone_region": region})
             return
         if not raw:
             click.echo("You have not said who you are yet: mynet me --email you@example.org --name \"Your Name\"")
             return
         click.echo(f"You: {', '.join(raw.get('names', [])) or '(no name)'} <{', '.join(raw.get('emails', []))}>")
-        seen = json.loads(store.meta("me_seen_as", "[]") or "[]")
+        if raw.get("phones"):
+            click.echo(f"Your phone: {', '.join(raw['phones'])}")
         if seen:
-            click.echo(f"Also you (your name on these addresses in meetings and mail): {', '.join(seen)}")
+            click.echo(f"Also you (your name on these addresses in meetings and mail, or archive copies of yours): "
+                       f"{', '.join(seen)}")
+        if region.get("region"):
+            click.echo(f"Numbers without a country code are read as {region['region']} numbers "
+                       f"({region_words(region.get('why', ''))})")
 
     @cli.command("import")
     @click.argument("paths", nargs=-1, required=True, type=click.Path())
@@ -140,13 +175,19 @@ def register(cli: click.Group) -> None:
     @click.option("--region", metavar="CC", help="Country for phone numbers written without one (e.g. GB, US).")
     @click.option("--as-of", "as_of", metavar="YYYY-MM-DD", help="When these files were current (older ones give past employers).")
     @click.option("--skip-bad-files", is_flag=True, help="Import the readable files even if others are refused.")
+    @click.option("--no-new-contacts", "no_new_contacts", is_flag=True,
+                  help="People you corresponded with in these mailboxes and calendars do not become contacts.")
     @json_option
     @click.pass_obj
-    def import_cmd(obj, paths, strict, maps, mapping_file, region, as_of, skip_bad_files, as_json):
-        """Read contact exports (vCard, CSV; calendars and mailboxes) into the workspace.
+    def import_cmd(obj, paths, strict, maps, mapping_file, region, as_of, skip_bad_files, no_new_contacts, as_json):
+        """Read contact exports (vCard, CSV; calendars and mail) into the workspace.
 
-        Directories are read recursively. Re-importing a file replaces its
-        records and keeps your decisions. Nothing is stored if a file is refused.
+        Directories are read recursively: a Maildir, and a folder of saved
+        messages without a suffix, are read as one mailbox each. People you
+        corresponded with (mail both ways, a thread you both wrote in, two or
+        more small meetings) become contacts; mailing lists, relays, robots and
+        shared addresses never do. Re-importing a file replaces its records and
+        keeps your decisions. Nothing is stored if a file is refused.
         """
         mapping = {}
         if mapping_file:
@@ -169,6 +210,7 @@ def register(cli: click.Group) -> None:
                 region=region,
                 as_of=as_of,
                 skip_bad_files=skip_bad_files,
+                new_contacts=not no_new_contacts,
                 progress=None if as_json else note,
             )
         except InputError as exc:
@@ -221,14 +263,11 @@ def register(cli: click.Group) -> None:
         """List the people in your network, with your warmth to each."""
         store = obj.store()
         if unlisted:
-            from ..network import _me_emails
-            from ..warmth import unlisted_people
-
-
-            from ..warmth import WarmthModel
+            from ..mailpeople import evidence_interactions, me_emails
+            from ..warmth import WarmthModel, unlisted_people
 
             threshold = WarmthModel.from_settings(store.setting("warmth_model", {})).unlisted_threshold
-            people = unlisted_people(store.contacts(), store.interactions(), _me_emails(store), threshold)
+            people = unlisted_people(store.contacts(), evidence_interactions(store), me_emails(store), threshold)
             total = len(people)
             if limit:
                 people = people[:limit]
@@ -298,6 +337,7 @@ def register(cli: click.Group) -> None:
         if as_json:
             emit_json(contact_json(c, {
                 "nicknames": c.nicknames, "urls": c.urls, "notes": c.notes,
+                "found_in": c.found_in, "address_from": c.address_from,
                 "records": [{"id": rid, "file": path, "line": r.line, "index": r.index, "kind": r.kind,
                              "name": r.display_name(), "emails": r.emails, "phones": r.phones, "orgs": r.orgs,
                              "titles": r.titles, "tags": r.tags} for rid, path, r in recs],
@@ -320,6 +360,13 @@ def register(cli: click.Group) -> None:
                 click.echo(f"  {label:<14}{value}")
         for n in c.notes:
             click.echo(f"  {'note':<14}{clip(n, 200)}")
+        if c.found_in:
+            click.echo(f"\nFound in your {' and '.join(c.found_in)}: in no address book, but you corresponded.")
+        if c.address_from:
+            click.echo("\nWhere each address came from:")
+            for addr, why in c.address_from.items():
+                click.echo(f"  {addr}: {why}")
+            click.echo(f"Not this person's? mynet drop-address {c.id} ADDRESS")
         click.echo(f"\nRecords behind this person ({len(recs)}):")
         for rid, path, r in recs:
             bits = [r.display_name()] + r.emails[:2] + r.phones[:1] + r.orgs[:1]
@@ -361,6 +408,34 @@ def register(cli: click.Group) -> None:
             emit_json([contact_json(p) for p in parts])
             return
         click.echo("Now separate: " + "; ".join(f"{p.id} {p.name}" for p in parts))
+
+    @cli.command("drop-address")
+    @click.argument("who")
+    @click.argument("address")
+    @click.option("--undo", is_flag=True, help="Take back an earlier drop-address of this address.")
+    @json_option
+    @click.pass_obj
+    def drop_address_cmd(obj, who, address, undo, as_json):
+        """Say that an e-mail address is not this person's (kept across re-imports).
+
+        The address stops counting as theirs: no meetings or mail through it,
+        never linked to them again by name. --undo takes it back.
+        """
+        from ..workspace import detach_address
+
+        store = obj.store()
+        c = find_contact(store, who)
+        after = detach_address(store, c.id, address, undo=undo)
+        if as_json:
+            emit_json(contact_json(after) if after else {"id": c.id, "removed": True})
+            return
+        if after is None:
+            click.echo(f"{c.name} ({c.id}) was known only through {address}; they are no longer a contact.")
+        elif undo:
+            click.echo(f"{address} counts as {after.name}'s again (id {after.id}).")
+        else:
+            click.echo(f"{address} is no longer {after.name}'s (id {after.id}); kept across re-imports "
+                       f"(mynet drop-address {after.id} {address} --undo takes it back).")
 
     @cli.command("forget")
     @click.argument("who")

@@ -16,6 +16,7 @@ from ..reach import reach, resolve_targets
 from ..workspace import import_paths, merge_suggestions, open_workspace, set_me
 from ..workspace_ties import update_list_setting
 from ._common import note, table
+from .contacts import region_words
 
 
 def sample_dir() -> Path:
@@ -60,15 +61,19 @@ def register(cli: click.Group) -> None:
 
             heading("2. Import the exports")
             files = [src / f for f in SOURCE_FILES if (src / f).exists()]
-            report = import_paths(store, files, region="GB")
+            report = import_paths(store, files)
             for f in report.files:
                 what = f"{f.records} records" if f.kind in ("vcard", "csv") else f"{f.interactions} {'events' if f.kind == 'ics' else 'messages'}"
                 skipped = f", {len(f.skipped)} skipped" if f.skipped else ""
                 click.echo(f"   {Path(f.path).name:<18} {what:>14} ({f.kind}){skipped}")
+            found = f", {report.found} found in mail and calendars (people you corresponded with)" if report.found else ""
             click.echo(
                 f"   {report.records_total} records -> {report.contacts_after} contacts: "
-                f"{report.merged_records} duplicate records merged, {report.you_records} were you"
+                f"{report.merged_records} duplicate records merged, {report.you_records} were you{found}"
             )
+            if report.national_numbers and report.region:
+                click.echo(f"   Phone numbers without a country code ({report.national_numbers}) were read as "
+                           f"{report.region} numbers ({region_words(report.region_why)})")
             contacts = store.contacts()
             names = {c.id: c.name for c in contacts}
             multi = sorted(contacts, key=lambda c: (-len(c.sources), c.id))[:4]

@@ -7,7 +7,8 @@ import click
 from ..errors import MynetError
 from ..network import describe, evidence_summary, explain_tie, load_network
 from ..workspace import find_contact
-from ..workspace_ties import LIST_SETTINGS, SETTING_GROUPS, add_tie, rate_contact, remove_tie, update_list_setting, update_settings
+from ..workspace_ties import (DOMAIN_LISTS, LIST_SETTINGS, SETTING_GROUPS, add_tie, rate_contact, remove_tie,
+                             update_list_setting, update_settings)
 from ._common import emit_json, json_option, note, table
 
 
@@ -133,7 +134,8 @@ def register(cli: click.Group) -> None:
     @json_option
     @click.pass_obj
     def settings_cmd(obj, assignment, as_json):
-        """Show or change settings: tie_model.broadcast_cap=40, webmail_domains=+mail.example, org_aliases=+QL=Quillon Labs."""
+        """Show or change settings: tie_model.broadcast_cap=40, webmail_domains=+mail.example,
+        mail_relay_domains=+lists.example, org_aliases=+QL=Quillon Labs."""
         store = obj.store()
         if assignment:
             if "=" not in assignment:
@@ -155,7 +157,8 @@ def register(cli: click.Group) -> None:
         for group, cls in SETTING_GROUPS.items():
             data[group] = cls().__dict__ | (store.setting(group, {}) or {})
         for name in LIST_SETTINGS:
-            data[name] = store.setting(name, [] if name == "webmail_domains" else {}) or ([] if name == "webmail_domains" else {})
+            empty = [] if name in DOMAIN_LISTS else {}
+            data[name] = store.setting(name, empty) or empty
         if as_json:
             emit_json(data)
             return
