@@ -56,6 +56,9 @@ class Message:
     references: list[str] = field(default_factory=list)
     list_id: str = ""
     body: str = "(message body not included in this sample)"
+    shown_from: tuple[str, str] | None = None  # the From a list relay wrote instead of the author's (``sender``)
+    headers: list[str] = field(default_factory=list)  # further header lines (list fields), as written
+    thread: str = ""  # the Message-ID that opened the thread
 
 
 class Activity:
@@ -71,6 +74,10 @@ class Activity:
         self.pairs: dict[tuple[str, str], list[str]] = {}
         self.strangers: dict[str, dict] = {}  # address -> {"name", "count"}
         self._ids = 0
+        # Every small meeting occurrence and message: (kind, label, addresses of the people in it), so that the
+        # ground truth can say who else knows the strangers you corresponded with.
+        self.groups: list[tuple[str, str, list[str]]] = []
+        self.meetings_attended: list[list[str]] = []  # addresses at each meeting occurrence (rooms left out)
 
     # -- shared helpers ---------------------------------------------------------------------------------
     def people(self, *, cluster: str = "", team: str = "") -> list[Person]:
@@ -109,6 +116,7 @@ class Activity:
             if kind != "broadcast_meetings":
                 s["last"] = max(s["last"], day.isoformat())
         if kind != "broadcast_meetings" and len(pids) <= SMALL:
+            self.groups.append((kind, label, [a.lower() for a in addresses]))
             for i, a in enumerate(pids):
                 for b in pids[i + 1:]:
                     reasons = self.pairs.setdefault(tuple(sorted((a, b))), [])
@@ -139,6 +147,8 @@ class Activity:
             kind = "broadcast_meetings" if len(ev.attendees) > BROADCAST else "meetings"
             for day in ev.occurrences:
                 self._tally(going, day, label, kind)
+                self.meetings_attended.append([a["address"].lower() for a in ev.attendees
+                                               if a["partstat"] != "DECLINED" and a.get("cutype") != "ROOM"])
         self.events.append(ev)
         return ev
 
@@ -321,7 +331,8 @@ class Activity:
             domain = sender[0].split("@")[1]
             msgid = f"<{rng.getrandbits(48):012x}.{len(self.messages):04d}@{domain}>"
             self.messages.append(Message(sender, to, copied, when, subject if i == 0 else f"Re: {subject}", msgid,
-                                         in_reply_to=refs[-1] if refs else "", references=list(refs)))
+                                         in_reply_to=refs[-1] if refs else "", references=list(refs),
+                                         thread=refs[0] if refs else msgid))
             self._tally([sender[0]] + [a for a, _ in to + copied], when.date(), label, "messages")
             refs.append(msgid)
             sender = rng.choice([v for v in voices if v != sender])
@@ -521,8 +532,9 @@ def mbox_text(messages: list[Message]) -> str:
     for m in messages:
         offset = london_offset(m.when)
         utc = m.when - offset
-        out.append(f"From {m.sender[0]} {utc:%a %b} {utc.day:2d} {utc:%H:%M:%S %Y}")
-        out.append("From: " + _addr(m.sender))
+        shown = m.shown_from or m.sender
+        out.append(f"From {shown[0]} {utc:%a %b} {utc.day:2d} {utc:%H:%M:%S %Y}")
+        out.append("From: " + _addr(shown))
         out.append(_fold_header("To", [_addr(a) for a in m.to]))
         if m.cc:
             out.append(_fold_header("Cc", [_addr(a) for a in m.cc]))
@@ -533,6 +545,7 @@ def mbox_text(messages: list[Message]) -> str:
             out.append("In-Reply-To: " + m.in_reply_to)
             out.append(_fold_header("References", m.references, sep=" "))
         if m.list_id:
-            out += ["List-Id: " + m.list_id, "Precedence: bulk"]
+            out.append("List-Id: " + m.list_id)
+        out += m.headers or (["Precedence: bulk"] if m.list_id else [])
         out += ["MIME-Version: 1.0", "Content-Type: text/plain; charset=UTF-8", "", m.body, ""]
     return "\n".join(out) + "\n"

@@ -20,6 +20,7 @@ import sys
 from pathlib import Path
 
 from _activity import Activity, ics_text, mbox_text
+from _listmail import build_list_mail
 from _formats import fold, vcard21, vcard30, vcard40
 from _names import PERSONAL_DOMAINS, name_key
 from _scenario import World, build_world
@@ -84,6 +85,8 @@ def render(out: Path) -> dict:
     act = Activity(w)
     act.build_calendar()
     act.build_mail()
+    lists = build_list_mail(act)
+    act.messages.sort(key=lambda m: (m.when, m.msgid))
     blobs = {
         "phone.vcf": "".join(vcard30(r.data) for r in recs["phone.vcf"]).encode("utf-8"),
         "phone-recent.vcf": "".join(vcard40(r.data) for r in recs["phone-recent.vcf"]).encode("utf-8"),
@@ -93,7 +96,7 @@ def render(out: Path) -> dict:
         "calendar.ics": ics_text(act.events, w.by_id["you"].name, fold).encode("utf-8"),
         "mail.mbox": mbox_text(act.messages).encode("ascii"),
     }
-    truth = ground_truth(w, recs, act)
+    truth = ground_truth(w, recs, act, lists)
     blobs["ground_truth.json"] = dump_json(truth).encode("utf-8")
     out.mkdir(parents=True, exist_ok=True)
     for name, data in blobs.items():
@@ -129,7 +132,7 @@ def _components(records: list[tuple[str, int, Rec]]) -> list[list[int]]:
     return list(groups.values())
 
 
-def ground_truth(w: World, recs: dict[str, list[Rec]], act: Activity) -> dict:
+def ground_truth(w: World, recs: dict[str, list[Rec]], act: Activity, lists: dict) -> dict:
     you = w.by_id["you"]
     records, by_person, owners = [], {}, {}
     for fname, items in recs.items():
@@ -162,7 +165,8 @@ def ground_truth(w: World, recs: dict[str, list[Rec]], act: Activity) -> dict:
         if p.pid != "you":
             names.setdefault(name_key(p.given, p.family), []).append(p.pid)
     near = [{"name": w.by_id[pids[0]].name, "people": pids} for pids in names.values() if len(pids) > 1]
-    ties = _ties(w, act)
+    found = _found(w, act, lists)
+    ties = _ties(w, act, found)
     people = []
     for p in w.people:
         if p.pid == "you":
@@ -209,11 +213,67 @@ def ground_truth(w: World, recs: dict[str, list[Rec]], act: Activity) -> dict:
         "shared_identifiers": [{"value": k, "people": v} for k, v in owners.items() if len(v) > 1],
         "non_contacts": [{"email": a, "name": s["name"], "occurrences": s["count"]}
                          for a, s in sorted(act.strangers.items())],
+        "found_people": found,
+        "not_people": dict(sorted((NOT_PEOPLE | lists["not_people"]).items())),
+        "list_mail": {k: lists[k] for k in ("list", "list_id", "aliases", "threads")},
         "ties": ties,
     }
 
 
-def _ties(w: World, act: Activity) -> list[dict]:
+#: Addresses in the calendar and the mailbox that stand for no person: a room, desks, lists.
+NOT_PEOPLE = {"room-orchard@quillon.example": "room", "programme@tidewaterforum.example": "role",
+              "bookings@talentmoor.example": "role", "news@kestrelreach.example": "list",
+              "members@kestrelreach.example": "list", "all-staff@quillon.example": "list"}
+SMALL_MEETING = 10  # people at a meeting, you included, for it to say you know each one
+
+
+def _found(w: World, act: Activity, lists: dict) -> list[dict]:
+    """The people in no address book whom you corresponded with: mail both ways, a thread in which both of
+    you wrote, or two or more small meetings together. Lists, desks and robots are not people."""
+    you = {e.lower() for e in w.by_id["you"].emails()}
+    not_people = set(NOT_PEOPLE) | set(lists["not_people"])
+    to_them, to_you, meetings = set(), set(), {}
+    writers: dict[str, set[str]] = {}
+    for m in act.messages:
+        sender = m.sender[0].lower()
+        if sender in not_people:
+            continue
+        writers.setdefault(m.thread, set()).add(sender)
+        if m.list_id:
+            continue  # list mail: only writing in one thread counts, not who was copied
+        people = {a.lower() for a, _ in m.to + m.cc}
+        if sender in you:
+            to_them |= people
+        elif people & you:
+            to_you.add(sender)
+    both = {a for ws in writers.values() if ws & you and len(ws) >= 2 for a in ws}
+    for going in act.meetings_attended:
+        people = set(going) - not_people
+        if people & you and len(people) <= SMALL_MEETING:
+            for a in people:
+                meetings[a] = meetings.get(a, 0) + 1
+    labels: dict[str, dict[str, int]] = {}
+    for _kind, label, addresses in act.groups:
+        for a in addresses:
+            top = "conference" if label.startswith("list/") else label.split("/")[0]
+            if top in CLUSTERS:
+                labels.setdefault(a, {}).setdefault(top, 0)
+                labels[a][top] += 1
+    out = []
+    for a, s in sorted(act.strangers.items()):
+        if a in not_people:
+            continue
+        mail = a in to_them & to_you or a in both
+        calendar = meetings.get(a, 0) >= 2
+        if mail or calendar:
+            counts = labels.get(a, {})
+            out.append({"id": f"found:{a}", "name": s["name"], "email": a,
+                        "found_in": [k for k, on in (("mail", mail), ("calendar", calendar)) if on],
+                        "clusters": [max(counts, key=lambda c: (counts[c], c))] if counts else []})
+    return out
+
+
+def _ties(w: World, act: Activity, found: list[dict]) -> list[dict]:
     """Pairs who know each other: same team, same close cluster, or met or wrote in a small group."""
     reasons: dict[tuple[str, str], list[str]] = {}
 
@@ -238,6 +298,14 @@ def _ties(w: World, act: Activity) -> list[dict]:
     for (a, b), whys in act.pairs.items():
         for why in whys:
             add(a, b, why)
+    # The people found in mail and calendars know those they met or wrote with in a small group.
+    ids = {f["email"]: f["id"] for f in found}
+    for kind, label, addresses in act.groups:
+        for f in [a for a in addresses if a in ids]:
+            for other in addresses:
+                pid = act.owner.get(other) or ids.get(other)
+                if pid and pid != ids[f]:
+                    add(ids[f], pid, f"{kind[:-1]}:{label}")
     return [{"a": a, "b": b, "reasons": whys} for (a, b), whys in sorted(reasons.items())]
 
 

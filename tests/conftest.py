@@ -44,5 +44,5 @@ def import_sample(ws_path: Path):
     set_me(store, truth["you"]["emails"], [truth["you"]["name"]])
     personal = [d for d in truth.get("personal_email_domains", []) if d != "example.org"]
     update_list_setting(store, "webmail_domains", ",".join(personal))
-    import_paths(store, [src / f for f in SOURCE_FILES], region="GB")
+    import_paths(store, [src / f for f in SOURCE_FILES])  # the region (GB) is inferred, as in the demo
     return store, truth
