@@ -236,12 +236,20 @@ class Interaction:
     not_people: dict[str, str] = field(default_factory=dict)
 
     def to_dict(self) -> dict[str, Any]:
-        return asdict(self)
+        # Faster than dataclasses.asdict (no deep copy): values are str, bool, int, lists and dicts of str.
+        d = {name: getattr(self, name) for name in _INTERACTION_FIELDS}
+        d["participants"] = list(self.participants)
+        d["names"] = dict(self.names)
+        d["not_people"] = dict(self.not_people)
+        return d
 
     @classmethod
     def from_dict(cls, data: dict[str, Any]) -> "Interaction":
         known = {f.name for f in fields(cls)}
         return cls(**{k: v for k, v in data.items() if k in known})
+
+
+_INTERACTION_FIELDS = tuple(f.name for f in fields(Interaction))
 
 
 @dataclass

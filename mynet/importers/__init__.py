@@ -117,6 +117,8 @@ def _walk(folder: Path) -> Iterator[Path]:
             if suffix in KNOWN_SUFFIXES and suffix != ".txt":
                 yield sub
                 continue
+            if has_messages:
+                continue  # the folder's message files are listed (and recognised) once, below
             kind = sniff_message(sub)
             if kind == "mbox":
                 yield sub
@@ -124,8 +126,15 @@ def _walk(folder: Path) -> Iterator[Path]:
                 has_messages = True
             elif _sniff(_head(sub)) in ("vcard", "ics"):
                 yield sub
-    if has_messages and message_files(folder, _SUFFIXES):
-        yield folder
+    if has_messages:
+        listed = set(message_files(folder, _SUFFIXES))
+        for sub in entries:
+            if sub.is_file() and sub not in listed and not sub.name.startswith(".") \
+                    and sub.suffix.lower() not in _SUFFIXES and (sniff_message(sub) == "mbox"
+                                                                  or _sniff(_head(sub)) in ("vcard", "ics")):
+                yield sub
+        if listed:
+            yield folder
 
 
 def _head(path: Path, size: int = 4096) -> bytes:

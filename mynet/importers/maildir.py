@@ -29,6 +29,7 @@ from __future__ import annotations
 
 import hashlib
 import os
+import re
 from pathlib import Path
 
 from ..errors import InputError, RecordError
@@ -54,36 +55,64 @@ def _visible_files(folder: Path) -> list[Path]:
     return [Path(e.path) for e in entries if not e.name.startswith(".") and e.is_file()]
 
 
-def sniff_message(path: Path) -> str:
-    """``"message"`` for a file holding one message, ``"mbox"`` for an mbox, ``""`` otherwise (by content)."""
-    from .mbox import looks_like_message
+# A header field line (RFC 5322 section 3.6.8: a name of printable characters but ":", then ":"), and the
+# name of a field only mail has, at the start of a line.
+_FIELD_LINE = re.compile(rb"[!-9;-~]+[ \t]*:")
+_MAIL_FIELD = re.compile(
+    rb"^(?:from|to|cc|date|subject|message-id|received|return-path|sender|reply-to|in-reply-to|references"
+    rb"|mime-version|delivered-to|x-mailer|list-id)[ \t]*:", re.IGNORECASE | re.MULTILINE)
 
+
+def _header_start(head: bytes) -> bool:
+    """Whether ``head`` starts with a header field and holds a field only mail has before its first blank line."""
+    if not _FIELD_LINE.match(head):
+        return False
+    end = head.find(b"\n\n")
+    end2 = head.find(b"\n\r\n")
+    stop = min(e for e in (end, end2, len(head)) if e >= 0)
+    return bool(_MAIL_FIELD.search(head, 0, stop))
+
+
+def sniff_message(path: Path) -> str:
+    """``"message"`` for a file holding one message, ``"mbox"`` for an mbox, ``""`` otherwise (by content).
+
+    Only the first 4 KiB are looked at: a header field first, and a field only
+    mail has (From, To, Date, Message-ID, Received, ...) before the first blank line.
+    """
     try:
         with open(path, "rb") as f:
-            head = f.read(8192)
+            head = f.read(4096)
     except OSError:
         return ""
     head = head.removeprefix(b"\xef\xbb\xbf").lstrip(b"\r\n")
     if head.startswith(b"From "):
         eol = head.find(b"\n")
-        if eol < 0:
-            return ""
-        after = head[eol + 1:]
-        return "mbox" if looks_like_message(after) else ""
-    return "message" if looks_like_message(head) else ""
+        return "mbox" if eol >= 0 and _header_start(head[eol + 1:]) else ""
+    return "message" if _header_start(head) else ""
+
+
+_LISTED: dict[tuple[str, int], list[Path]] = {}
 
 
 def message_files(folder: Path, known_suffixes: frozenset[str] | set[str] = frozenset()) -> list[Path]:
-    """The message files of a folder: a Maildir's ``cur`` and ``new``, else its own suffix-less messages."""
+    """The message files of a folder: a Maildir's ``cur`` and ``new``, else its own suffix-less messages.
+
+    A plain folder's files are recognised by content; the answer is kept while
+    the folder's own modification time does not change (adding, removing or
+    renaming a file changes it), so one import looks at each file once.
+    """
     if is_maildir(folder):
         return [p for sub in ("cur", "new") for p in _visible_files(folder / sub)]
-    out = []
-    for p in _visible_files(folder):
-        if p.suffix.lower() in known_suffixes:
-            continue
-        if sniff_message(p) == "message":
-            out.append(p)
-    return out
+    try:
+        key = (str(folder.resolve()), folder.stat().st_mtime_ns)
+    except OSError:
+        return []
+    if key not in _LISTED:
+        if len(_LISTED) > 64:
+            _LISTED.clear()
+        _LISTED[key] = [p for p in _visible_files(folder)
+                        if p.suffix.lower() not in known_suffixes and sniff_message(p) == "message"]
+    return list(_LISTED[key])
 
 
 def _unique_name(path: Path) -> str:
