@@ -298,3 +298,21 @@ def test_import_without_me_says_how_to_say_who_you_are(tmp_path, capsys):
     assert main(["--workspace", str(tmp_path / "w.sqlite"), "import", str(tmp_path / "list.mbox")]) == 0
     out = capsys.readouterr().out
     assert "mynet does not know who you are yet" in out and YOU[1] in out
+
+
+def test_relay_and_archive_domains_are_no_employer_nor_group_name(tmp_path):
+    from mynet.analysis.snapshot import analyse
+    from mynet.workspace_ties import update_list_setting
+
+    rows = ["Name,Email,Tags"] + [f"{n},{n.split()[0].lower()}@lists.harbour.example,rowing"
+                                  for n in ("Ana Lind", "Bo Ek", "Cy Moss", "Di Park")]
+    (tmp_path / "crew.csv").write_text("\n".join(rows) + "\n", encoding="utf-8")
+    store = open_workspace(tmp_path / "ws.sqlite")
+    import_paths(store, [tmp_path / "crew.csv"])
+    net = load_network(store)
+    assert net.all_ties.parts["domain"].any()  # without the setting, the shared domain is evidence
+    update_list_setting(store, "mail_relay_domains", "lists.harbour.example")
+    net = load_network(store)
+    assert not net.all_ties.parts["domain"].any() and net.all_ties.parts["tag"].all()
+    (group,) = analyse(store, net).groups
+    assert "lists.harbour" not in group.label and "rowing" in group.label

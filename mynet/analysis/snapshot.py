@@ -16,6 +16,7 @@ from typing import Any, Mapping
 import networkx as nx
 import numpy as np
 
+from ..mailpeople import not_employer_domains
 from ..network import Network, load_network
 from ..normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
 from ..store import Store
@@ -153,7 +154,7 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     measures = {int(k): {mk: (None if isinstance(mv, float) and not np.isfinite(mv) else mv) for mk, mv in m.items()}
                 for k, m in measures.items()}
     sets = {g: set(m) for g, m in groups.items()}
-    attrs = contact_attrs(net, set(store.setting("webmail_domains", []) or []))
+    attrs = contact_attrs(net, set(not_employer_domains(store)))  # webmail, relay and archive domains name no group
     infos = []
     for gid in sorted(groups, key=lambda g: (-len(groups[g]), g)):
         label, share = suggest_label(groups[gid], attrs)
@@ -198,7 +199,7 @@ def analyse(store: Store, net: Network | None = None, *, force: bool = False) ->
     """The analysis, from the cache when the ties and settings have not changed."""
     net = net or load_network(store)
     model = AnalysisModel.from_settings(store.setting("analysis", {}))
-    fp = _fingerprint(net, model, store.setting("webmail_domains", []) or [])
+    fp = _fingerprint(net, model, sorted(not_employer_domains(store)))
     row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (CACHE_KEY,)).fetchone()
     result = None
     if row and not force:
