@@ -232,7 +232,7 @@ def _locale_region() -> str:
 
 
 def infer_region(setting: str, my_phones: Iterable[str], phones: Iterable[str], *, sample: int = 5000) -> tuple[str, str]:
-    """The country assumed for phone numbers written without one, and why (plain words).
+    """The country assumed for phone numbers written without one, and why (words that follow "read as GB numbers").
 
     In order: the ``region`` setting; the country of your own number
     (``mynet me --phone``); the most common country among the numbers with a
@@ -242,11 +242,11 @@ def infer_region(setting: str, my_phones: Iterable[str], phones: Iterable[str], 
     import phonenumbers
 
     if setting and setting.upper() in phonenumbers.SUPPORTED_REGIONS:
-        return setting.upper(), "your setting"
+        return setting.upper(), "as your region setting says"
     for p in my_phones:
         region = _region_of(p)
         if region:
-            return region, f"your own number {p}"
+            return region, f"like your own number {p}"
     counts: Counter[str] = Counter()
     for p in phones:
         t = p.strip()
@@ -262,8 +262,8 @@ def infer_region(setting: str, my_phones: Iterable[str], phones: Iterable[str], 
     if counts:
         region, n = max(counts.items(), key=lambda kv: (kv[1], kv[0]))
         total = sum(counts.values())
-        return region, f"{n} of the {total} numbers with a country code in your imports"
+        return region, f"like {n} of the {total} numbers with a country code in your imports"
     region = _locale_region()
     if region in phonenumbers.SUPPORTED_REGIONS:
-        return region, "your system's language setting"
+        return region, "after your system's language setting"
     return "", "nothing says which country"

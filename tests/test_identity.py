@@ -189,11 +189,11 @@ def test_the_same_full_name_under_different_addresses_is_suggested():
 
 
 @pytest.mark.parametrize("setting, mine, phones, env, expected", [
-    ("DE", ["+447700900123"], [], "en_US.UTF-8", ("DE", "your setting")),
-    ("", ["+447700900123"], ["+15555550100"], "en_US.UTF-8", ("GB", "your own number +447700900123")),
+    ("DE", ["+447700900123"], [], "en_US.UTF-8", ("DE", "as your region setting says")),
+    ("", ["+447700900123"], ["+15555550100"], "en_US.UTF-8", ("GB", "like your own number +447700900123")),
     ("", [], ["+15555550100", "+447700900123", "+447700900124", "07700 900125"], "fr_FR.UTF-8",
-     ("GB", "2 of the 3 numbers with a country code in your imports")),
-    ("", [], ["07700 900125"], "fr_FR.UTF-8", ("FR", "your system's language setting")),
+     ("GB", "like 2 of the 3 numbers with a country code in your imports")),
+    ("", [], ["07700 900125"], "fr_FR.UTF-8", ("FR", "after your system's language setting")),
     ("", [], [], "C", ("", "nothing says which country")),
 ])
 def test_phone_region_is_inferred_in_order(monkeypatch, setting, mine, phones, env, expected):
@@ -214,9 +214,9 @@ def test_import_says_which_region_it_assumed(tmp_path, capsys):
     ws = str(tmp_path / "w.sqlite")
     assert main(["--workspace", ws, "import", str(csv)]) == 0
     out = capsys.readouterr().out
-    assert ("Phone numbers without a country code (1) were read as GB numbers (from 1 of the 1 numbers with a "
+    assert ("Phone numbers without a country code (1) were read as GB numbers (like 1 of the 1 numbers with a "
             "country code in your imports)") in out
     assert main(["--workspace", ws, "me", "--phone", "+1 555 555 0100"]) == 0
-    assert "read as US numbers (from your own number +15555550100)" in capsys.readouterr().out
+    assert "read as US numbers (like your own number +15555550100)" in capsys.readouterr().out
     assert main(["--workspace", ws, "me", "--phone", "07700 900999"]) == 1
     assert "country code" in capsys.readouterr().err

@@ -126,11 +126,7 @@ def print_import_report(report, as_json: bool) -> None:
 
 def region_words(why: str) -> str:
     """Why a country was assumed, in words that finish "read as GB numbers (...)"."""
-    if why == "--region":
-        return "as you said with --region"
-    if why == "your setting":
-        return "your region setting"
-    return f"from {why}"
+    return "as you said with --region" if why == "--region" else why
 
 
 def register(cli: click.Group) -> None:
