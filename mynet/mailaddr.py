@@ -70,9 +70,11 @@ KIND_WORDS = {
 }
 
 # RFC 2142 section 6: a list LIST@DOMAIN has the administrative address LIST-REQUEST@DOMAIN; list
-# managers add -owner, owner-, -bounces, -admin and the ezmlm actions (-help, -subscribe, ...).
+# managers add -owner, owner-, -bounces, -admin and the ezmlm actions (-help, -subscribe, ...); a local
+# part ending in "-list" or "-announce" names a list by common practice.
 _LIST_LOCAL = re.compile(
-    r"^owner-.+|.+-(?:request|owner|bounces?|admin|help|subscribe|unsubscribe|join|leave|return(?:-.*)?|confirm.*)$"
+    r"^owner-.+|.+-(?:request|owner|bounces?|admin|help|subscribe|unsubscribe|join|leave|return(?:-.*)?|confirm.*"
+    r"|list|announce)$"
 )
 
 

@@ -65,6 +65,7 @@ def test_sender_owner_and_mailing_list_fields():
 @pytest.mark.parametrize("address, kind", [
     ("dev-request@lists.harbour.example", "list"),  # RFC 2142 section 6: LIST-REQUEST administers LIST
     ("owner-dev@lists.harbour.example", "list"),  # common practice of list managers
+    ("team-feedback-list@velvane.example", "list"),  # named a list (common practice)
     ("dev-bounces+ana=quillon.example@lists.harbour.example", "list"),
     ("noreply@shop.example", "machine"),
     ("MAILER-DAEMON@mx.example", "machine"),
