@@ -155,7 +155,8 @@ def forget_contact(store: Store, contact_id: int) -> ForgetReport:
     if contact is None:
         raise NotFoundError(f"no contact with id {contact_id}")
     rows = store.records_by_id(contact.record_ids)
-    keys = [k for _rid, k, _s, _r in rows]
+    # Every key that stands for them, the keys of people found in mail included (they have no record).
+    keys = sorted({k for _rid, k, _s, _r in rows} | {k for k, v in store.contact_map().items() if v == contact_id})
     emails = set(contact.emails)
     salt = _salt(store)
     hashes = set(json.loads(store.meta("forgotten", "[]") or "[]"))
@@ -201,6 +202,9 @@ def remove_source(store: Store, path: str) -> ForgetReport:
             keys_of.setdefault(cid, []).append(k)
         store.conn.execute("DELETE FROM sources WHERE id = ?", (src["id"],))
         live = {k for (k,) in store.conn.execute("SELECT rkey FROM records")}
+        # People found in mail are keyed by their address, not by a record: their decisions stay (they are
+        # kept when the refresh below still finds them in another file).
+        live |= {k for k in before if k.startswith("found:")}
         dropped = moved = 0
         for row in store.decisions():
             new = {}

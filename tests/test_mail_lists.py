@@ -317,3 +317,17 @@ def test_relay_and_archive_domains_are_no_employer_nor_group_name(tmp_path):
     assert not net.all_ties.parts["domain"].any() and net.all_ties.parts["tag"].all()
     (group,) = analyse(store, net).groups
     assert "lists.harbour" not in group.label and "rowing" in group.label
+
+
+def test_decisions_about_found_people_survive_removing_another_file_and_go_with_them(ws):
+    from mynet.privacy import forget_contact, remove_source
+    from mynet.workspace_ties import rate_contact
+
+    store, tmp_path = ws
+    ana = find_contact(store, "Ana Lind")
+    rate_contact(store, ana.id, 0.9)
+    remove_source(store, str(tmp_path / "archive.mbox"))
+    assert find_contact(store, "Ana Lind").id == ana.id  # still found in list.mbox
+    assert [r["kind"] for r in store.decisions()] == ["rate"]
+    forget_contact(store, ana.id)
+    assert store.decisions() == []
