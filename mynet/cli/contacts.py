@@ -363,7 +363,8 @@ def register(cli: click.Group) -> None:
             for addr, why in c.address_from.items():
                 click.echo(f"  {addr}: {why}")
             click.echo(f"Not this person's? mynet drop-address {c.id} ADDRESS")
-        click.echo(f"\nRecords behind this person ({len(recs)}):")
+        if recs:
+            click.echo(f"\nRecords behind this person ({len(recs)}):")
         for rid, path, r in recs:
             bits = [r.display_name()] + r.emails[:2] + r.phones[:1] + r.orgs[:1]
             click.echo(f"  [{rid}] {path}:{r.line}  " + " | ".join(b for b in bits if b))
