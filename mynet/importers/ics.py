@@ -74,7 +74,12 @@ class _Moment:
 
 
 def _to_utc(local: dt.datetime, tz: dt.tzinfo | None) -> dt.datetime:
-    return local.replace(tzinfo=tz or UTC).astimezone(UTC)
+    try:
+        return local.replace(tzinfo=tz or UTC).astimezone(UTC)
+    except (ValueError, TypeError, IndexError, OverflowError):
+        # A VTIMEZONE whose own rules cannot be computed (dateutil raises inside utcoffset): read as UTC,
+        # like an unknown TZID.
+        return local.replace(tzinfo=UTC)
 
 
 def _stamp(local: dt.datetime, tz: dt.tzinfo | None, all_day: bool) -> str:
