@@ -9,6 +9,7 @@ list managers and build services) except where an RFC is named.
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 
 __all__ = [
     "machine_kind",
@@ -99,6 +100,7 @@ def desk_name(display: str) -> bool:
     return bool(words) and words[-1] in _DESK_WORDS
 
 
+@lru_cache(maxsize=65536)
 def machine_kind(address: str) -> str:
     """The kind of a role or machine address from its form alone, or ``""`` for what may be a person.
 

@@ -245,11 +245,12 @@ class Interaction:
 
     @classmethod
     def from_dict(cls, data: dict[str, Any]) -> "Interaction":
-        known = {f.name for f in fields(cls)}
+        known = _INTERACTION_KNOWN
         return cls(**{k: v for k, v in data.items() if k in known})
 
 
 _INTERACTION_FIELDS = tuple(f.name for f in fields(Interaction))
+_INTERACTION_KNOWN = frozenset(_INTERACTION_FIELDS)
 
 
 @dataclass
