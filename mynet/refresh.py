@@ -11,9 +11,10 @@ import json
 
 from .correspondence import address_facts, clean, correspondents
 from .identity import Decisions, Me, Resolution, StoredRecord, resolve
-from .mailpeople import address_origins, attach_by_name, found_records, infer_region, your_other_addresses
+from .mailpeople import address_origins, attach_by_name, found_key, found_records, infer_region, your_other_addresses
 from .model import Contact
 from .normalise import normalise_email, normalise_name
+from .privacy import forgotten_address
 from .store import Store
 
 __all__ = ["refresh_contacts", "get_me", "decisions_of"]
@@ -71,11 +72,11 @@ def refresh_contacts(store: Store) -> Resolution:
         me_all.emails |= set(seen_as)
         open_sources = {row["id"] for row in store.sources() if row.get("new_contacts", 1)}
         allowed = [it for (sid, _), it in zip(pairs, cleaned) if sid in open_sources]
-        from .privacy import forgotten_address
-
         forgotten = forgotten_address(store)
+        # A person found only through an address you detached from them stays away.
+        dropped = {addr for key, addr in _detached(store) if key == found_key(addr)}
         found = {a: f for a, f in correspondents(allowed, me_all.emails).items()
-                 if a not in names and a not in me_all.emails and not forgotten(a)}
+                 if a not in names and a not in me_all.emails and a not in dropped and not forgotten(a)}
         region, why = infer_region(store.setting("region", "") or "", me.phones,
                                    (p for s in stored for p in s.record.phones))
         found_recs = found_records(found)

@@ -307,32 +307,40 @@ def set_me(store: Store, emails: list[str], names: list[str], *, replace: bool =
     return get_me(store)
 
 
-def detach_address(store: Store, contact_id: int, address: str, *, undo: bool = False) -> Contact | None:
+def detach_address(store: Store, contact_id: int | None, address: str, *, undo: bool = False) -> Contact | None:
     """Say that an address is not this person's (kept across re-imports), or take that back with ``undo``.
 
-    Returns the contact afterwards (None when the person existed only through that address).
+    With ``undo`` and no ``contact_id``, every detach of that address from a
+    person who no longer exists (someone known only through it) is taken
+    back. Returns the contact afterwards (None when the person existed only
+    through that address).
     """
+    from .mailpeople import found_key
     from .network import anchor_key
 
     addr = normalise_email(address)
     if not addr:
         raise MynetError(f"not an e-mail address: {address!r}")
-    contact = store.contact(contact_id)
-    if contact is None:
+    contact = store.contact(contact_id) if contact_id is not None else None
+    if contact_id is not None and contact is None:
         raise NotFoundError(f"no contact with id {contact_id}")
-    keys = _keys_of(store, contact_id)
+    keys = _keys_of(store, contact_id) if contact_id is not None else [found_key(addr)]
     with store.transaction():
         if undo:
+            cmap = store.contact_map()
             rows = [row["id"] for row in store.decisions("detach")
-                    if row["a"] in keys and (row["value"] or {}).get("address") == addr]
+                    if (row["value"] or {}).get("address") == addr
+                    and (row["a"] in keys or contact_id is None and row["a"] not in cmap)]
             if not rows:
-                raise NotFoundError(f"{addr} was not detached from {contact.name} ({contact_id})")
+                whom = f"{contact.name} ({contact_id})" if contact else "anyone who is gone"
+                raise NotFoundError(f"{addr} was not detached from {whom}")
             for rid in rows:
                 store.conn.execute("DELETE FROM decisions WHERE id = ?", (rid,))
             store.bump_data_version()
         else:
-            if addr not in contact.emails:
-                raise NotFoundError(f"{contact.name} ({contact_id}) has no address {addr} (see: mynet show {contact_id})")
+            if contact is None or addr not in contact.emails:
+                raise NotFoundError(f"{contact.name if contact else 'nobody'} ({contact_id}) has no address {addr}"
+                                    f" (see: mynet show {contact_id})")
             store.add_decision("detach", anchor_key(store, contact_id), "", {"address": addr})
         refresh_contacts(store)
     cmap = store.contact_map()

@@ -331,3 +331,18 @@ def test_decisions_about_found_people_survive_removing_another_file_and_go_with_
     assert [r["kind"] for r in store.decisions()] == ["rate"]
     forget_contact(store, ana.id)
     assert store.decisions() == []
+
+
+def test_dropping_a_found_persons_only_address_does_not_spend_new_ids(ws):
+    from mynet.workspace import detach_address, refresh_contacts
+
+    store, _ = ws
+    bo = find_contact(store, "Bo Ek")
+    assert detach_address(store, bo.id, "bo@velvane.example") is None
+    before = store.meta("next_contact_id")
+    refresh_contacts(store)
+    refresh_contacts(store)
+    assert store.meta("next_contact_id") == before
+    assert "Bo Ek" not in {c.name for c in store.contacts()}
+    back = detach_address(store, None, "bo@velvane.example", undo=True)  # he is gone: undone by address
+    assert back is not None and back.name == "Bo Ek"  # under a new id: ids are never reused

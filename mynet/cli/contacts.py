@@ -7,7 +7,7 @@ from pathlib import Path
 
 import click
 
-from ..errors import InputError, MynetError
+from ..errors import InputError, MynetError, NotFoundError
 from ..model import Contact
 from ..workspace import (
     contact_records,
@@ -421,7 +421,18 @@ def register(cli: click.Group) -> None:
         from ..workspace import detach_address
 
         store = obj.store()
-        c = find_contact(store, who)
+        try:
+            c = find_contact(store, who)
+        except NotFoundError:
+            if not undo:
+                raise
+            # Someone known only through this address is gone since it was dropped: bring them back.
+            after = detach_address(store, None, address, undo=True)
+            if as_json:
+                emit_json(contact_json(after) if after else {})
+                return
+            click.echo(f"{address} counts again" + (f": {after.name} (id {after.id})." if after else "."))
+            return
         after = detach_address(store, c.id, address, undo=undo)
         if as_json:
             emit_json(contact_json(after) if after else {"id": c.id, "removed": True})
