@@ -19,8 +19,9 @@ suffix. Then, in fresh subprocesses (so peak memory is each run's own):
   ``git archive`` into a temporary folder, when git and that commit are
   available: so today's and the earlier figures are measured side by side.
 
-Each measurement runs ``--repeat`` times (default 3) and the median is shown,
-with every run's seconds. Prints seconds, peak RSS (MiB) and the ratios.
+Each measurement runs ``--repeat`` times (default 3), the runs of all
+measurements interleaved round by round, and the median is shown with every
+run's seconds. Prints seconds, peak RSS (MiB) and the ratios.
 """
 
 from __future__ import annotations
@@ -177,17 +178,26 @@ REPEAT = 3
 
 
 def sub(call: str, tree: Path = ROOT) -> dict:
-    """Run ``call`` in fresh subprocesses ``REPEAT`` times; the run with the median time (a shared machine is noisy)."""
+    """Run ``call`` once in a fresh subprocess (so peak memory is the run's own)."""
     code = (f"import sys, json; sys.path.insert(0, {str(tree)!r}); sys.path.insert(0, {str(ROOT / 'benchmarks')!r}); "
             f"import bench_mail as b; print(json.dumps(b.{call}))")
     env = dict(os.environ, PYTHONPATH=str(tree))
-    runs = []
-    for _ in range(REPEAT):
-        out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True, timeout=1800,
-                             env=env, cwd=tempfile.gettempdir())
-        runs.append(json.loads(out.stdout.strip().splitlines()[-1]))
-    runs.sort(key=lambda r: r["seconds"])
-    return dict(runs[len(runs) // 2], runs=[r["seconds"] for r in runs])
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True, timeout=1800,
+                         env=env, cwd=tempfile.gettempdir())
+    return json.loads(out.stdout.strip().splitlines()[-1])
+
+
+def rounds(calls: dict[str, tuple[str, Path]], repeat: int) -> dict[str, dict]:
+    """Every call once per round, ``repeat`` rounds, interleaved (a shared machine's load drifts); the median run."""
+    seen: dict[str, list[dict]] = {k: [] for k in calls}
+    for _ in range(repeat):
+        for key, (call, tree) in calls.items():
+            seen[key].append(sub(call, tree))
+    out = {}
+    for key, runs in seen.items():
+        runs.sort(key=lambda r: r["seconds"])
+        out[key] = dict(runs[len(runs) // 2], runs=[r["seconds"] for r in runs])
+    return out
 
 
 def baseline_tree(commit: str) -> Path | None:
@@ -215,16 +225,17 @@ def main() -> None:
     REPEAT = max(1, args.repeat)
     folder = Path(tempfile.mkdtemp(prefix="mynet-bench-mail-"))
     paths = write_inputs(folder, args.n)
-    runs = {"stdlib_mbox": sub(f"stdlib_mbox({paths['mbox']!r})"),
-            "stdlib_maildir": sub(f"stdlib_maildir({paths['maildir']!r})"),
-            "reader": sub(f"reader({paths['mbox']!r}, 'now')"),
-            "import_mbox": sub(f"full_import({paths['mbox']!r}, 'now')"),
-            "import_maildir": sub(f"full_import({paths['maildir']!r}, 'now')"),
-            "import_folder": sub(f"full_import({paths['folder']!r}, 'now')")}
+    calls = {"stdlib_mbox": (f"stdlib_mbox({paths['mbox']!r})", ROOT),
+             "stdlib_maildir": (f"stdlib_maildir({paths['maildir']!r})", ROOT),
+             "reader": (f"reader({paths['mbox']!r}, 'now')", ROOT),
+             "import_mbox": (f"full_import({paths['mbox']!r}, 'now')", ROOT),
+             "import_maildir": (f"full_import({paths['maildir']!r}, 'now')", ROOT),
+             "import_folder": (f"full_import({paths['folder']!r}, 'now')", ROOT)}
     tree = baseline_tree(args.baseline) if args.baseline else None
     if tree is not None:
-        runs["reader_before"] = sub(f"reader({paths['mbox']!r}, 'before')", tree)
-        runs["import_before"] = sub(f"full_import({paths['mbox']!r}, 'before')", tree)
+        calls["reader_before"] = (f"reader({paths['mbox']!r}, 'before')", tree)
+        calls["import_before"] = (f"full_import({paths['mbox']!r}, 'before')", tree)
+    runs = rounds(calls, REPEAT)
     for r in runs.values():
         print(json.dumps(r))
     s = {k: max(v["seconds"], 1e-9) for k, v in runs.items()}
