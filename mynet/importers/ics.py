@@ -74,12 +74,7 @@ class _Moment:
 
 
 def _to_utc(local: dt.datetime, tz: dt.tzinfo | None) -> dt.datetime:
-    try:
-        return local.replace(tzinfo=tz or UTC).astimezone(UTC)
-    except (ValueError, TypeError, IndexError, OverflowError):
-        # A VTIMEZONE whose own rules cannot be computed (dateutil raises inside utcoffset): read as UTC,
-        # like an unknown TZID.
-        return local.replace(tzinfo=UTC)
+    return local.replace(tzinfo=tz or UTC).astimezone(UTC)
 
 
 def _stamp(local: dt.datetime, tz: dt.tzinfo | None, all_day: bool) -> str:
@@ -115,6 +110,41 @@ class _Event:
 # ------------------------------------------------------------- dates and zones
 
 
+class _GuardedZone(dt.tzinfo):
+    """A VTIMEZONE read by dateutil, read as UTC from the first time its rules cannot be computed.
+
+    dateutil raises from inside ``utcoffset`` on some broken RRULEs of a
+    VTIMEZONE, and then keeps an internal lock taken: asking that zone again
+    would wait for ever. So the zone is never asked again; a warning says so.
+    """
+
+    def __init__(self, inner: dt.tzinfo, tzid: str, warnings_out: list[str]):
+        self.inner, self.tzid, self.warnings, self.broken = inner, tzid, warnings_out, False
+
+    def _ask(self, method: str, when: dt.datetime | None, default):
+        if not self.broken:
+            try:
+                return getattr(self.inner, method)(when.replace(tzinfo=self.inner) if when is not None else None)
+            except (ValueError, TypeError, IndexError, OverflowError, KeyError, AttributeError) as exc:
+                self.broken = True
+                self.warnings.append(f"VTIMEZONE {self.tzid!r}: its rules cannot be computed ({exc}); its times "
+                                     "were read as UTC from there on")
+        return default
+
+    def utcoffset(self, when):
+        return self._ask("utcoffset", when, dt.timedelta(0))
+
+    def dst(self, when):
+        return self._ask("dst", when, dt.timedelta(0))
+
+    def tzname(self, when):
+        return self._ask("tzname", when, "UTC")
+
+    def fromutc(self, when):
+        local = self._ask("fromutc", when, None)
+        return when.replace(tzinfo=self) if local is None else local.replace(tzinfo=self)
+
+
 class _Zones:
     """TZID -> tzinfo: the file's VTIMEZONEs first, then Olson names (zoneinfo)."""
 
@@ -142,7 +172,7 @@ class _Zones:
         except Exception as exc:  # noqa: BLE001 - dateutil's parser raises many kinds on bad input
             self.warnings.append(f"line {block.line}: VTIMEZONE {tzid!r} cannot be read ({exc}); its TZID is looked up by name instead")
             return
-        self.defined[tzid] = info
+        self.defined[tzid] = _GuardedZone(info, tzid, self.warnings)
 
     def get(self, tzid: str) -> dt.tzinfo | None:
         """The zone for a TZID; None means UTC (an unknown TZID is warned about once)."""
