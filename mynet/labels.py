@@ -154,7 +154,7 @@ def usage_verdict(
     if share < USAGE_MAX_LINKED:
         return False, (f"applied across {len(counts)} organisations to people who share nothing else "
                        f"({share:.0%} of its pairs are linked otherwise)")
-    return True, f"its people are linked otherwise ({share:.0%} of its pairs)"
+    return True, f"its people are linked otherwise too ({share:.0%} of its pairs)"
 
 
 def judge_labels(
@@ -207,9 +207,9 @@ def judge_labels(
             if judged is not None and not judged[0]:
                 v = LabelVerdict(label, key, uses, False, judged[1], "usage")
             elif uses < 2:
-                v = LabelVerdict(label, key, uses, True, "counts (only one person carries it so far)", "few")
+                v = LabelVerdict(label, key, uses, True, "only one person carries it so far", "few")
             else:
-                v = LabelVerdict(label, key, uses, True, "names a circle: " + (judged[1] if judged else "an affiliation"),
+                v = LabelVerdict(label, key, uses, True, judged[1] if judged else "nothing marks it as a note of your own",
                                  "circle")
         out[key] = v
     return out

@@ -98,5 +98,6 @@ def test_tie_untie_rate_survive_reimport(tmp_path, capsys):
     code, out, _ = run(capsys, "--workspace", str(tmp_path / "ws.sqlite"), "ties", "--json")
     listed = json.loads(out)
     manual = next(t for t in listed if {t["a"], t["b"]} == {ana, bo})
-    assert manual["evidence"] == [{"kind": "manual", "note": "rowed together"}]
+    assert manual["evidence"] == [{"kind": "manual", "note": "rowed together", "basis": "observed"}]
+    assert manual["basis"] == "observed"
     assert all(set(t) >= {"a", "b", "strength", "evidence"} for t in listed)
