@@ -59,7 +59,7 @@ WORKFLOW_PHRASES = tuple(sorted({
 WORKFLOW_WORDS = frozenset("""
     followup todo todos tbd later pending waiting remind reminder reminders callback recontact
     vip vips favourite favourites favorite favorites fav favs starred important priority urgent
-    prospect prospects leads hot cold warm rsvp invited invite invitees newsletter
+    prospect prospects hot cold warm rsvp invited invite invitees newsletter
     dinner lunch breakfast brunch coffee drinks beer beers
     relance relancer rappeler suivi favoris diner dejeuner
     nachfassen wiedervorlage favoriten wichtig abendessen mittagessen
