@@ -109,7 +109,7 @@ class TieModel:
     min_strength: float = 0.05  # ties weaker than this are left out of the graph
     backbone_alpha: float = 0.0  # disparity filter significance; 0 = off
     size_exponent: float = 0.5  # a shared group weighs base * (size_ref / size) ** size_exponent
-    assumed_cap: int = 3  # per person and large organisation, the assumed-only ties kept, best first (0: all)
+    assumed_cap: int = 10  # per person and large organisation, the assumed-only ties kept, best first (0: all)
     org_alone_max: int = 0  # larger organisations count only for pairs with other evidence (0: no such rule)
 
     @classmethod
@@ -588,19 +588,45 @@ def _observed_common_neighbours(observed, ia, ib, n, ask) -> np.ndarray:
 
 
 def _limit_large_orgs(large, parts, observed, keys, n, model: TieModel, scales, large_groups) -> np.ndarray:
-    """The share of the large organisations' evidence each pair keeps.
+    """The large organisations' evidence each pair keeps.
 
     Without a limit every pair of a large organisation's people is tied, which
-    makes one complete clique of assumed ties. Two limits can be set:
+    makes one complete clique of assumed ties that hides what was observed
+    there (teams that meet) and fills the bridges list. Two limits can be set:
 
+    * ``assumed_cap`` (the default, 10): inside each organisation of more
+      than ``size_ref`` people, each person keeps their ``assumed_cap`` best
+      assumed-only links there: a shared department, label or smaller
+      organisation first (a stronger pair), then pairs with more contacts in
+      common through meetings and threads (triadic closure, Granovetter 1973),
+      then a fixed pseudo-random order of the pair (Knuth's multiplicative
+      hash), the same on every run. A pair stays when either person keeps it;
+      observed links are never touched.
     * ``org_alone_max``: organisations above this size count only for pairs
-      that have some other evidence (observed, a label, a unit, a smaller
-      organisation);
-    * ``assumed_cap``: inside each large organisation, each person keeps the
-      ``assumed_cap`` strongest of their assumed-only ties there (a shared unit,
-      label or smaller organisation makes a pair stronger); ties as strong as
-      the last one kept are kept too, so nothing is dropped at random, and a
-      pair stays when either end keeps it.
+      that have some other evidence, or a contact in common through meetings
+      and threads.
+
+    Measured on the sample scenario's ground truth (tests/test_assumed_evidence.py
+    prints the table): the ties' recall and precision (true ties among those
+    inferred; "plausible" also counts any pair inside one true cluster), NMI of
+    the groups against the scenario's clusters, the densest group of ten or more,
+    and the top 15 bridges that rest on observed evidence / are true ties::
+
+        remedy                        ties  recall  plausible  precision  NMI    density  bridges seen/true
+        none                          2931  0.866   0.951      0.301      0.777  1.00     0.47 / 0.53
+        best 3 per person             1312  0.859   0.889      0.668      0.643  0.96     0.27 / 0.73
+        best 10 per person (chosen)   1559  0.860   0.907      0.563      0.745  0.96     0.53 / 1.00
+        best 20 per person            2051  0.861   0.929      0.428      0.780  0.96     0.13 / 0.20
+        > 10 only with other evidence 1404  0.859   0.897      0.624      0.685  1.00     0.13 / 1.00
+        size weight (10/n)^1          2611  0.863   0.944      0.337      0.768  1.00     0.40 / 0.47
+
+    The chosen limit breaks every complete clique, nearly doubles the share of
+    inferred ties that are true and makes every top bridge a true tie, for six
+    true ties (resting on a thread mynet cannot attribute to one of the two) and
+    groups that follow teams more than whole employers (the scenario's clusters
+    are whole employers, and "plausible" counts every pair inside one). The
+    steeper size weight and larger limits leave the cliques or crowd the
+    bridges; "only with other evidence" splits past employers into departments.
     """
     if not large.any():
         return large
@@ -614,11 +640,7 @@ def _limit_large_orgs(large, parts, observed, keys, n, model: TieModel, scales, 
         alone = (out > 0) & ~observed
         x = np.round(sum(parts[k] / scales.get(k, 1.0) for k in KINDS) + out, 9)
         common = _observed_common_neighbours(observed, ia, ib, n, alone)
-        # One order of all pairs: stronger first, then more common observed contacts; equal pairs share a level.
-        order = np.lexsort((-common, -x))
-        step = np.r_[True, (np.diff(x[order]) != 0) | (np.diff(common[order]) != 0)]
-        level = np.empty(keys.shape[0], dtype=np.int64)
-        level[order] = np.cumsum(step)
+        mix = (keys.astype(np.uint64) * np.uint64(2654435761)) % np.uint64(2 ** 32)
         asked = np.zeros(keys.shape[0], dtype=bool)
         keep = np.zeros(keys.shape[0], dtype=bool)
         for members in large_groups:
@@ -628,19 +650,18 @@ def _limit_large_orgs(large, parts, observed, keys, n, model: TieModel, scales, 
             ok = rows < keys.shape[0]
             ok[ok] = keys[rows[ok]] == pk[ok]
             rows = rows[ok]
-            rows = rows[alone[rows]]
+            rows = rows[alone[rows]]  # the organisation's assumed-only links
             if not rows.size:
                 continue
             asked[rows] = True
-            lv = level[rows]
-            for own in (ia[rows], ib[rows]):
-                by = np.lexsort((lv, own))
-                grp = own[by]
-                start = np.r_[0, np.nonzero(grp[1:] != grp[:-1])[0] + 1]
-                length = np.diff(np.r_[start, by.size])
-                # each person's k-th best level; pairs as good as it are kept too (nothing dropped at random)
-                kth = lv[by][start + np.minimum(length, model.assumed_cap) - 1]
-                keep[rows[by[lv[by] <= np.repeat(kth, length)]]] = True
+            own = np.r_[ia[rows], ib[rows]]  # every link once for each of its two people
+            link = np.r_[rows, rows]
+            by = np.lexsort((mix[link], -common[link], -x[link], own))
+            grp = own[by]
+            start = np.r_[0, np.nonzero(grp[1:] != grp[:-1])[0] + 1]
+            length = np.diff(np.r_[start, by.size])
+            rank = np.arange(by.size) - np.repeat(start, length)
+            keep[link[by[rank < model.assumed_cap]]] = True
         out[asked & ~keep] = 0.0
     return out
 
