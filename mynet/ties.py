@@ -31,7 +31,7 @@ attribute). A tie resting on assumed evidence alone is only a "may know". In a
 large organisation every pair shares the organisation, so assumed evidence alone
 would make one complete clique of all its people; see ``TieModel.org_alone_max``.
 A shared unit of an organisation (the department of a vCard ORG) is a smaller
-group and counts as its own organisation evidence.
+group and counts as its own organisation evidence. See :mod:`mynet.org_limit`.
 
 The strength is ``1 - exp(-sum_k x_k / scale_k)``: each kind acts as an
 independent chance that the two know each other (a noisy-OR), so strength is
@@ -59,8 +59,10 @@ import numpy as np
 import pandas as pd
 import scipy.sparse as sp
 
+from .events import Event, EventIndex, contact_of_email, event_lists, evidence_events
 from .labels import judge_labels
 from .model import Contact, Interaction
+from .org_limit import limit_large_orgs
 from .normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
 
 __all__ = [
@@ -200,91 +202,6 @@ class TieTable:
                    np.asarray(d["strength"], dtype=float), parts, counts, manual, list(d.get("labels", [])))
 
 
-@dataclass
-class Event:
-    """One meeting, or one mail thread, as tie evidence.
-
-    ``participants`` are the sorted, unique addresses of everyone in it (you
-    included); ``items`` the interactions behind it (one for a meeting, the
-    messages of a thread).
-    """
-
-    kind: str  # "meeting" or "thread"
-    key: str
-    participants: list[str]
-    items: list[Interaction]
-
-    @property
-    def size(self) -> int:
-        return len(self.participants)
-
-
-def evidence_events(interactions: Iterable[Interaction]) -> list[Event]:
-    """The meetings and threads that tie evidence is counted over (bulk mail left out).
-
-    A thread's participants are everyone in any of its messages. This is the one
-    place that says what a shared meeting or thread is: :func:`infer_ties` counts
-    over these events and :class:`EventIndex` lists them for one pair, so a tie's
-    counts and its explanation always agree.
-    """
-    meetings: list[Event] = []
-    threads: dict[str, Event] = {}
-    for it in interactions:
-        if it.bulk:
-            continue
-        if it.kind == "meeting":
-            # importers give sorted, unique, normalised addresses
-            parts = it.participants if not it.participants or it.participants[0] else [p for p in it.participants if p]
-            meetings.append(Event("meeting", it.key, parts, [it]))
-        elif it.kind == "message":
-            k = it.thread or it.key
-            ev = threads.get(k)
-            if ev is None:
-                ev = threads[k] = Event("thread", k, [], [])
-            ev.items.append(it)
-    for ev in threads.values():
-        ev.participants = sorted({p for it in ev.items for p in it.participants} - {""})
-    return meetings + [threads[k] for k in sorted(threads)]
-
-
-def contact_of_email(contacts: Sequence[Contact]) -> dict[str, int]:
-    """Address -> contact id; an address on two contacts belongs to the one with the smaller id."""
-    out: dict[str, int] = {}
-    for c in sorted(contacts, key=lambda c: c.id):
-        for e in c.emails:
-            out.setdefault(e, c.id)
-    return out
-
-
-class EventIndex:
-    """The evidence events of each contact, to list the meetings and threads two contacts share.
-
-    Uses the same events, address mapping and size limits as :func:`infer_ties`,
-    so ``len(index.shared(a, b, cap)["thread"])`` is the tie's thread count.
-    """
-
-    def __init__(self, contacts: Sequence[Contact], interactions: Iterable[Interaction]):
-        self.events = evidence_events(interactions)
-        owner = contact_of_email(contacts)
-        self.of: dict[int, set[int]] = defaultdict(set)
-        for k, ev in enumerate(self.events):
-            for p in ev.participants:
-                cid = owner.get(p)
-                if cid is not None:
-                    self.of[cid].add(k)
-
-    def shared(self, a: int, b: int, cap: int) -> dict[str, list[Event]]:
-        """The meetings and threads of 2..``cap`` people both ``a`` and ``b`` are in, oldest first."""
-        out: dict[str, list[Event]] = {"meeting": [], "thread": []}
-        for k in sorted(self.of.get(a, set()) & self.of.get(b, set())):
-            ev = self.events[k]
-            if 2 <= ev.size <= cap:
-                out[ev.kind].append(ev)
-        for evs in out.values():
-            evs.sort(key=lambda ev: (min(it.when for it in ev.items), ev.key))
-        return out
-
-
 def incidence(groups: Sequence[Sequence[int]], n: int) -> sp.csr_matrix:
     """The n x len(groups) 0/1 incidence matrix of members (row) in groups (column)."""
     lengths = np.fromiter((len(g) for g in groups), dtype=np.int64, count=len(groups))
@@ -362,11 +279,10 @@ def infer_ties(
     counts: dict[str, sp.coo_matrix] = {}
 
     # Meetings and threads: Newman weights 1/(n-1), broadcast events dropped.
-    events = evidence_events(interactions)
+    events = event_lists(interactions)
     emails_index = pd.Index(list(by_email)) if by_email else None
     email_pos = np.fromiter(by_email.values(), dtype=np.int64, count=len(by_email))
-    for kind in ("meeting", "thread"):
-        parts = [ev.participants for ev in events if ev.kind == kind]
+    for kind, parts in (("meeting", events.meeting_parts), ("thread", events.thread_parts)):
         B, sizes = _event_incidence(parts, emails_index, email_pos, n, model.broadcast_cap)
         if B is not None:
             w = 1.0 / (sizes - 1.0)
@@ -552,8 +468,9 @@ def _assemble(ids, pos, n, mats, counts, model: TieModel, manual, suppressed, la
     for k in OBSERVED_KINDS:
         observed |= parts[k] > 0
     ia, ib = keys // n, keys % n
-    parts["organisation"] = parts["organisation"] + _limit_large_orgs(large, parts, observed, keys, n, model, scales,
-                                                                         large_groups)
+    x_all = sum(parts[k] / scales.get(k, 1.0) for k in KINDS)
+    parts["organisation"] = parts["organisation"] + limit_large_orgs(large, parts, x_all, observed, keys, n, model,
+                                                                        large_groups)
     total = sum(parts[k] / scales.get(k, 1.0) for k in KINDS)
     strength = -np.expm1(-total)
     for (a, b), s in manual.items():
@@ -572,98 +489,6 @@ def _assemble(ids, pos, n, mats, counts, model: TieModel, manual, suppressed, la
     keep &= strength > 0
     table = TieTable(a, b, strength, parts, cnt, man)
     return table if keep.all() else table.select(keep)
-
-
-def _observed_common_neighbours(observed, ia, ib, n, ask) -> np.ndarray:
-    """Per row (where ``ask``): how many contacts both ends have observed ties with."""
-    out = np.zeros(ia.shape[0], dtype=np.int64)
-    rows = np.nonzero(ask)[0]
-    if not rows.size or not observed.any():
-        return out
-    oa, ob = ia[observed], ib[observed]
-    O = sp.csr_matrix((np.ones(oa.size * 2), (np.r_[oa, ob], np.r_[ob, oa])), shape=(n, n))
-    O.data[:] = 1.0
-    out[rows] = np.rint(np.asarray(O[ia[rows]].multiply(O[ib[rows]]).sum(axis=1)).ravel()).astype(np.int64)
-    return out
-
-
-def _limit_large_orgs(large, parts, observed, keys, n, model: TieModel, scales, large_groups) -> np.ndarray:
-    """The large organisations' evidence each pair keeps.
-
-    Without a limit every pair of a large organisation's people is tied, which
-    makes one complete clique of assumed ties that hides what was observed
-    there (teams that meet) and fills the bridges list. Two limits can be set:
-
-    * ``assumed_cap`` (the default, 10): inside each organisation of more
-      than ``size_ref`` people, each person keeps their ``assumed_cap`` best
-      assumed-only links there: a shared department, label or smaller
-      organisation first (a stronger pair), then pairs with more contacts in
-      common through meetings and threads (triadic closure, Granovetter 1973),
-      then a fixed pseudo-random order of the pair (Knuth's multiplicative
-      hash), the same on every run. A pair stays when either person keeps it;
-      observed links are never touched.
-    * ``org_alone_max``: organisations above this size count only for pairs
-      that have some other evidence, or a contact in common through meetings
-      and threads.
-
-    Measured on the sample scenario's ground truth (tests/test_assumed_evidence.py
-    prints the table): the ties' recall and precision (true ties among those
-    inferred; "plausible" also counts any pair inside one true cluster), NMI of
-    the groups against the scenario's clusters, the densest group of ten or more,
-    and the top 15 bridges that rest on observed evidence / are true ties::
-
-        remedy                        ties  recall  plausible  precision  NMI    density  bridges seen/true
-        none                          2931  0.866   0.951      0.301      0.777  1.00     0.47 / 0.53
-        best 3 per person             1312  0.859   0.889      0.668      0.643  0.96     0.27 / 0.73
-        best 10 per person (chosen)   1559  0.860   0.907      0.563      0.745  0.96     0.53 / 1.00
-        best 20 per person            2051  0.861   0.929      0.428      0.780  0.96     0.13 / 0.20
-        > 10 only with other evidence 1404  0.859   0.897      0.624      0.685  1.00     0.13 / 1.00
-        size weight (10/n)^1          2611  0.863   0.944      0.337      0.768  1.00     0.40 / 0.47
-
-    The chosen limit breaks every complete clique, nearly doubles the share of
-    inferred ties that are true and makes every top bridge a true tie, for six
-    true ties (resting on a thread mynet cannot attribute to one of the two) and
-    groups that follow teams more than whole employers (the scenario's clusters
-    are whole employers, and "plausible" counts every pair inside one). The
-    steeper size weight and larger limits leave the cliques or crowd the
-    bridges; "only with other evidence" splits past employers into departments.
-    """
-    if not large.any():
-        return large
-    out = large.copy()
-    ia, ib = keys // n, keys % n
-    if model.org_alone_max > 0:
-        other = observed | (parts["tag"] > 0) | (parts["organisation"] > 0) | (parts["related"] > 0)
-        other |= _observed_common_neighbours(observed, ia, ib, n, (out > 0) & ~other) > 0
-        out = np.where(other, out, 0.0)
-    if model.assumed_cap > 0 and len(large_groups):
-        alone = (out > 0) & ~observed
-        x = np.round(sum(parts[k] / scales.get(k, 1.0) for k in KINDS) + out, 9)
-        common = _observed_common_neighbours(observed, ia, ib, n, alone)
-        mix = (keys.astype(np.uint64) * np.uint64(2654435761)) % np.uint64(2 ** 32)
-        asked = np.zeros(keys.shape[0], dtype=bool)
-        keep = np.zeros(keys.shape[0], dtype=bool)
-        for members in large_groups:
-            i, j = np.triu_indices(members.size, k=1)
-            pk = members[i] * n + members[j]
-            rows = np.searchsorted(keys, pk)
-            ok = rows < keys.shape[0]
-            ok[ok] = keys[rows[ok]] == pk[ok]
-            rows = rows[ok]
-            rows = rows[alone[rows]]  # the organisation's assumed-only links
-            if not rows.size:
-                continue
-            asked[rows] = True
-            own = np.r_[ia[rows], ib[rows]]  # every link once for each of its two people
-            link = np.r_[rows, rows]
-            by = np.lexsort((mix[link], -common[link], -x[link], own))
-            grp = own[by]
-            start = np.r_[0, np.nonzero(grp[1:] != grp[:-1])[0] + 1]
-            length = np.diff(np.r_[start, by.size])
-            rank = np.arange(by.size) - np.repeat(start, length)
-            keep[link[by[rank < model.assumed_cap]]] = True
-        out[asked & ~keep] = 0.0
-    return out
 
 
 def disparity_filter(table: TieTable, alpha: float) -> np.ndarray:
