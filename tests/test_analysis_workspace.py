@@ -5,7 +5,7 @@ from __future__ import annotations
 import json
 
 import pytest
-from conftest import import_sample
+from conftest import import_sample, person_of
 
 from mynet.analysis.audit import audit, blau_index, shannon_evenness
 from mynet.analysis.groups import normalised_mutual_information
@@ -84,15 +84,7 @@ def sample_ws(tmp_path_factory):
     return import_sample(tmp_path_factory.mktemp("sample") / "ws.sqlite")
 
 
-def _person_of(store, truth):
-    rec2person = {(r["file"], r["index"]): r.get("person") for r in truth["records"]}
-    cmap = store.contact_map()
-    out = {}
-    for _rid, key, src, rec in store.records():
-        p = rec2person.get((src["path"].rsplit("/", 1)[-1], rec.index))
-        if key in cmap and p:
-            out[cmap[key]] = p
-    return out
+_person_of = person_of
 
 
 def test_sample_merging_precision_recall(sample_ws):

@@ -11,7 +11,7 @@ import itertools
 
 import numpy as np
 import pytest
-from conftest import import_sample
+from conftest import import_sample, person_of
 
 from mynet.analysis.groups import normalised_mutual_information
 from mynet.analysis.snapshot import analyse, tie_graph
@@ -34,17 +34,6 @@ REMEDIES = [
 @pytest.fixture(scope="module")
 def sample(tmp_path_factory):
     return import_sample(tmp_path_factory.mktemp("remedies") / "ws.sqlite")
-
-
-def person_of(store, truth):
-    rec2person = {(r["file"], r["index"]): r.get("person") for r in truth["records"]}
-    cmap = store.contact_map()
-    out = {}
-    for _rid, key, src, rec in store.records():
-        p = rec2person.get((src["path"].rsplit("/", 1)[-1], rec.index))
-        if key in cmap and p:
-            out[cmap[key]] = p
-    return out
 
 
 def figures(store, truth, person) -> dict:

@@ -10,7 +10,7 @@ import numpy as np
 import pytest
 from networkx.algorithms import bipartite
 
-from davis_ics import davis_email, davis_graph, davis_ics_bytes
+from davis_ics import davis_email, davis_graph, davis_workspace
 from mynet.cli import main
 from mynet.model import Contact, Interaction
 from mynet.network import Network, evidence_summary, explain_tie, load_network, tie_words
@@ -60,12 +60,7 @@ def test_davis_co_attendance_is_observed_and_a_shared_domain_alone_is_assumed(tm
     G = davis_graph()
     women = sorted(G.graph["top"])
     projected = bipartite.weighted_projected_graph(G, women)
-    people = tmp_path / "women.csv"
-    people.write_text("Name,Email\n" + "".join(f"{w},{davis_email(w)}\n" for w in women), encoding="utf-8")
-    cal = tmp_path / "davis.ics"
-    cal.write_bytes(davis_ics_bytes())
-    store = open_workspace(tmp_path / "ws.sqlite")
-    import_paths(store, [people, cal])
+    store = davis_workspace(tmp_path)
     net = load_network(store)
     name = {c.id: next(w for w in women if davis_email(w) in c.emails) for c in net.contacts}
     t = net.all_ties
