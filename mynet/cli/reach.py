@@ -7,17 +7,17 @@ import click
 from ..network import load_network
 from ..reach import reach, resolve_targets
 from ..workspace import find_contact
-from ._common import emit_json, json_option, note
+from ._common import echo, emit_json, json_option, note
 
 
 def print_path(rank: int, p: dict) -> None:
     chain = " -> ".join(["you", *p["names"]])
-    click.echo(f"{rank}. {chain}   score {p['score']:.3f}")
+    echo(f"{rank}. {chain}   score {p['score']:.3f}")
     for step in p["steps"]:
         frm = "you" if step["from"] == "you" else p["names"][p["path"].index(step["from"])]
         mark = "  <- weakest" if step is p["steps"][p["weakest_step"]["index"]] else ""
-        click.echo(f"     {frm} -> {step['to_name']} ({step['strength']:.2f}): {step['why'] or 'linked'}{mark}")
-    click.echo(f"     ask: {p['ask']}")
+        echo(f"     {frm} -> {step['to_name']} ({step['strength']:.2f}): {step['why'] or 'linked'}{mark}")
+    echo(f"     ask: {p['ask']}")
 
 
 def register(cli: click.Group) -> None:
@@ -47,30 +47,30 @@ def register(cli: click.Group) -> None:
             return
         what = {"person": "", "organisation": "at ", "tag": "tagged ", "domain": "@"}[targets.kind]
         matched = ", ".join(targets.matched)
-        click.echo(f"Reaching {what}{matched}: {len(targets.members)} {'person' if len(targets.members) == 1 else 'people'}")
+        echo(f"Reaching {what}{matched}: {len(targets.members)} {'person' if len(targets.members) == 1 else 'people'}")
         if targets.kind == "organisation" and targets.query.strip().lower() != matched.lower():
             note(f"'{targets.query}' matched: {matched}")
         known = [d for d in result.direct if not d.get("insider") and not d["weak"] and not d["dormant"]]
         for d in known:
-            click.echo(f"You already know {d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'}): "
+            echo(f"You already know {d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'}): "
                        "you can ask them yourself; the paths below are other ways in.")
         insiders = [d for d in result.direct if d.get("insider")]
         if insiders:
-            click.echo("You already know: " + "; ".join(f"{d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'})" for d in insiders))
+            echo("You already know: " + "; ".join(f"{d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'})" for d in insiders))
         if not result.paths:
-            click.echo("No intro path found" + (f" within {max_intermediaries} intermediaries" if max_intermediaries else "")
+            echo("No intro path found" + (f" within {max_intermediaries} intermediaries" if max_intermediaries else "")
                        + ". Try --max-intermediaries 3, fewer --avoid, or add ties you know of (mynet tie A B).")
         for rank, p in enumerate(result.paths, 1):
-            click.echo("")
+            echo("")
             print_path(rank, p)
         cold = [d for d in result.direct if not d.get("insider") and (d["weak"] or d["dormant"])]
         for d in cold:
             state = "dormant" if d["dormant"] else "weak"
-            click.echo(f"\nDirect route for comparison: you -> {d['name']} (warmth {d['warmth']:.2f}, {state}, last {d['last'] or '-'})")
+            echo(f"\nDirect route for comparison: you -> {d['name']} (warmth {d['warmth']:.2f}, {state}, last {d['last'] or '-'})")
         if len(result.per_target) > 1:
-            click.echo("\nBest way to each person there:")
+            echo("\nBest way to each person there:")
             for e in result.per_target:
                 b = e["best"]
-                click.echo(f"  {e['name']}{' (past)' if e['past'] else ''}: {' -> '.join(['you', *b['names']])}  score {b['score']:.3f}")
+                echo(f"  {e['name']}{' (past)' if e['past'] else ''}: {' -> '.join(['you', *b['names']])}  score {b['score']:.3f}")
         if result.unreachable:
-            click.echo(f"No path to: {', '.join(net.name(m) for m in result.unreachable)}")
+            echo(f"No path to: {', '.join(net.name(m) for m in result.unreachable)}")

@@ -9,7 +9,7 @@ import click
 
 from ..export import FORMATS, export_network
 from ..report import MAX_CONTACTS_DRAWN, STEPS, write_report
-from ._common import note
+from ._common import echo, note
 
 
 @contextmanager
@@ -51,7 +51,7 @@ def register(cli: click.Group) -> None:
         with _progress("report", STEPS) as step:
             path = write_report(store, out, markdown=markdown, redact=redact, seed=seed, max_contacts=max_contacts,
                                 progress=step)
-        click.echo(str(path))
+        echo(str(path))
         if markdown:
             note(f"Pictures in {path.with_name(path.stem + '_files')}/")
         note("Redacted: names and addresses are pseudonyms." if redact
@@ -71,4 +71,4 @@ def register(cli: click.Group) -> None:
             step("export")
             paths = export_network(store, output, fmt, redact=redact)
         for p in paths:
-            click.echo(str(p))
+            echo(str(p))

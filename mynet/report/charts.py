@@ -46,7 +46,9 @@ MAX_EDGES_DRAWN = 4000
 #: Groups named one by one in the legend (the rest are counted).
 LEGEND_GROUPS = 14
 _RC = {"svg.fonttype": "path", "font.family": "DejaVu Sans", "hatch.linewidth": 0.6, "axes.spines.top": False,
-       "axes.spines.right": False, "figure.facecolor": "white", "axes.facecolor": "white"}
+       "axes.spines.right": False, "figure.facecolor": "white", "axes.facecolor": "white",
+       # Names are text, never formulas: a "$" in a name must not start matplotlib's math mode.
+       "text.parse_math": False}
 
 
 def group_style(index: int) -> tuple[str, str, str]:

@@ -21,13 +21,14 @@ from textual.binding import Binding
 from textual.containers import Horizontal
 from textual.reactive import reactive
 from textual.screen import Screen
-from textual.widgets import ContentSwitcher, Footer, Input, Static
+from textual.widgets import ContentSwitcher, Footer, Input
 
 from ..errors import MynetError
 from ..locations import resolve_workspace_path
+from ..safetext import shown
 from ..store import Store
 from .data import Extras, Snapshot, load_extras, load_snapshot, peek_snapshot, with_store
-from .look import THEME, plural
+from .look import THEME, Static, plural
 
 __all__ = ["MynetApp", "create_app", "VIEWS"]
 
@@ -339,7 +340,7 @@ class MynetApp(App):
         text = str(exc) if isinstance(exc, MynetError) else f"Something went wrong: {type(exc).__name__}: {exc}"
         self.error = text
         self.status_text = text
-        self.notify(text, severity="error", timeout=8)
+        self.notify(shown(text), severity="error", timeout=8, markup=False)
         if self.snapshot is None:
             self.main.query_one("#groups").loading = False
 

@@ -9,15 +9,15 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
-from textual.widgets import Label, Static
 from textual.worker import WorkerState
 
 from ..network import describe, evidence_summary
+from ..safetext import shown
 from ..workspace import contact_records
 from ..workspace_ties import add_tie, rate_contact, remove_tie
 from .app import Page
 from .data import Snapshot, tier_of, with_store
-from .look import clip, plural, warmth_bar
+from .look import Label, Static, clip, plural, warmth_bar
 from .rowlist import Col, Row, RowList
 from .screens import AskScreen
 from .views_main import group_title
@@ -285,7 +285,9 @@ class PersonScreen(Page):
         def who(text: str | None) -> None:
             if not text or not text.strip():
                 return
-            exact = [c for c in snap.contacts if c.name.casefold() == text.strip().casefold() and c.id != self.cid]
+            typed = text.strip().casefold()
+            exact = [c for c in snap.contacts if c.id != self.cid
+                     and typed in (c.name.casefold(), shown(c.name, one_line=True).casefold())]
             hits = exact or [c for c in snap.search(text) if c.id != self.cid]
             if len(hits) != 1:
                 self.app.status_text = (f"Nobody matches {text!r}." if not hits else  # type: ignore[attr-defined]

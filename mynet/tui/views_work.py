@@ -8,14 +8,15 @@ from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
-from textual.widgets import Input, OptionList, Static
+from textual.widgets import Input, OptionList
 from textual.widgets.option_list import Option
 from textual.worker import WorkerState
 
 from ..errors import MynetError
 from ..reach import reach, resolve_targets
+from ..safetext import shown
 from .data import Choice, Snapshot, tier_of
-from .look import clip, plural, severity_tag
+from .look import Static, clip, plural, safe, severity_tag
 from .rowlist import Col, Row, RowList
 
 __all__ = ["ReachView", "DuplicatesView", "FindingsView", "match_choices", "path_text"]
@@ -110,7 +111,8 @@ class ReachView(Vertical):
         options.clear_options()
         for ch in self.choices:
             extra = f"  {plural(ch.count, 'person', 'people')}" if ch.kind != "person" else ""
-            options.add_option(Option(Text.assemble((f"{KIND_WORD[ch.kind]:<7}", "bold"), ch.label, (extra, "italic"))))
+            options.add_option(Option(safe(Text.assemble((f"{KIND_WORD[ch.kind]:<7}", "bold"), ch.label, (extra, "italic")),
+                                           one_line=True)))
         options.display = bool(self.choices)
         if self.choices:
             options.highlighted = 0
@@ -142,7 +144,7 @@ class ReachView(Vertical):
         self.query_one(OptionList).display = False
         inp = self.query_one(Input)
         with inp.prevent(Input.Changed):
-            inp.value = ch.label if ch.kind != "person" else ch.label.split(" (")[0]
+            inp.value = shown(ch.label if ch.kind != "person" else ch.label.split(" (")[0], one_line=True)
         self.run_query(ch.kind, ch.value, ch.label)
 
     # -- the query -----------------------------------------------------------------------
@@ -152,9 +154,9 @@ class ReachView(Vertical):
         if snap is None:
             return
         inp = self.query_one(Input)
-        if inp.value != (label.split(" (")[0] if kind == "person" else label):
+        if inp.value != shown(label.split(" (")[0] if kind == "person" else label, one_line=True):
             with inp.prevent(Input.Changed):
-                inp.value = label.split(" (")[0] if kind == "person" else label
+                inp.value = shown(label.split(" (")[0] if kind == "person" else label, one_line=True)
         self.query_one(OptionList).display = False
         self.query_one("#reach-head", Static).update(f"Looking for the warmest ways to {label}…")
         self.query_one(RowList).set_rows([])
