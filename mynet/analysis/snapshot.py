@@ -171,8 +171,9 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     summary = network_summary(G, group_of, flat, seed=model.seed)
     new_state = {"groups": {str(g): m for g, m in groups.items()},
                  "next_id": max([int(state.get("next_id", 1)), *[g + 1 for g in groups]])}
-    with store.transaction():
-        store.set_meta(STATE_KEY, json.dumps(new_state))
+    if not store.read_only:  # group ids stay stable from the next writable run on
+        with store.transaction():
+            store.set_meta(STATE_KEY, json.dumps(new_state))
     return Analysis(fp, float(gr.modularity), model.resolution, infos, group_of, measures, _jsonable(info),
                     _jsonable(bridges), _jsonable(links), _jsonable(access), _jsonable(summary), _jsonable(events))
 
