@@ -372,15 +372,24 @@ def register(cli: click.Group) -> None:
         Later imports of the same files leave them out (mynet keeps only salted
         hashes of their addresses, numbers and names, never the values).
         """
-        from ..privacy import forget_contact
+        from ..privacy import forget_contact, written_files
 
         store = obj.store()
         c = find_contact(store, who)
         if not yes:
             confirm_or_refuse(f"Forget {c.name} (id {c.id}) completely? This cannot be undone")
+        files = written_files(store)
         rep = forget_contact(store, c.id)
         echo(f"Forgotten: {plural(rep['records'], 'record')} removed, {rep['interactions_scrubbed']} meetings/messages "
-                   f"cleaned, {rep['decisions']} decisions dropped; the workspace file was compacted.")
+             f"cleaned, {rep['decisions']} decisions dropped; the workspace file was compacted.")
+        if files:
+            note(f"Files written earlier from this workspace may still name {c.name}; mynet does not change them. "
+                 "Delete them or write them again:")
+            for f in files:
+                note(f"  {f}")
+        else:
+            note(f"Reports and exports written earlier (mynet report, mynet export) are separate files: any that name "
+                 f"{c.name} still do until you delete them or write them again.")
 
     @cli.command("apart")
     @click.argument("a")

@@ -5,7 +5,7 @@ from __future__ import annotations
 import click
 
 from ..network import load_network
-from ..reach import reach, resolve_targets
+from ..reach import distinct_names, reach, resolve_targets
 from ..workspace import find_contact
 from ._common import echo, emit_json, json_option, note
 
@@ -69,8 +69,13 @@ def register(cli: click.Group) -> None:
             echo(f"\nDirect route for comparison: you -> {d['name']} (warmth {d['warmth']:.2f}, {state}, last {d['last'] or '-'})")
         if len(result.per_target) > 1:
             echo("\nBest way to each person there:")
-            for e in result.per_target:
+            labels = distinct_names(net, [e["target"] for e in result.per_target])
+            for e, label in zip(result.per_target, labels):
                 b = e["best"]
-                echo(f"  {e['name']}{' (past)' if e['past'] else ''}: {' -> '.join(['you', *b['names']])}  score {b['score']:.3f}")
+                echo(f"  {label}{' (past)' if e['past'] else ''}: {' -> '.join(['you', *b['names']])}  score {b['score']:.3f}")
         if result.unreachable:
-            echo(f"No path to: {', '.join(net.name(m) for m in result.unreachable)}")
+            labels = distinct_names(net, result.unreachable)
+            echo(f"No path to: {', '.join(labels)}")
+            if any(label != net.name(m) for label, m in zip(labels, result.unreachable)):
+                note("Names shown with an id are separate contacts with the same name; if one person has two entries, "
+                     "merge them (mynet contacts --suggested)")

@@ -52,6 +52,9 @@ def register(cli: click.Group) -> None:
             path = write_report(store, out, markdown=markdown, redact=redact, seed=seed, max_contacts=max_contacts,
                                 progress=step)
         echo(str(path))
+        from ..privacy import remember_written
+
+        remember_written(store, [str(path.resolve())] + ([str(path.with_name(path.stem + "_files").resolve())] if markdown else []))
         if markdown:
             note(f"Pictures in {path.with_name(path.stem + '_files')}/")
         note("Redacted: names and addresses are pseudonyms." if redact
@@ -72,3 +75,6 @@ def register(cli: click.Group) -> None:
             paths = export_network(store, output, fmt, redact=redact)
         for p in paths:
             echo(str(p))
+        from ..privacy import remember_written
+
+        remember_written(store, [str(Path(p).resolve()) for p in paths])
