@@ -182,8 +182,8 @@ def _clean_value(value: Any, name: str, found: list[str]) -> Any:
         return new
     if isinstance(value, list):
         return [_clean_value(v, name, found) for v in value]
-    if isinstance(value, dict):
-        return {k: _clean_value(v, name, found) for k, v in value.items()}
+    if isinstance(value, dict):  # display names by address: the address is cleaned as the participants are
+        return {_clean_value(k, name, found): _clean_value(v, name, found) for k, v in value.items()}
     if is_dataclass(value):
         _clean_object(value, found)
         return value
@@ -217,7 +217,9 @@ def _clean_object(obj: Any, found: list[str], skip: tuple[str, ...] = ()) -> lis
 _FIELD_WORDS = {"full_name": "the name", "given": "the given name", "family": "the family name",
                 "nicknames": "a nickname", "emails": "an e-mail address", "orgs": "an organisation",
                 "titles": "a title", "notes": "a note", "title": "the title", "names": "a display name",
-                "tags": "a tag", "addresses": "an address", "phones": "a phone number"}
+                "tags": "a tag", "addresses": "a postal address", "phones": "a phone number",
+                "participants": "an e-mail address", "organizer": "the organiser's address",
+                "sender": "the sender's address", "key": "the identifier", "thread": "the thread", "uid": "the UID"}
 
 #: At most this many lines are named one by one; the rest are counted.
 MAX_LINES_NAMED = 20
