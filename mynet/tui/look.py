@@ -73,26 +73,23 @@ def safe(content: Any, *, one_line: bool = False) -> Text:
     return Text(shown("" if content is None else content, one_line=one_line))
 
 
-class Static(widgets.Static):
-    """Textual's ``Static`` for text from the workspace: no markup, controls shown (see :func:`safe`)."""
+class _SafeText:
+    """Text from the workspace: no markup, controls shown (see :func:`safe`); mixed into Textual's widgets."""
 
     def __init__(self, content: Any = "", **kw: Any) -> None:
         kw.setdefault("markup", False)
-        super().__init__(safe(content), **kw)
+        super().__init__(safe(content), **kw)  # type: ignore[call-arg]
 
     def update(self, content: Any = "", *, layout: bool = True) -> None:
-        super().update(safe(content), layout=layout)
+        super().update(safe(content), layout=layout)  # type: ignore[misc]
 
 
-class Label(widgets.Label):
-    """Textual's ``Label`` for text from the workspace: no markup, controls shown (see :func:`safe`)."""
+class Static(_SafeText, widgets.Static):
+    """Textual's ``Static`` for text from the workspace."""
 
-    def __init__(self, content: Any = "", **kw: Any) -> None:
-        kw.setdefault("markup", False)
-        super().__init__(safe(content), **kw)
 
-    def update(self, content: Any = "", *, layout: bool = True) -> None:
-        super().update(safe(content), layout=layout)
+class Label(_SafeText, widgets.Label):
+    """Textual's ``Label`` for text from the workspace."""
 
 
 def clip(text: str, width: int) -> str:
