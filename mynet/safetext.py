@@ -193,6 +193,19 @@ def _clean_value(value: Any, name: str, found: list[str]) -> Any:
 _FIELDS: dict[type, tuple[str, ...]] = {}
 
 
+def _printable_list(values: list) -> bool:
+    """A list of strings (or of lists of strings) that needs no cleaning: the quick test before the slow one."""
+    flat = []
+    for v in values:
+        if v.__class__ is str:
+            flat.append(v)
+        elif v.__class__ is list and all(x.__class__ is str for x in v):
+            flat.extend(v)
+        else:
+            return False
+    return "".join(flat).isprintable()
+
+
 def _clean_object(obj: Any, found: list[str], skip: tuple[str, ...] = ()) -> list[str]:
     """Clean every text field of a dataclass in place; returns the names of the fields changed."""
     changed = []
@@ -203,7 +216,14 @@ def _clean_object(obj: Any, found: list[str], skip: tuple[str, ...] = ()) -> lis
         if name in skip:
             continue
         value = getattr(obj, name)
-        if isinstance(value, (int, float, bool)) or value is None:
+        kind = value.__class__
+        if kind is str:
+            if value.isprintable():
+                continue
+        elif kind is list:
+            if not value or _printable_list(value):
+                continue
+        elif value is None or kind in (int, float, bool):
             continue
         before = len(found)
         new = _clean_value(value, name, found)
