@@ -32,8 +32,8 @@ def group_title(snap: Snapshot, gid: int | None) -> Text:
     if g is None:
         return Text("not in a group", style="italic")
     if g.user_named:
-        return Text(g.name)
-    return Text(SUGGESTED + g.name, style="italic")
+        return Text(shown(g.name, one_line=True))
+    return Text(shown(SUGGESTED + g.name, one_line=True), style="italic")
 
 
 def group_facts(snap: Snapshot, gid: int) -> str:

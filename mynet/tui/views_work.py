@@ -48,13 +48,13 @@ def path_text(p: dict[str, Any]) -> Text:
     names = ["you", *p["names"]]
     weakest = p["weakest_step"]["index"]
     for i, step in enumerate(p["steps"]):
-        out.append(f"{names[i]} → {step['to_name']}", style="bold")
+        out.append(shown(f"{names[i]} → {step['to_name']}", one_line=True), style="bold")
         out.append(f"  {step['strength']:.2f}")
         if i == weakest and len(p["steps"]) > 1:
             out.append("  ◂ weakest step", style="bold #e3a33b")
-        out.append(f"\n    {step['why'] or 'linked'}\n")
+        out.append(f"\n    {shown(step['why'] or 'linked', one_line=True)}\n")
     out.append("Ask: ", style="bold")
-    out.append(p["ask"])
+    out.append(shown(p["ask"]))
     return out
 
 
@@ -236,12 +236,12 @@ def _side(snap: Snapshot, cid: int) -> Text:
     if c is None:
         return Text("(gone)")
     w, tier, last = tier_of(snap.net, cid)
-    lines = [Text(f"{c.name}  #{c.id}", style="bold")]
+    lines = [Text(shown(f"{c.name}  #{c.id}", one_line=True), style="bold")]
     for label, values in (("works at", c.orgs), ("worked at", c.past_orgs), ("e-mail", c.emails), ("phone", c.phones),
                           ("tags", c.tags), ("place", c.localities),
                           ("files", sorted({s.rsplit('/', 1)[-1] for s in c.sources}))):
         if values:
-            lines.append(Text(f"{label:<9} {', '.join(values)}"))
+            lines.append(Text(shown(f"{label:<9} {', '.join(values)}", one_line=True)))
     lines.append(Text(f"{'warmth':<9} {w:.2f} {tier}, last {last or '–'}"))
     return Text("\n").join(lines)
 
@@ -376,19 +376,19 @@ class FindingsView(Vertical):
             return
         f = findings[key]
         out = Text()
-        out.append(f.get("title", ""), style="bold")
-        out.append("\n" + str(f.get("detail", "")))
+        out.append(shown(f.get("title", "")), style="bold")
+        out.append("\n" + shown(f.get("detail", "")))
         numbers = f.get("numbers") or {}
         snap = self.app.snapshot  # type: ignore[attr-defined]
-        shown = {k: v for k, v in numbers.items() if not isinstance(v, (list, tuple, dict))}
-        if shown:
-            out.append("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in shown.items()), style="italic")
+        plain = {k: v for k, v in numbers.items() if not isinstance(v, (list, tuple, dict))}
+        if plain:
+            out.append(shown("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in plain.items())), style="italic")
         people = numbers.get("people")
         if snap is not None and isinstance(people, list) and people and all(isinstance(p, int) for p in people):
-            out.append("\nPeople: " + ", ".join(snap.net.name(p) for p in people[:12]) + ("…" if len(people) > 12 else ""))
+            out.append(shown("\nPeople: " + ", ".join(snap.net.name(p) for p in people[:12]) + ("…" if len(people) > 12 else "")))
         if f.get("suggestion"):
             out.append("\nWhat to do: ", style="bold")
-            out.append(str(f["suggestion"]))
+            out.append(shown(f["suggestion"]))
         box.update(out)
 
     def on_row_list_highlighted(self, event: RowList.Highlighted) -> None:
