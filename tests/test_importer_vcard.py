@@ -134,6 +134,14 @@ def test_mixed_line_ends_within_one_file(ends):
     assert result.skipped == [] and result.warnings == []
 
 
+def test_line_ends_mixed_within_one_card():
+    data = (b"BEGIN:VCARD\rVERSION:3.0\r\nN:Moss;Cara;;;\nFN:Cara Moss\rEMAIL:cara@example.org\rORG:Velvane\r\n"
+            b"END:VCARD\r\nBEGIN:VCARD\r\nVERSION:3.0\rFN:Di Park\rEMAIL:di@example.org\r\nEND:VCARD\r")
+    result = parse_vcard(data, "mixed.vcf")
+    assert [(r.line, r.full_name, r.emails, r.orgs) for r in result.records] == [
+        (1, "Cara Moss", ["cara@example.org"], ["Velvane"]), (8, "Di Park", ["di@example.org"], [])]
+
+
 # ------------------------------------------------------------ structure
 
 
