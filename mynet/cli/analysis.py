@@ -158,7 +158,7 @@ def register(cli: click.Group) -> None:
             echo("\nGroups you reach only through one person:")
             for x in spof:
                 echo(f"  {net.name(x['person'])} -> " + "; ".join(groups.get(g, str(g)) for g in x["groups"])
-                           + f" ({len(x.get('cut_off', []))} people cut off without them)")
+                     + f" ({len(x.get('cut_off', []))} people cut off without them)")
 
     @cli.command("bridges")
     @click.option("--limit", type=int, default=15, show_default=True)

@@ -196,8 +196,8 @@ def register(cli: click.Group) -> None:
                 emit_json(dict(rep))
                 return
             echo(f"Removed {rep['source']}: {rep['records']} records, {rep['interactions']} events/messages, "
-                       f"{rep['decisions']} decisions about people only it held (your decisions about people still "
-                       f"in other files are kept: {rep['decisions_kept']}); the workspace file was compacted.")
+                 f"{rep['decisions']} decisions about people only it held (your decisions about people still "
+                 f"in other files are kept: {rep['decisions_kept']}); the workspace file was compacted.")
             return
         rows = obj.store().sources()
         if as_json:

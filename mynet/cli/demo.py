@@ -56,7 +56,7 @@ def register(cli: click.Group) -> None:
             if personal:
                 update_list_setting(store, "webmail_domains", ",".join(d for d in personal if d != "example.org"))
                 echo("   This invented world's private mail domains are declared as webmail (they say nothing about "
-                           f"an employer): mynet settings webmail_domains={','.join(d for d in personal if d != 'example.org')}")
+                     f"an employer): mynet settings webmail_domains={','.join(d for d in personal if d != 'example.org')}")
 
             heading("2. Import the exports")
             files = [src / f for f in SOURCE_FILES if (src / f).exists()]

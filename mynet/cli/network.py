@@ -64,7 +64,7 @@ def register(cli: click.Group) -> None:
             emit_json(ex)
             return
         echo(f"{ca.name} ({ca.id}) and {cb.name} ({cb.id}): strength {ex['strength']:.2f}"
-                   + ("" if ex["in_graph"] or not ex["strength"] else " (below the threshold, not in the graph)"))
+             + ("" if ex["in_graph"] or not ex["strength"] else " (below the threshold, not in the graph)"))
         if not ex["evidence"]:
             echo("  No evidence that they know each other.")
             echo(f"  If they do: mynet tie {ca.id} {cb.id} --note \"how they know each other\"")

@@ -53,13 +53,13 @@ def register(cli: click.Group) -> None:
         known = [d for d in result.direct if not d.get("insider") and not d["weak"] and not d["dormant"]]
         for d in known:
             echo(f"You already know {d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'}): "
-                       "you can ask them yourself; the paths below are other ways in.")
+                 "you can ask them yourself; the paths below are other ways in.")
         insiders = [d for d in result.direct if d.get("insider")]
         if insiders:
             echo("You already know: " + "; ".join(f"{d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'})" for d in insiders))
         if not result.paths:
             echo("No intro path found" + (f" within {max_intermediaries} intermediaries" if max_intermediaries else "")
-                       + ". Try --max-intermediaries 3, fewer --avoid, or add ties you know of (mynet tie A B).")
+                 + ". Try --max-intermediaries 3, fewer --avoid, or add ties you know of (mynet tie A B).")
         for rank, p in enumerate(result.paths, 1):
             echo("")
             print_path(rank, p)
