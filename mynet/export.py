@@ -17,6 +17,10 @@ One graph (:func:`network_graph`) is the single source of every format:
   number. Booleans are written ``true`` / ``false``.
 * **JSON**: networkx's node-link form (``nx.node_link_data(G, edges="edges")``).
 
+Text attributes pass through :func:`mynet.safetext.shown`, so every file is
+valid whatever the workspace holds (GraphML: XML 1.0's Char production; no
+raw ESC or other control character in any cell).
+
 Tie strength is the edge attribute ``weight``. Free-text notes and web
 addresses are not exported. With ``redact=True`` the graph is built from the
 redacted network (see :mod:`mynet.report.redact`). Files are written
@@ -43,6 +47,7 @@ from .network import Network, basis, evidence_summary, load_network, tie_words
 from .report import check_redacted
 from .report._io import write_private
 from .report.redact import redact_analysis, redact_network
+from .safetext import shown
 from .store import Store
 
 __all__ = ["FORMATS", "network_graph", "graphml_text", "csv_texts", "json_text", "neutralise", "csv_paths",
@@ -129,7 +134,21 @@ def network_graph(net: Network, analysis: Analysis, *, redacted: bool = False) -
         items = evidence_summary(net, i)
         e["basis"] = basis(items)
         _put(e, "evidence", tie_words(items))
+    _shown_attributes(G)
     return G
+
+
+def _shown_attributes(G: nx.Graph) -> None:
+    """Every text attribute passed through :func:`mynet.safetext.shown`.
+
+    Whatever the workspace holds, the files then carry no control character
+    but tab and newline: GraphML stays well-formed XML 1.0 and no CSV or JSON
+    cell can act on the terminal that shows it.
+    """
+    for attrs in (G.graph, *(d for _n, d in G.nodes(data=True)), *(d for _a, _b, d in G.edges(data=True))):
+        for key, value in attrs.items():
+            if isinstance(value, str):
+                attrs[key] = shown(value)
 
 
 def graphml_text(G: nx.Graph) -> str:

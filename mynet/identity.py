@@ -385,6 +385,19 @@ def canonical_orgs(names: Iterable[str], aliases: dict[str, str] | None = None) 
     return out
 
 
+def _family_first(rec, before_comma: str) -> bool:
+    """Whether a name written "A, B" puts the family name first.
+
+    A card's structured name (vCard N) decides when it gives one: only when
+    the part before the comma is N's family name ("Lind, Ana" with N
+    ``Lind;Ana``); "Ana Lind, MD" with N ``Lind;Ana;;;MD`` stays as written.
+    Without N (a CSV row), "Lind, Ana" is read family first, as exports write it.
+    """
+    if not (rec.family.strip() or rec.given.strip()):
+        return True
+    return fold_text(before_comma) == fold_text(rec.family)
+
+
 def _pick_name(stored: list[StoredRecord]) -> str:
     """The most informative display name among a contact's records.
 
@@ -399,7 +412,7 @@ def _pick_name(stored: list[StoredRecord]) -> str:
             continue
         if "," in name and name.count(",") == 1 and not s.record.full_name.strip().endswith(","):
             last, first = name.split(",")
-            if first.strip() and last.strip():
+            if first.strip() and last.strip() and _family_first(s.record, last):
                 name = f"{first.strip()} {last.strip()}"
         counts[name] += 1
         non_ascii = any(ord(ch) > 127 for ch in name)

@@ -18,7 +18,7 @@ from .errors import MynetError
 from .model import Contact, Interaction
 from .normalise import email_domain, fold_text, is_webmail, normalise_email, normalise_name, normalise_org
 from .store import Store
-from .ties import ASSUMED_KINDS, KINDS, OBSERVED_KINDS, EventIndex, TieModel, TieTable, disparity_filter, infer_ties
+from .ties import KINDS, OBSERVED_KINDS, EventIndex, TieModel, TieTable, disparity_filter, infer_ties
 from .warmth import Warmth, WarmthModel, compute_warmth
 
 __all__ = ["Network", "AsOf", "resolve_as_of", "load_network", "load_warmth", "describe", "tie_words", "explain_tie",

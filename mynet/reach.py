@@ -19,7 +19,7 @@ from .normalise import email_domain, fold_text, normalise_org
 from .paths import IntroPath, PathIndex, best_per_target, direct_route, find_paths
 
 __all__ = ["Targets", "resolve_targets", "path_index", "reach", "ReachResult", "org_catalogue", "tag_catalogue",
-           "no_path_reason"]
+           "no_path_reason", "distinct_names"]
 
 
 @dataclass
@@ -115,6 +115,19 @@ def resolve_targets(
     if not members:
         raise NotFoundError(f"no contact has an e-mail address at {dom}")
     return Targets("domain", query, members, [dom])
+
+
+def distinct_names(net: Network, ids: list[int]) -> list[str]:
+    """The names of ``ids`` for one listing, each followed by its id when another in the list shares it.
+
+    Two contacts may carry one name (the same person not merged yet, or two
+    people); listed bare, they read as one person named twice.
+    """
+    names = [net.name(i) for i in ids]
+    seen = {}
+    for nm in names:
+        seen[nm] = seen.get(nm, 0) + 1
+    return [f"{nm} (id {i})" if seen[nm] > 1 else nm for nm, i in zip(names, ids)]
 
 
 def path_index(net: Network) -> PathIndex:

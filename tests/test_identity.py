@@ -144,3 +144,20 @@ def test_calendar_addresses_link_to_the_one_contact_with_that_name():
     assert link_addresses_by_name([ana, bo1, bo2], [it], Me(emails={"you@example.org"})) == 1
     assert ana.emails == ["ana@home.example", "ana.lind@work.example"]
     assert bo1.emails == ["bo@a.example"] and bo2.emails == ["bo@b.example"]  # ambiguous name: not linked
+
+
+def test_a_comma_in_a_card_name_is_read_by_n_not_guessed():
+    # vCard N (RFC 6350 section 6.2.2) gives the family name: it decides whether "A, B" is "family, given".
+    def card(i, fn, family="", given="", suffix=""):
+        r = rec(i, fn, [f"p{i}@e.example"])
+        r.family, r.given, r.suffix = family, given, suffix
+        return r
+
+    rs = stored([
+        card(0, "Lind, Ana", "Lind", "Ana"),                 # N agrees: family first, shown "Ana Lind"
+        card(1, "Bo Ek, MD", "Ek", "Bo", "MD"),              # N says otherwise: kept as written
+        card(2, "Cy Moss, Jr.", "Moss", "Cy", "Jr."),
+        card(3, "Vik, Di"),                                 # no N (as a CSV row): family first
+    ])
+    names = {c.name for c in resolve(rs, {}, Decisions(), Me()).contacts}
+    assert names == {"Ana Lind", "Bo Ek, MD", "Cy Moss, Jr.", "Di Vik"}

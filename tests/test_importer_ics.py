@@ -411,6 +411,18 @@ def test_bom_crcrlf_cp1252_and_folds():
     assert any("Windows-1252" in w for w in res.warnings)
 
 
+def test_mixed_line_ends_within_one_file():
+    # RFC 5545 section 3.1 ends lines with CR LF; files mixing LF, CR LF and CR-only events are still read whole.
+    first = event("m1@example.org", ":20250101T100000Z", "ORGANIZER:mailto:o@example.org").replace("\n", "\r\n")
+    second = event("m2@example.org", ":20250102T100000Z", "ORGANIZER:mailto:o@example.org").replace("\n", "\r")
+    third = event("m3@example.org", ":20250103T100000Z", "ORGANIZER:mailto:o@example.org")
+    data = ("BEGIN:VCALENDAR\r\nVERSION:2.0\r\n" + first + "\r\n" + second + "\r" + third + "\nEND:VCALENDAR\r\n").encode()
+    res = parse(data)
+    assert [i.key.split("#")[0] for i in res.interactions] == ["m1@example.org", "m2@example.org", "m3@example.org"]
+    assert [i.line for i in res.interactions] == [3, 9, 15]
+    assert res.skipped == []
+
+
 def test_bare_vevent_and_utf16_files():
     bare = event("bare@example.org", ":20250101T100000Z", "ORGANIZER:mailto:o@example.org").replace("\n", "\r\n").encode()
     assert parse(bare).interactions[0].participants == ["o@example.org"]

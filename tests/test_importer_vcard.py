@@ -119,6 +119,29 @@ def test_cr_cr_lf_and_cr_only_line_ends():
     assert (rec.full_name, rec.notes) == ("Cy Example", ["folded note"])
 
 
+@pytest.mark.parametrize("ends", [("\r\n", "\r\n", "\r"), ("\n", "\r", "\r\n"), ("\r", "\r\n", "\r\r\n"),
+                                  ("\r\n", "\r", "\n")])
+def test_mixed_line_ends_within_one_file(ends):
+    # A CR-only card after CR LF cards (or any mix) is read, not dropped; lines are counted across the mix.
+    cards = ["BEGIN:VCARD\nVERSION:3.0\nFN:Ana One\nNOTE:folded\n  note\nEMAIL:a1@example.org\nEND:VCARD\n",
+             "BEGIN:VCARD\nVERSION:3.0\nFN:Bo Two\nEMAIL:b2@example.org\nEND:VCARD\n",
+             "BEGIN:VCARD\nVERSION:3.0\nFN:Cy Three\nEMAIL:c3@example.org\nEND:VCARD\n"]
+    data = "".join(card.replace("\n", end) for card, end in zip(cards, ends)).encode()
+    result = parse_vcard(data, "mixed.vcf")
+    assert [(r.line, r.full_name, r.emails) for r in result.records] == [
+        (1, "Ana One", ["a1@example.org"]), (8, "Bo Two", ["b2@example.org"]), (13, "Cy Three", ["c3@example.org"])]
+    assert result.records[0].notes == ["folded note"]
+    assert result.skipped == [] and result.warnings == []
+
+
+def test_line_ends_mixed_within_one_card():
+    data = (b"BEGIN:VCARD\rVERSION:3.0\r\nN:Moss;Cara;;;\nFN:Cara Moss\rEMAIL:cara@example.org\rORG:Velvane\r\n"
+            b"END:VCARD\r\nBEGIN:VCARD\r\nVERSION:3.0\rFN:Di Park\rEMAIL:di@example.org\r\nEND:VCARD\r")
+    result = parse_vcard(data, "mixed.vcf")
+    assert [(r.line, r.full_name, r.emails, r.orgs) for r in result.records] == [
+        (1, "Cara Moss", ["cara@example.org"], ["Velvane"]), (8, "Di Park", ["di@example.org"], [])]
+
+
 # ------------------------------------------------------------ structure
 
 

@@ -418,6 +418,36 @@ def test_changes_made_elsewhere_show_up(workspace):
     _run(run())
 
 
+def test_an_import_while_the_network_loads_is_noticed(workspace, tmp_path, monkeypatch):
+    # Another process imports right after the browser has read the workspace but before it shows it:
+    # the browser must not take that import as already shown (no polling here: watch_interval=0).
+    import mynet.tui.app as tui_app
+    from mynet.workspace import import_paths
+
+    extra = tmp_path / "late.vcf"
+    extra.write_text("BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Late Arrival\r\nEMAIL:late@arrival.example\r\nEND:VCARD\r\n")
+    real, calls = tui_app.load_snapshot, []
+
+    def load_then_someone_imports(*args, **kw):
+        snap = real(*args, **kw)
+        calls.append(1)
+        if len(calls) == 1:
+            with open_workspace(workspace) as store:
+                import_paths(store, [extra])
+        return snap
+
+    monkeypatch.setattr(tui_app, "load_snapshot", load_then_someone_imports)
+
+    async def run():
+        app = create_app(workspace, today=TODAY, watch_interval=0)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await until(pilot, lambda: app.snapshot is not None and len(calls) >= 2
+                        and any(c.name == "Late Arrival" for c in app.snapshot.contacts))
+            assert app.status_text == tui_app.CHANGED_ELSEWHERE
+
+    _run(run())
+
+
 def test_snapshot_search_matches_core_search_everywhere(workspace):
     snap = load_snapshot(workspace, TODAY)
     for text in ("", "kamau", "QUILLON", "rowing", "example.com", "Öztürk", "ozturk", "4477009", "nobody-at-all"):

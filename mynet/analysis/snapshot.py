@@ -179,7 +179,9 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     summary = network_summary(G, group_of, flat, seed=model.seed)
     new_state = {"groups": {str(g): m for g, m in groups.items()},
                  "next_id": max([int(state.get("next_id", 1)), *[g + 1 for g in groups]])}
-    if not _looking_back(net):  # a look at a past day never renumbers today's groups
+    # A look at a past day never renumbers today's groups; a read-only workspace keeps them from the next
+    # writable run on.
+    if not _looking_back(net) and not store.read_only:
         with store.transaction():
             store.set_meta(STATE_KEY, json.dumps(new_state))
     return Analysis(fp, float(gr.modularity), model.resolution, infos, group_of, measures, _jsonable(info),

@@ -1,4 +1,11 @@
-"""Helpers shared by the CLI commands: workspace access, JSON, tables, stderr notes."""
+"""Helpers shared by the CLI commands: workspace access, JSON, tables, stderr notes.
+
+Every line the CLI prints goes through :func:`echo` (or :func:`note`,
+:func:`table`, :func:`emit_json`, :func:`confirm`), which pass the text through
+:func:`mynet.safetext.shown`: a name or a file name holding a terminal escape
+sequence is shown, never obeyed. ``tests/test_hostile.py`` checks that no other
+module of the CLI prints by itself.
+"""
 
 from __future__ import annotations
 
@@ -8,6 +15,7 @@ from typing import Any, Iterable, Sequence
 
 import click
 
+from ..safetext import json_escape, shown
 from ..store import Store
 from ..workspace import open_workspace
 
@@ -26,24 +34,34 @@ class Ctx:
         return self._store
 
 
+def echo(text: Any = "", *, nl: bool = True, err: bool = False) -> None:
+    """Print text (stdout, or stderr with ``err``), control characters shown, never obeyed."""
+    click.echo(shown(text), nl=nl, err=err)
+
+
+def confirm(question: str) -> None:
+    """Ask yes/no on the terminal (the question shown safely); "no" aborts."""
+    click.confirm(shown(question, one_line=True), abort=True)
+
+
 def emit_json(data: Any) -> None:
-    """Print one JSON document on stdout."""
-    click.echo(json.dumps(data, ensure_ascii=False, indent=2, sort_keys=False))
+    """Print one JSON document on stdout (controls beyond JSON's own escaped as ``\\uXXXX``)."""
+    click.echo(json_escape(json.dumps(data, ensure_ascii=False, indent=2, sort_keys=False)))
 
 
 def note(text: str) -> None:
     """A diagnostic or progress line on stderr."""
-    click.echo(text, err=True)
+    echo(text, err=True)
 
 
 def clip(text: str, width: int) -> str:
-    text = " ".join(str(text).split())
+    text = " ".join(shown(text, one_line=True).split())
     return text if len(text) <= width else text[: max(0, width - 1)] + "…"
 
 
 def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequence[int] | None = None) -> str:
     """A plain aligned text table that fits the terminal (last column takes the rest)."""
-    rows = [[str(c) if c is not None else "" for c in r] for r in rows]
+    rows = [[" ".join(shown(c, one_line=True).split()) if c is not None else "" for c in r] for r in rows]
     total = shutil.get_terminal_size((100, 24)).columns
     if widths is None:
         widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(headers)]

@@ -20,7 +20,7 @@ from ..workspace import (
     set_me,
     unmerge_contact,
 )
-from ._common import as_of_option, clip, emit_json, json_option, note, table, when
+from ._common import as_of_option, clip, confirm, echo, emit_json, json_option, note, table, when
 
 
 def contact_json(c: Contact, extra: dict | None = None) -> dict:
@@ -68,7 +68,7 @@ def confirm_or_refuse(question: str) -> None:
 
     if not sys.stdin.isatty():
         raise MynetError("this changes your workspace for good; run it in a terminal to confirm, or add --yes")
-    click.confirm(question, abort=True)
+    confirm(question)
 
 
 def plural(n: int, word: str) -> str:
@@ -81,27 +81,27 @@ def print_import_report(report, as_json: bool) -> None:
         return
     for f in report.files:
         if f.status == "unchanged":
-            click.echo(f"{f.path}: unchanged since the last import")
+            echo(f"{f.path}: unchanged since the last import")
             continue
         if f.status == "refused":
-            click.echo(f"{f.path}: refused: {f.error}")
+            echo(f"{f.path}: refused: {f.error}")
             continue
         what = plural(f.records, "record") if f.kind in ("vcard", "csv") else plural(f.interactions, "event" if f.kind == "ics" else "message")
-        click.echo(f"{f.path}: {f.status}, {what} ({f.kind}){', ' + str(len(f.skipped)) + ' skipped' if f.skipped else ''}")
+        echo(f"{f.path}: {f.status}, {what} ({f.kind}){', ' + str(len(f.skipped)) + ' skipped' if f.skipped else ''}")
         for w in f.warnings:
             note(f"  note: {w}")
     if report.skipped:
-        click.echo(f"Skipped {len(report.skipped)} record(s):")
+        echo(f"Skipped {len(report.skipped)} record(s):")
         for s in report.skipped[:50]:
-            click.echo(f"  {s.source}:{s.line}: {s.reason}")
+            echo(f"  {s.source}:{s.line}: {s.reason}")
         if len(report.skipped) > 50:
-            click.echo(f"  ... and {len(report.skipped) - 50} more (see --json)")
+            echo(f"  ... and {len(report.skipped) - 50} more (see --json)")
     extra = ""
     if report.you_records:
         extra += f"; {report.you_records} record{'s are' if report.you_records != 1 else ' is'} you"
     if report.not_people:
         extra += f"; {report.not_people} {'are organisation or group cards' if report.not_people != 1 else 'is an organisation or group card'}"
-    click.echo(
+    echo(
         f"{report.records_total} records in the workspace -> {report.contacts_after} contacts: "
         f"{report.merged_records} duplicate records merged{extra}. "
         f"{report.suggestions} possible duplicates to review (mynet contacts --suggested)"
@@ -125,12 +125,12 @@ def register(cli: click.Group) -> None:
             emit_json({"emails": raw.get("emails", []), "names": raw.get("names", [])})
             return
         if not raw:
-            click.echo("You have not said who you are yet: mynet me --email you@example.org --name \"Your Name\"")
+            echo("You have not said who you are yet: mynet me --email you@example.org --name \"Your Name\"")
             return
-        click.echo(f"You: {', '.join(raw.get('names', [])) or '(no name)'} <{', '.join(raw.get('emails', []))}>")
+        echo(f"You: {', '.join(raw.get('names', [])) or '(no name)'} <{', '.join(raw.get('emails', []))}>")
         seen = json.loads(store.meta("me_seen_as", "[]") or "[]")
         if seen:
-            click.echo(f"Also you (your name on these addresses in meetings and mail): {', '.join(seen)}")
+            echo(f"Also you (your name on these addresses in meetings and mail): {', '.join(seen)}")
 
     @cli.command("import")
     @click.argument("paths", nargs=-1, required=True, type=click.Path())
@@ -195,18 +195,18 @@ def register(cli: click.Group) -> None:
             if as_json:
                 emit_json(dict(rep))
                 return
-            click.echo(f"Removed {rep['source']}: {rep['records']} records, {rep['interactions']} events/messages, "
-                       f"{rep['decisions']} decisions about people only it held (your decisions about people still "
-                       f"in other files are kept: {rep['decisions_kept']}); the workspace file was compacted.")
+            echo(f"Removed {rep['source']}: {rep['records']} records, {rep['interactions']} events/messages, "
+                 f"{rep['decisions']} decisions about people only it held (your decisions about people still "
+                 f"in other files are kept: {rep['decisions_kept']}); the workspace file was compacted.")
             return
         rows = obj.store().sources()
         if as_json:
             emit_json([{k: r[k] for k in ("id", "path", "kind", "sha256", "as_of", "imported_at", "n_records", "n_skipped")} for r in rows])
             return
         if not rows:
-            click.echo("No sources yet: mynet import FILE...")
+            echo("No sources yet: mynet import FILE...")
             return
-        click.echo(table(["id", "kind", "records", "skipped", "as of", "file"],
+        echo(table(["id", "kind", "records", "skipped", "as of", "file"],
                          [(r["id"], r["kind"], r["n_records"], r["n_skipped"], r["as_of"] or "", r["path"]) for r in rows]))
 
     @cli.command("contacts")
@@ -237,9 +237,9 @@ def register(cli: click.Group) -> None:
                 emit_json(people)
                 return
             if not people:
-                click.echo(f"Nobody outside your address book shows up {threshold} or more times.")
+                echo(f"Nobody outside your address book shows up {threshold} or more times.")
                 return
-            click.echo(table(["seen", "last", "name", "e-mail"], [(p["count"], p["last"], p["name"], p["email"]) for p in people]))
+            echo(table(["seen", "last", "name", "e-mail"], [(p["count"], p["last"], p["name"], p["email"]) for p in people]))
             note(f"{total} people met {threshold}+ times who are not in your address book")
             return
         if suggested:
@@ -249,12 +249,12 @@ def register(cli: click.Group) -> None:
                 emit_json([{"a": s.a, "b": s.b, "score": round(s.score, 3), "reason": s.reason} for s in sugg])
                 return
             if not sugg:
-                click.echo("No possible duplicates to review.")
+                echo("No possible duplicates to review.")
                 return
-            click.echo(table(["score", "a", "b", "why"], [
+            echo(table(["score", "a", "b", "why"], [
                 (f"{s.score:.2f}", f"{s.a} {names[s.a].name}", f"{s.b} {names[s.b].name}", s.reason) for s in sugg
             ]))
-            click.echo("\nSame person: mynet merge A B    Different people: mynet apart A B")
+            echo("\nSame person: mynet merge A B    Different people: mynet apart A B")
             return
         contacts = store.contacts()
         if search:
@@ -277,9 +277,9 @@ def register(cli: click.Group) -> None:
             emit_json([contact_json(c, extra_fields(c, warmth) | {"group": groups.get(c.id)}) for c in contacts])
             return
         if not contacts:
-            click.echo("No contacts match." if search else "No contacts yet: mynet import FILE...")
+            echo("No contacts match." if search else "No contacts yet: mynet import FILE...")
             return
-        click.echo(table(["id", "name", "organisation", "warmth", "last seen", "e-mail"], [
+        echo(table(["id", "name", "organisation", "warmth", "last seen", "e-mail"], [
             (c.id, c.name, ", ".join(c.orgs) or (f"(was {c.past_orgs[0]})" if c.past_orgs else ""),
              f"{warmth[c.id].warmth:.2f}" if warmth[c.id].warmth else "-", warmth[c.id].last or "-",
              c.emails[0] if c.emails else (c.phones[0] if c.phones else ""))
@@ -304,7 +304,7 @@ def register(cli: click.Group) -> None:
                              "titles": r.titles, "tags": r.tags} for rid, path, r in recs],
             }))
             return
-        click.echo(f"{c.name}  (id {c.id})")
+        echo(f"{c.name}  (id {c.id})")
         fields = [
             ("also known as", ", ".join(c.nicknames)),
             ("works at", ", ".join(c.orgs)),
@@ -318,15 +318,15 @@ def register(cli: click.Group) -> None:
         ]
         for label, value in fields:
             if value:
-                click.echo(f"  {label:<14}{value}")
+                echo(f"  {label:<14}{value}")
         for n in c.notes:
-            click.echo(f"  {'note':<14}{clip(n, 200)}")
-        click.echo(f"\nRecords behind this person ({len(recs)}):")
+            echo(f"  {'note':<14}{clip(n, 200)}")
+        echo(f"\nRecords behind this person ({len(recs)}):")
         for rid, path, r in recs:
             bits = [r.display_name()] + r.emails[:2] + r.phones[:1] + r.orgs[:1]
-            click.echo(f"  [{rid}] {path}:{r.line}  " + " | ".join(b for b in bits if b))
+            echo(f"  [{rid}] {path}:{r.line}  " + " | ".join(b for b in bits if b))
         if len(recs) > 1:
-            click.echo(f"\nWrongly merged? mynet unmerge {c.id} --record ID")
+            echo(f"\nWrongly merged? mynet unmerge {c.id} --record ID")
 
     @cli.command("merge")
     @click.argument("who", nargs=-1, required=True)
@@ -346,7 +346,7 @@ def register(cli: click.Group) -> None:
         if as_json:
             emit_json(contact_json(c))
             return
-        click.echo(f"Merged into {c.name} (id {c.id}), {len(c.record_ids)} records.")
+        echo(f"Merged into {c.name} (id {c.id}), {len(c.record_ids)} records.")
 
     @cli.command("unmerge")
     @click.argument("who")
@@ -361,7 +361,7 @@ def register(cli: click.Group) -> None:
         if as_json:
             emit_json([contact_json(p) for p in parts])
             return
-        click.echo("Now separate: " + "; ".join(f"{p.id} {p.name}" for p in parts))
+        echo("Now separate: " + "; ".join(f"{p.id} {p.name}" for p in parts))
 
     @cli.command("forget")
     @click.argument("who")
@@ -373,15 +373,24 @@ def register(cli: click.Group) -> None:
         Later imports of the same files leave them out (mynet keeps only salted
         hashes of their addresses, numbers and names, never the values).
         """
-        from ..privacy import forget_contact
+        from ..privacy import forget_contact, written_files
 
         store = obj.store()
         c = find_contact(store, who)
         if not yes:
             confirm_or_refuse(f"Forget {c.name} (id {c.id}) completely? This cannot be undone")
+        files = written_files(store)
         rep = forget_contact(store, c.id)
-        click.echo(f"Forgotten: {plural(rep['records'], 'record')} removed, {rep['interactions_scrubbed']} meetings/messages "
-                   f"cleaned, {rep['decisions']} decisions dropped; the workspace file was compacted.")
+        echo(f"Forgotten: {plural(rep['records'], 'record')} removed, {rep['interactions_scrubbed']} meetings/messages "
+             f"cleaned, {rep['decisions']} decisions dropped; the workspace file was compacted.")
+        if files:
+            note(f"Files written earlier from this workspace may still name {c.name}; mynet does not change them. "
+                 "Delete them or write them again:")
+            for f in files:
+                note(f"  {f}")
+        else:
+            note(f"Reports and exports written earlier (mynet report, mynet export) are separate files: any that name "
+                 f"{c.name} still do until you delete them or write them again.")
 
     @cli.command("apart")
     @click.argument("a")
@@ -392,4 +401,4 @@ def register(cli: click.Group) -> None:
         store = obj.store()
         ca, cb = find_contact(store, a), find_contact(store, b)
         reject_suggestion(store, ca.id, cb.id)
-        click.echo(f"Kept apart: {ca.id} {ca.name} / {cb.id} {cb.name}")
+        echo(f"Kept apart: {ca.id} {ca.name} / {cb.id} {cb.name}")

@@ -8,7 +8,7 @@ from ..errors import MynetError
 from ..network import basis, describe, evidence_summary, explain_tie, tie_words
 from ..workspace import find_contact
 from ..workspace_ties import LIST_SETTINGS, SETTING_GROUPS, add_tie, rate_contact, remove_tie, update_list_setting, update_settings
-from ._common import as_of_option, emit_json, json_option, load_net, note, table
+from ._common import as_of_option, echo, emit_json, json_option, load_net, note, table
 
 
 def register(cli: click.Group) -> None:
@@ -44,9 +44,9 @@ def register(cli: click.Group) -> None:
             emit_json(out)
             return
         if not total:
-            click.echo("No ties yet: import exports that share organisations, tags, meetings or mail threads.")
+            echo("No ties yet: import exports that share organisations, tags, meetings or mail threads.")
             return
-        click.echo(table(["strength", "between", "and", "why"], [
+        echo(table(["strength", "between", "and", "why"], [
             (f"{t.strength[i]:.2f}", f"{net.name(int(t.a[i]))} ({t.a[i]})", f"{net.name(int(t.b[i]))} ({t.b[i]})",
              tie_words(evidence_summary(net, int(i), t)))
             for i in order
@@ -70,28 +70,28 @@ def register(cli: click.Group) -> None:
         if as_json:
             emit_json(ex)
             return
-        click.echo(f"{ca.name} ({ca.id}) and {cb.name} ({cb.id}): strength {ex['strength']:.2f}"
-                   + ("" if ex["in_graph"] or not ex["strength"] else " (below the threshold, not in the graph)"))
+        echo(f"{ca.name} ({ca.id}) and {cb.name} ({cb.id}): strength {ex['strength']:.2f}"
+             + ("" if ex["in_graph"] or not ex["strength"] else " (below the threshold, not in the graph)"))
         if ex["basis"] == "assumed":
-            click.echo("  They may know each other: they share something, but nothing shows they have met or written.")
+            echo("  They may know each other: they share something, but nothing shows they have met or written.")
         if not any(e.get("counted", True) for e in ex["evidence"]):
             for ev in ex["evidence"]:
-                click.echo(f"  - {describe(ev)}")
-            click.echo("  No evidence that they know each other.")
-            click.echo(f"  If they do: mynet tie {ca.id} {cb.id} --note \"how they know each other\"")
+                echo(f"  - {describe(ev)}")
+            echo("  No evidence that they know each other.")
+            echo(f"  If they do: mynet tie {ca.id} {cb.id} --note \"how they know each other\"")
             return
         for ev in ex["evidence"]:
             line = describe(ev)
             if ev.get("provenance") and isinstance(ev["provenance"], list):
                 line += " per " + ", ".join(ev["provenance"][:6]) + ("..." if len(ev["provenance"]) > 6 else "")
-            click.echo(f"  - {line}")
+            echo(f"  - {line}")
             for r in ev.get("recent", []):
-                click.echo(f"      {r['date']}  {r.get('title') or r.get('subject') or ''}  ({r['provenance']})")
+                echo(f"      {r['date']}  {r.get('title') or r.get('subject') or ''}  ({r['provenance']})")
         if ex["contributions"]:
             parts = ", ".join(f"{k} {v:.2f}" for k, v in ex["contributions"].items())
-            click.echo(f"  How the strength adds up: {parts}; combined as 1 - product of (1 - each) = {ex['strength']:.2f}")
+            echo(f"  How the strength adds up: {parts}; combined as 1 - product of (1 - each) = {ex['strength']:.2f}")
         if ex["suppressed"]:
-            click.echo(f"  You suppressed this tie; to say they do know each other: mynet tie {ca.id} {cb.id}")
+            echo(f"  You suppressed this tie; to say they do know each other: mynet tie {ca.id} {cb.id}")
 
     @cli.command("tie")
     @click.argument("a")
@@ -104,7 +104,7 @@ def register(cli: click.Group) -> None:
         store = obj.store()
         ca, cb = find_contact(store, a), find_contact(store, b)
         add_tie(store, ca.id, cb.id, note, strength)
-        click.echo(f"Tie added: {ca.name} - {cb.name}")
+        echo(f"Tie added: {ca.name} - {cb.name}")
 
     @cli.command("untie")
     @click.argument("a")
@@ -115,7 +115,7 @@ def register(cli: click.Group) -> None:
         store = obj.store()
         ca, cb = find_contact(store, a), find_contact(store, b)
         remove_tie(store, ca.id, cb.id)
-        click.echo(f"Tie suppressed: {ca.name} - {cb.name}")
+        echo(f"Tie suppressed: {ca.name} - {cb.name}")
 
     @cli.command("rate")
     @click.argument("who")
@@ -128,7 +128,7 @@ def register(cli: click.Group) -> None:
         c = find_contact(store, who)
         if clear:
             rate_contact(store, c.id, None)
-            click.echo(f"Rating cleared for {c.name}")
+            echo(f"Rating cleared for {c.name}")
             return
         if closeness is None:
             raise MynetError("give a warmth between 0 (not close) and 1 (closest), or --clear")
@@ -137,7 +137,7 @@ def register(cli: click.Group) -> None:
         except ValueError as exc:
             raise MynetError(f"warmth must be a number between 0 and 1, got {closeness!r}") from exc
         rate_contact(store, c.id, value)
-        click.echo(f"{c.name}: warmth {value:.2f} (your rating)")
+        echo(f"{c.name}: warmth {value:.2f} (your rating)")
 
     @cli.command("settings")
     @click.argument("assignment", required=False, metavar="[NAME=VALUE]")
@@ -160,7 +160,7 @@ def register(cli: click.Group) -> None:
                 raise MynetError(f"unknown setting {lhs!r}; see mynet settings")
             if not as_json:
                 shown = store.setting(lhs) if lhs in LIST_SETTINGS else (store.setting(lhs.split(".")[0], {}) or {}).get(lhs.split(".", 1)[1])
-                click.echo(f"{lhs} = {shown}")
+                echo(f"{lhs} = {shown}")
                 return
         data = {}
         for group, cls in SETTING_GROUPS.items():
@@ -173,8 +173,8 @@ def register(cli: click.Group) -> None:
         for group, values in data.items():
             if isinstance(values, dict) and group in SETTING_GROUPS:
                 for k, v in values.items():
-                    click.echo(f"{group}.{k} = {v}")
+                    echo(f"{group}.{k} = {v}")
             elif isinstance(values, dict):
-                click.echo(f"{group} = " + (", ".join(f"{k}={v}" for k, v in values.items()) or "(none)"))
+                echo(f"{group} = " + (", ".join(f"{k}={v}" for k, v in values.items()) or "(none)"))
             else:
-                click.echo(f"{group} = " + (", ".join(values) or "(none)"))
+                echo(f"{group} = " + (", ".join(values) or "(none)"))

@@ -9,7 +9,7 @@ import click
 
 from ..export import FORMATS, export_network
 from ..report import MAX_CONTACTS_DRAWN, STEPS, write_report
-from ._common import as_of_option, note, when
+from ._common import as_of_option, echo, note, when
 
 
 @contextmanager
@@ -53,7 +53,10 @@ def register(cli: click.Group) -> None:
         with _progress("report", STEPS) as step:
             path = write_report(store, out, markdown=markdown, redact=redact, seed=seed, max_contacts=max_contacts,
                                 progress=step, as_of=chosen)
-        click.echo(str(path))
+        echo(str(path))
+        from ..privacy import remember_written
+
+        remember_written(store, [str(path.resolve())] + ([str(path.with_name(path.stem + "_files").resolve())] if markdown else []))
         if markdown:
             note(f"Pictures in {path.with_name(path.stem + '_files')}/")
         note("Redacted: names and addresses are pseudonyms." if redact
@@ -75,4 +78,7 @@ def register(cli: click.Group) -> None:
             step("export")
             paths = export_network(store, output, fmt, redact=redact, as_of=chosen)
         for p in paths:
-            click.echo(str(p))
+            echo(str(p))
+        from ..privacy import remember_written
+
+        remember_written(store, [str(Path(p).resolve()) for p in paths])

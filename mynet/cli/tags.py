@@ -6,7 +6,7 @@ import click
 
 from ..network import load_network
 from ..workspace_ties import decide_label
-from ._common import emit_json, json_option, note, table
+from ._common import echo, emit_json, json_option, note, table
 
 def register(cli: click.Group) -> None:
     @cli.group("tags", invoke_without_command=True)
@@ -31,9 +31,9 @@ def register(cli: click.Group) -> None:
                         "rule": v["rule"], "decision": v.get("decision")} for v in labels])
             return
         if not labels:
-            click.echo("None of your contacts carries a label (tag, category or spreadsheet group).")
+            echo("None of your contacts carries a label (tag, category or spreadsheet group).")
             return
-        click.echo(table(["uses", "counts", "label", "why"], [
+        echo(table(["uses", "counts", "label", "why"], [
             (v["uses"], "yes" if v["counts"] else "no", v["label"], v["reason"]) for v in labels
         ]))
         note("Decide yourself: mynet tags count LABEL, mynet tags ignore LABEL (mynet tags auto LABEL undoes it)")
@@ -42,9 +42,9 @@ def register(cli: click.Group) -> None:
         store = obj.store()
         shown = decide_label(store, label, verdict)
         if verdict is None:
-            click.echo(f"{shown!r}: mynet judges it again")
+            echo(f"{shown!r}: mynet judges it again")
         else:
-            click.echo(f"{shown!r}: {'counts as evidence' if verdict == 'count' else 'ignored as evidence'} (your decision)")
+            echo(f"{shown!r}: {'counts as evidence' if verdict == 'count' else 'ignored as evidence'} (your decision)")
 
     @tags_cmd.command("count")
     @click.argument("label")

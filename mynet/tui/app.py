@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import sqlite3
 import time
+from urllib.parse import quote
 from datetime import date
 from pathlib import Path
 from typing import Any, Callable
@@ -21,13 +22,14 @@ from textual.binding import Binding
 from textual.containers import Horizontal
 from textual.reactive import reactive
 from textual.screen import Screen
-from textual.widgets import ContentSwitcher, Footer, Input, Static
+from textual.widgets import ContentSwitcher, Footer, Input
 
 from ..errors import MynetError
 from ..locations import resolve_workspace_path
+from ..safetext import shown
 from ..store import Store
 from .data import Extras, Snapshot, load_extras, load_snapshot, peek_snapshot, with_store
-from .look import THEME, plural
+from .look import THEME, Static, plural
 
 __all__ = ["MynetApp", "create_app", "VIEWS"]
 
@@ -36,6 +38,8 @@ VIEWS = (("groups", "Groups"), ("map", "Map"), ("people", "People"), ("reach", "
          ("duplicates", "Duplicates"), ("findings", "Findings"))
 
 SPINNER = "◐◓◑◒"
+#: What the status line says when another process (an import, a merge on the command line) changed the workspace.
+CHANGED_ELSEWHERE = "Another mynet command changed the workspace (an import?); what you see is now up to date."
 #: Seconds before a running job shows its spinner ("more than a moment").
 MOMENT = 0.25
 
@@ -310,6 +314,8 @@ class MynetApp(App):
             done(result)
         if reload:
             self.reload("Updating the network after your change…")
+        else:  # the change is shown already: it is not one made elsewhere
+            self._rebaseline()
 
     def _apply_preview(self, seq: int, snap: Snapshot) -> None:
         if self.snapshot is None and seq >= self._applied_seq:
@@ -325,8 +331,8 @@ class MynetApp(App):
         old_extras = self.snapshot.extras if self.snapshot and not self.snapshot.preview else None
         snap.extras = old_extras
         self.snapshot = snap
-        self._rebaseline()
         self.redraw()
+        self._rebaseline(snap)
         if not self.status_text or self.status_text.startswith("The workspace is busy"):
             self.status_text = self.greeting(snap)
 
@@ -341,7 +347,7 @@ class MynetApp(App):
         text = str(exc) if isinstance(exc, MynetError) else f"Something went wrong: {type(exc).__name__}: {exc}"
         self.error = text
         self.status_text = text
-        self.notify(text, severity="error", timeout=8)
+        self.notify(shown(text), severity="error", timeout=8, markup=False)
         if self.snapshot is None:
             self.main.query_one("#groups").loading = False
 
@@ -373,14 +379,27 @@ class MynetApp(App):
         last = conn.execute("SELECT COALESCE(MAX(id), 0) FROM decisions").fetchone()
         return int(version[0]) if version else 0, int(last[0])
 
-    def _rebaseline(self) -> None:
+    def _rebaseline(self, snap: Snapshot | None = None) -> None:
+        """Remember the workspace's state; with ``snap``, reload at once if it changed while ``snap`` was read.
+
+        An import by another process while the network was loading (the first
+        seconds after opening, say) would otherwise be taken as already shown.
+        """
         try:
             if self._watch_conn is None:
-                self._watch_conn = sqlite3.connect(f"file:{self.path}?mode=ro", uri=True, timeout=0.1)
+                self._watch_conn = sqlite3.connect(f"file:{quote(str(self.path.absolute()))}?mode=ro", uri=True,
+                                                   timeout=0.1)
             self._watch_value = self._watch_conn.execute("PRAGMA data_version").fetchone()[0]
             self._mark = self._decisions_mark(self._watch_conn)
         except sqlite3.Error:
             self._watch_value = None
+            return
+        if snap is not None and self._mark != (snap.data_version, snap.decisions_seen):
+            self._changed_elsewhere()
+
+    def _changed_elsewhere(self) -> None:
+        self.status_text = CHANGED_ELSEWHERE
+        self.reload("Loading changes made elsewhere…")
 
     def _watch_tick(self) -> None:
         """Reload when another process changed the network or the decisions (cheap when nothing did)."""
@@ -396,8 +415,7 @@ class MynetApp(App):
             return
         if mark != getattr(self, "_mark", None):
             self._mark = mark
-            self.status_text = "The workspace was changed elsewhere; shown as it is now."
-            self.reload("Loading changes made elsewhere…")
+            self._changed_elsewhere()
 
     # -- actions -------------------------------------------------------------------------
     def ready(self) -> bool:

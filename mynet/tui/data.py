@@ -109,6 +109,8 @@ class Snapshot:
     data_version: int
     extras: Extras | None = None
     preview: bool = False
+    #: The newest decision when the snapshot was read (group names change no data version).
+    decisions_seen: int = 0
     _hay: list[str] | None = None
     _choices: list[Choice] | None = None
     _internal: dict[int, tuple[int, float]] | None = None
@@ -324,12 +326,13 @@ def load_snapshot(path: Path, today: date | None = None, status: Status | None =
 
     def run(store: Store) -> Snapshot:
         version = store.data_version
+        decisions = int(store.conn.execute("SELECT COALESCE(MAX(id), 0) FROM decisions").fetchone()[0])
         net = load_network(store, today=today, as_of=as_of)
         cached = store.conn.execute("SELECT 1 FROM cache WHERE key = ?", (cache_key(net),)).fetchone()
         if status and not cached:
             status("Finding groups and measuring the network (first time after an import)…")
         analysis = analyse(store, net)
-        return Snapshot(path, net.as_of.day, net, analysis, version)
+        return Snapshot(path, net.as_of.day, net, analysis, version, decisions_seen=decisions)
 
     return with_store(path, run, status)
 

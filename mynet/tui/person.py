@@ -9,15 +9,15 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
-from textual.widgets import Label, Static
 from textual.worker import WorkerState
 
 from ..network import basis, describe, evidence_summary
+from ..safetext import shown
 from ..workspace import contact_records
 from ..workspace_ties import add_tie, rate_contact, remove_tie
 from .app import Page
 from .data import Snapshot, tier_of, with_store
-from .look import clip, plural, warmth_bar
+from .look import Label, Static, clip, plural, warmth_bar
 from .rowlist import Col, Row, RowList
 from .screens import AskScreen
 from .views_main import group_title
@@ -31,15 +31,15 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
     c = net.by_id[cid]
     w = net.warmth.get(cid)
     out = Text()
-    out.append(c.name, style="bold")
+    out.append(shown(c.name), style="bold")
     out.append(f"  #{c.id}", style="italic")
     if c.nicknames:
-        out.append(f"  also {', '.join(c.nicknames)}")
+        out.append(shown(f"  also {', '.join(c.nicknames)}"))
 
     def line(label: str, value: Any) -> None:
         if value:
             out.append(f"\n{label:<10}", style="bold")
-            out.append_text(value if isinstance(value, Text) else Text(str(value)))
+            out.append_text(value if isinstance(value, Text) else Text(shown(str(value))))
 
     warmth, tier, last = tier_of(net, cid)
     bits = warmth_bar(warmth, 5) + Text(f" {tier}")
@@ -76,18 +76,18 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
 def evidence_text(ex: dict[str, Any]) -> Text:
     """The full explanation of one tie: each piece of evidence with the files and lines behind it."""
     out = Text()
-    out.append(f"{ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}", style="bold")
+    out.append(shown(f"{ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}"), style="bold")
     if ex.get("basis") == "assumed":
         out.append("\nThey may know each other: they share something, but nothing shows they have met or written.")
     if not ex["evidence"]:
         out.append("\nNo evidence on record.")
     for ev in ex["evidence"]:
-        out.append("\n• " + describe(ev))
+        out.append(shown("\n• " + describe(ev)))
         prov = ev.get("provenance")
         if isinstance(prov, list) and prov:
-            out.append(f"  per {', '.join(prov[:4])}{'…' if len(prov) > 4 else ''}", style="italic")
+            out.append(shown(f"  per {', '.join(prov[:4])}{'…' if len(prov) > 4 else ''}"), style="italic")
         for r in ev.get("recent", [])[:2]:
-            out.append(f"\n    {r['date']}  {clip(r.get('title') or r.get('subject') or '', 40)}  ({r['provenance']})",
+            out.append(shown(f"\n    {r['date']}  {clip(r.get('title') or r.get('subject') or '', 40)}  ({r['provenance']})"),
                        style="italic")
     if ex.get("contributions"):
         parts = ", ".join(f"{k} {v:.2f}" for k, v in ex["contributions"].items())
@@ -218,7 +218,7 @@ class PersonScreen(Page):
             box.update("")
             return
         row = next((r for o, _s, r in snap.ties_of(self.cid) if o == other), None)
-        quick = Text(f"{snap.net.name(self.cid)} and {snap.net.name(other)}", style="bold")
+        quick = Text(shown(f"{snap.net.name(self.cid)} and {snap.net.name(other)}", one_line=True), style="bold")
         if row is not None:
             items = evidence_summary(snap.net, row)
             if basis(items) == "assumed":
@@ -290,7 +290,9 @@ class PersonScreen(Page):
         def who(text: str | None) -> None:
             if not text or not text.strip():
                 return
-            exact = [c for c in snap.contacts if c.name.casefold() == text.strip().casefold() and c.id != self.cid]
+            typed = text.strip().casefold()
+            exact = [c for c in snap.contacts if c.id != self.cid
+                     and typed in (c.name.casefold(), shown(c.name, one_line=True).casefold())]
             hits = exact or [c for c in snap.search(text) if c.id != self.cid]
             if len(hits) != 1:
                 self.app.status_text = (f"Nobody matches {text!r}." if not hits else  # type: ignore[attr-defined]
