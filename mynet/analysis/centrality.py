@@ -45,6 +45,11 @@ ROLE_THRESHOLDS: dict[str, float] = {
     "broker_betweenness_quantile": 0.90, "broker_constraint_quantile": 0.50, "peripheral_z": -1.0,  # our own
 }
 
+#: Betweenness and closeness are exact up to this many contacts (see :func:`contact_measures`).
+EXACT_LIMIT = 2000
+#: Pivot sources of the estimate above :data:`EXACT_LIMIT`.
+SAMPLES = 256
+
 # Row blocks for the structural-hole products are sized so that one block's
 # two-step neighbourhood holds about this many entries (bounds peak memory).
 _BLOCK_BUDGET = 4_000_000
@@ -536,7 +541,7 @@ def contact_role(m: Mapping[str, float], *, broker_betweenness: float, broker_co
     return "member"
 
 
-def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: int = 3000, samples: int = 256) -> tuple[dict[Any, dict], dict[str, Any]]:
+def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: int = EXACT_LIMIT, samples: int = SAMPLES) -> tuple[dict[Any, dict], dict[str, Any]]:
     """Every per-contact measure in one pass over a shared sparse representation.
 
     Per node: ``degree``, ``strength`` (sum of tie strengths), ``betweenness``

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import hashlib
 import json
-from dataclasses import asdict, dataclass, field, fields
+from dataclasses import asdict, dataclass, field
 from typing import Any, Mapping
 
 import networkx as nx
@@ -18,9 +18,10 @@ import numpy as np
 
 from ..network import Network, load_network
 from ..normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
+from ..settings import SettingsGroup, setting
 from ..store import Store
 from .bridges import group_bridges, group_links, single_points_of_access
-from .centrality import contact_measures
+from .centrality import EXACT_LIMIT, SAMPLES, contact_measures
 from .groups import detect_groups, match_groups, suggest_label
 from .structure import network_summary
 
@@ -31,23 +32,16 @@ STATE_KEY = "groups_state"
 
 
 @dataclass
-class AnalysisModel:
+class AnalysisModel(SettingsGroup, group="analysis"):
     """Settings of the analysis (``mynet settings analysis.resolution=1.5``)."""
 
-    resolution: float = 1.0  # above 1: more, smaller groups (networkx's convention)
-    min_group_size: int = 3  # smaller fragments are shown as unclustered
-    seed: int = 0
-    exact_limit: int = 2000  # betweenness is exact up to this many contacts, sampled above
-    samples: int = 256
-    backend: str = "auto"  # "louvain" (python-louvain), "igraph", or "auto": python-louvain up to 20,000 contacts
-
-    @classmethod
-    def from_settings(cls, raw: Mapping | None) -> "AnalysisModel":
-        out = cls()
-        for f in fields(cls):
-            if raw and f.name in raw:
-                setattr(out, f.name, type(getattr(out, f.name))(raw[f.name]))
-        return out
+    resolution: float = setting(1.0, "group size: above 1 finds more, smaller groups", low=0, low_open=True)
+    min_group_size: int = setting(3, "smaller fragments are shown as unclustered", low=1)
+    seed: int = setting(0, "seed of every random choice (the same seed gives the same answer)", low=0)
+    exact_limit: int = setting(EXACT_LIMIT, "betweenness is exact up to this many contacts, estimated above", low=0)
+    samples: int = setting(SAMPLES, "source contacts of the betweenness estimate above that size", low=1)
+    backend: str = setting("auto", "Louvain implementation: python-louvain, igraph, or auto (python-louvain up to "
+                           "20,000 contacts)", choices=("auto", "louvain", "igraph"))
 
 
 @dataclass
