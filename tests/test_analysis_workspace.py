@@ -63,11 +63,54 @@ def test_results_identical_across_runs_and_cached(tmp_path):
     again = analyse(store, force=True).to_json()
     assert [e["kind"] for e in first.pop("events")] == ["new", "new"] and again.pop("events") == []
     assert first == again  # same groups (same ids), measures, bridges and summary
-    # A rating changes warmth but not the ties: the cached analysis is reused (same fingerprint).
-    from mynet.workspace_ties import rate_contact
-
-    rate_contact(store, store.contacts()[0].id, 0.9)
+    # Loading again without a change reuses the cache (same key, no new events).
     assert analyse(store).fingerprint == first["fingerprint"]
+
+
+def _fresh(store):
+    """The analysis computed from scratch, without touching the cache or the stored group ids."""
+    import json as _json
+
+    from mynet.analysis.snapshot import AnalysisModel, _apply_user, _compute, cache_inputs
+
+    state = store.meta("groups_state", "{}")
+    net = load_network(store)
+    out = _compute(store, net, AnalysisModel.from_settings(store.setting("analysis", {})),
+                   cache_inputs(store, net, AnalysisModel.from_settings(store.setting("analysis", {}))))
+    with store.transaction():
+        store.set_meta("groups_state", state)
+    _apply_user(store, net, out)
+    d = out.to_json()
+    d.pop("events")
+    return _json.loads(_json.dumps(d))
+
+
+@pytest.mark.parametrize("change", ["rate", "unrate", "resolution", "webmail", "alias"])
+def test_cached_analysis_is_never_stale(tmp_path, change):
+    # Whatever the analysis reads, a change to it gives the answer a fresh computation gives.
+    from mynet.workspace_ties import rate_contact, update_setting
+
+    teams = {"alder": TEAMS["alder"], "birch": TEAMS["birch"], "cedar": ["Kim Xu", "Lu Yi", "Mo Zed"]}
+    f = team_csv(tmp_path / "people.csv", teams)
+    store = open_workspace(tmp_path / "ws.sqlite")
+    import_paths(store, [f])
+    ana = {c.name: c.id for c in store.contacts()}["Ana Lind"]
+    rate_contact(store, ana, 0.8)
+    before = analyse(store).to_json()
+    if change == "rate":  # you now know someone in a second group: fewer groups hang on one person
+        rate_contact(store, {c.name: c.id for c in store.contacts()}["Fay Ro"], 0.6)
+    elif change == "unrate":
+        rate_contact(store, ana, 0.0)
+    elif change == "resolution":
+        update_setting(store, "analysis.resolution", "3")
+    elif change == "webmail":
+        update_setting(store, "webmail_domains", "alder.example")
+    else:
+        update_setting(store, "org_aliases", "Alder Ltd=Alder Holdings")
+    after = analyse(store).to_json()
+    assert after["fingerprint"] != before["fingerprint"]
+    after.pop("events")
+    assert json.loads(json.dumps(after)) == _fresh(store)
 
 
 def test_blau_and_shannon_hand_computed():

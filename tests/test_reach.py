@@ -169,3 +169,15 @@ def test_cli_says_you_know_the_target_before_the_alternatives(tmp_path, capsys):
     assert lines[1].startswith("You already know Cy Moss (warmth 0.60")
     assert lines[2].startswith("Alternatives, each through someone else")
     assert lines[3].startswith("1. you -> Ana Lind -> Cy Moss")
+
+
+def test_reach_takes_today_for_dormancy():
+    # warmth_model.dormant_days defaults to 365: last contact 2020-01-10 is recent on 2020-06-01, dormant in 2022.
+    A, T = 1, 2
+    g = nx.Graph()
+    g.add_weighted_edges_from([(A, T, 0.9)])
+    net = make_network(g, {A: 0.9, T: 0.6}, last={T: "2020-01-10"})
+    early = reach(net, Targets("person", "T", [T]), today=date(2020, 6, 1))
+    late = reach(net, Targets("person", "T", [T]), today=date(2022, 1, 1))
+    assert early.known is not None and not early.direct[0]["dormant"]
+    assert late.known is None and late.direct[0]["dormant"]

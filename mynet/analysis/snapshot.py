@@ -1,9 +1,10 @@
 """The analysis of a workspace in one object: groups, measures, bridges, shape.
 
 Computes everything the views need from the tie graph, caches it in the
-workspace keyed by a fingerprint of the ties and the settings (so a rating or
-a group name does not trigger a recomputation, a re-import that changes ties
-does), keeps group ids stable across runs and applies the user's group names.
+workspace keyed by a digest of everything it reads (:func:`cache_inputs`: the
+ties, the contacts' attributes, the settings, and whom you have any warmth
+with), keeps group ids stable across runs and applies the user's group names
+(cheap, so applied on every load and never part of the key).
 """
 
 from __future__ import annotations
@@ -25,7 +26,7 @@ from .centrality import EXACT_LIMIT, SAMPLES, contact_measures
 from .groups import detect_groups, match_groups, suggest_label
 from .structure import network_summary
 
-__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "load_analysis", "name_group", "contact_attrs"]
+__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "cache_key", "load_analysis", "name_group", "contact_attrs"]
 
 CACHE_KEY = "analysis:v1"
 STATE_KEY = "groups_state"
@@ -114,14 +115,36 @@ def contact_attrs(net: Network, extra_webmail: frozenset[str] | set[str] = froze
     return {"organisation": orgs, "tag": tags, "domain": domains, "place": places}
 
 
-def _fingerprint(net: Network, model: AnalysisModel, webmail: list[str]) -> str:
-    h = hashlib.sha1()
+def cache_inputs(store: Store, net: Network, model: AnalysisModel) -> dict[str, Any]:
+    """Everything the analysis reads, by name: the cache key is a digest of exactly this.
+
+    The computation takes its inputs from here too (see :func:`_compute`), so nothing it
+    reads can be left out of the key. A new input is one more entry.
+    """
     t = net.ties
-    for arr in (t.a, t.b, np.round(t.strength, 9)):
-        h.update(np.ascontiguousarray(arr).tobytes())
-    h.update(json.dumps(asdict(model), sort_keys=True).encode())
-    h.update(json.dumps(sorted(c.id for c in net.contacts)).encode())
-    h.update(json.dumps(sorted(webmail)).encode())
+    return {
+        "ties": (t.a, t.b, np.round(t.strength, 9)),
+        "settings": asdict(model),
+        "contacts": [[c.id, c.orgs, c.past_orgs, c.tags, c.emails, c.localities] for c in sorted(net.contacts, key=lambda c: c.id)],
+        "webmail": sorted(store.setting("webmail_domains", []) or []),
+        # Single points of access add you to the graph, tied to everyone you have any warmth with.
+        "warm": sorted(cid for cid, w in net.warmth.items() if w.warmth > 0),
+    }
+
+
+def cache_key(inputs: Mapping[str, Any]) -> str:
+    """A digest of :func:`cache_inputs` (arrays by their bytes, the rest as sorted JSON)."""
+    h = hashlib.sha1()
+    for name in sorted(inputs):
+        h.update(name.encode() + b"\0")
+        value = inputs[name]
+        parts = value if isinstance(value, tuple) else (value,)
+        for part in parts:
+            if isinstance(part, np.ndarray):
+                h.update(str(part.dtype).encode() + np.ascontiguousarray(part).tobytes())
+            else:
+                h.update(json.dumps(part, sort_keys=True, default=_default).encode())
+            h.update(b"\1")
     return h.hexdigest()
 
 
@@ -129,7 +152,8 @@ def _first(values: list[str], fold) -> str | None:
     return fold(values[0]) if values else None
 
 
-def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analysis:
+def _compute(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[str, Any]) -> Analysis:
+    fp = cache_key(inputs)
     G = tie_graph(net)
     backend = model.backend
     if backend == "auto":
@@ -147,7 +171,7 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     measures = {int(k): {mk: (None if isinstance(mv, float) and not np.isfinite(mv) else mv) for mk, mv in m.items()}
                 for k, m in measures.items()}
     sets = {g: set(m) for g, m in groups.items()}
-    attrs = contact_attrs(net, set(store.setting("webmail_domains", []) or []))
+    attrs = contact_attrs(net, set(inputs["webmail"]))
     infos = []
     for gid in sorted(groups, key=lambda g: (-len(groups[g]), g)):
         label, share = suggest_label(groups[gid], attrs)
@@ -155,8 +179,7 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     links = [dict(v, a=int(g), b=int(h)) for (g, h), v in sorted(group_links(G, sets).items())]
     links = [{k: (sorted(map(int, v)) if isinstance(v, (set, frozenset)) else v) for k, v in link.items()} for link in links]
     bridges = group_bridges(G, sets, limit=200)
-    ego = {cid: w.warmth for cid, w in net.warmth.items() if w.warmth > 0}
-    access = single_points_of_access(G, sets, ego_ties=ego)
+    access = single_points_of_access(G, sets, ego_ties={cid: 1.0 for cid in inputs["warm"]})
     flat = {
         "organisation": {v: _first(x, normalise_org) for v, x in attrs["organisation"].items() if x},
         "domain": {v: x[0] for v, x in attrs["domain"].items() if x},
@@ -189,10 +212,11 @@ def _default(o: Any) -> Any:
 
 
 def analyse(store: Store, net: Network | None = None, *, force: bool = False) -> Analysis:
-    """The analysis, from the cache when the ties and settings have not changed."""
+    """The analysis, from the cache when nothing it reads has changed (see :func:`cache_inputs`)."""
     net = net or load_network(store)
     model = AnalysisModel.from_settings(store.setting("analysis", {}))
-    fp = _fingerprint(net, model, store.setting("webmail_domains", []) or [])
+    inputs = cache_inputs(store, net, model)
+    fp = cache_key(inputs)
     row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (CACHE_KEY,)).fetchone()
     result = None
     if row and not force:
@@ -200,7 +224,7 @@ def analyse(store: Store, net: Network | None = None, *, force: bool = False) ->
         if data.get("fingerprint") == fp:
             result = Analysis.from_json(data)
     if result is None:
-        result = _compute(store, net, model, fp)
+        result = _compute(store, net, model, inputs)
         store.put_cache(CACHE_KEY, result.to_json())
     _apply_user(store, net, result)
     return result
