@@ -40,7 +40,8 @@ class AnalysisModel(SettingsGroup, group="analysis"):
     min_group_size: int = setting(3, "smaller fragments are shown as unclustered", low=1)
     seed: int = setting(0, "seed of every random choice (the same seed gives the same answer)", low=0)
     exact_limit: int = setting(EXACT_LIMIT, "betweenness is exact up to this many contacts, estimated above", low=0)
-    samples: int = setting(SAMPLES, "source contacts of the betweenness estimate above that size", low=1)
+    samples: int = setting(SAMPLES, "most source contacts of the betweenness estimate above that size (it stops "
+                           "earlier once its top 10% is expected to agree 92% with exact values)", low=64)
     backend: str = setting("auto", "Louvain implementation: python-louvain, igraph, or auto (python-louvain up to "
                            "20,000 contacts)", choices=("auto", "louvain", "igraph"))
 
@@ -195,8 +196,18 @@ def _compute(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[s
 
 
 def _jsonable(x: Any) -> Any:
-    """Plain JSON types (numpy scalars, tuples, sets and NaN made safe)."""
-    return json.loads(json.dumps(x, default=_default, allow_nan=True).replace("NaN", "null"))
+    """Plain JSON types (numpy scalars, tuples, sets; NaN and infinities become None)."""
+    return _finite(json.loads(json.dumps(x, default=_default, allow_nan=True)))
+
+
+def _finite(x: Any) -> Any:
+    if isinstance(x, float):
+        return x if np.isfinite(x) else None
+    if isinstance(x, dict):
+        return {k: _finite(v) for k, v in x.items()}
+    if isinstance(x, list):
+        return [_finite(v) for v in x]
+    return x
 
 
 def _default(o: Any) -> Any:
