@@ -228,6 +228,10 @@ def test_cli_groups_json_contract_and_contacts_group(sample_ws, capsys):
     assert paths and paths[0]["steps"][0]["from"] == "you"
     assert [p["score"] for p in paths] == sorted((p["score"] for p in paths), reverse=True)
     assert all({"score", "path", "steps"} <= set(p) and all({"from", "to", "strength", "why"} <= set(s) for s in p["steps"]) for p in paths)
+    code, out, _ = run(capsys, "--workspace", ws, "brokers", "--json")
+    brokers = json.loads(out)["contacts"]
+    assert brokers and all(0 <= b["eigenvector"] <= 1 for b in brokers)
+    assert max(b["eigenvector"] for b in brokers) == pytest.approx(1.0)  # the most central of its component
     for cmd in (["audit"], ["audit", "--markdown"], ["brokers"], ["bridges"], ["groups", "show", str(g0["id"])]):
         assert run(capsys, "--workspace", ws, *cmd)[0] == 0
 

@@ -379,7 +379,7 @@ def test_roles_on_a_built_network():
     assert measures[1]["role"] == "peripheral"
     assert measures[200]["role"] == "isolated"
     assert math.isnan(measures[200]["constraint"]) and math.isnan(measures[200]["effective_size"])
-    expected_keys = {"degree", "strength", "betweenness", "closeness", "pagerank", "clustering", "constraint",
+    expected_keys = {"degree", "strength", "betweenness", "closeness", "pagerank", "eigenvector", "clustering", "constraint",
                      "effective_size", "participation", "within_z", "role"}
     assert set(measures[0]) == expected_keys
 
@@ -391,3 +391,51 @@ def test_empty_and_tiny_graphs():
     G.add_edge(1, 2, weight=1.0)
     m, _ = contact_measures(G)
     assert m[1]["betweenness"] == 0.0 and m[1]["closeness"] == 1.0 and m[1]["pagerank"] == pytest.approx(0.5)
+
+
+# --- eigenvector centrality ------------------------------------------------------------------------
+
+
+def test_eigenvector_matches_networkx_and_igraph_on_a_connected_graph(florentine):
+    import igraph as ig
+
+    from mynet.analysis.centrality import eigenvector_centrality
+
+    G = nx.les_miserables_graph()  # Knuth 1993, shipped by networkx: weighted co-appearances
+    ours = eigenvector_centrality(G)
+    ref = nx.eigenvector_centrality_numpy(G, weight="weight")
+    top = max(ref.values())
+    assert_close(ours, {v: x / top for v, x in ref.items()}, 1e-9)
+    assert max(ours, key=ours.get) == "Valjean"
+    nodes = sorted(G)
+    g = ig.Graph(n=len(nodes), edges=[(nodes.index(u), nodes.index(v)) for u, v in G.edges])
+    ig_ref = g.eigenvector_centrality(scale=True, weights=[G[u][v]["weight"] for u, v in G.edges])
+    assert_close(ours, dict(zip(nodes, ig_ref)), 1e-6)
+    # Florentine families, unweighted: the Medici are the most central (networkx as reference).
+    flo = eigenvector_centrality(florentine)
+    assert max(flo, key=flo.get) == "Medici"
+    ref = nx.eigenvector_centrality_numpy(florentine)
+    assert_close(flo, {v: x / max(ref.values()) for v, x in ref.items()}, 1e-9)
+
+
+def test_eigenvector_is_computed_per_component():
+    from mynet.analysis.centrality import eigenvector_centrality
+
+    # Two components and an isolated contact: each component has its own most central contact at 1.
+    big = weighted_random_graph(300, 1200, 9)  # one large component (ARPACK path), a pair, an isolated node
+    G = nx.union(big, nx.star_graph(4), rename=("a", "s"))
+    ours = eigenvector_centrality(G)
+    for comp in nx.connected_components(G):
+        sub = G.subgraph(comp)
+        if len(comp) == 1:
+            assert ours[next(iter(comp))] == 0.0
+            continue
+        if len(comp) == 2:  # networkx's numpy solver needs at least 3 nodes: a tie's two ends are alike
+            assert [ours[v] for v in comp] == pytest.approx([1.0, 1.0])
+            continue
+        ref = nx.eigenvector_centrality_numpy(sub, weight="weight")
+        assert_close({v: ours[v] for v in comp}, {v: x / max(ref.values()) for v, x in ref.items()}, 1e-8)
+    # The star's centre is 1, its leaves 1/sqrt(4) = 0.5 (hand-computed: lambda = 2, x_leaf = x_centre / 2).
+    assert ours["s0"] == pytest.approx(1.0) and ours["s1"] == pytest.approx(0.5)
+    measures, _ = contact_measures(G)
+    assert all(measures[v]["eigenvector"] == pytest.approx(ours[v], abs=1e-12) for v in G)

@@ -27,12 +27,13 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.sparse.csgraph import dijkstra
 
-from ._sparse_graph import _from_arrays, _prepare, _Prepared, _sorted_nodes  # noqa: F401  (re-exported)
+from ._sparse_graph import _degrees, _from_arrays, _prepare, _Prepared, _sorted_nodes  # noqa: F401  (re-exported)
 from .estimate import adaptive_pivots
+from .spectral import _eigenvector, _pagerank, eigenvector_centrality, pagerank  # noqa: F401  (re-exported)
 
 __all__ = [
     "ROLE_THRESHOLDS", "betweenness", "clustering", "constraint", "contact_measures", "contact_role",
-    "degree_strength", "effective_size", "harmonic_closeness", "pagerank", "participation_coefficient",
+    "degree_strength", "effective_size", "eigenvector_centrality", "harmonic_closeness", "pagerank", "participation_coefficient",
     "structural_holes", "within_module_degree",
 ]
 
@@ -58,12 +59,6 @@ _BLOCK_BUDGET = 4_000_000
 
 def _pivots(n: int, k: int, seed) -> np.ndarray:
     return np.sort(np.random.default_rng(seed).choice(n, size=k, replace=False))
-
-
-def _degrees(prep: _Prepared) -> tuple[np.ndarray, np.ndarray]:
-    deg = np.diff(prep.W.indptr).astype(float)
-    strength = np.asarray(prep.W.sum(axis=1)).ravel()
-    return deg, strength
 
 
 def degree_strength(G, weight: str | None = "weight") -> dict[Any, tuple[int, float]]:
@@ -191,54 +186,6 @@ def harmonic_closeness(G, weight: str | None = "weight", *, k: int | None = None
     prep = _prepare(G, weight)
     pivots = None if k is None or k >= prep.n else _pivots(prep.n, k, seed)
     return dict(zip(prep.nodes, _harmonic(prep, pivots).tolist()))
-
-
-def _pagerank(prep: _Prepared, alpha: float, tol: float, max_iter: int) -> np.ndarray:
-    n = prep.n
-    if n == 0:
-        return np.zeros(0)
-    _, strength = _degrees(prep)
-    dangling = strength == 0
-    inv = np.zeros(n)
-    inv[~dangling] = 1.0 / strength[~dangling]
-    WT = prep.W.T.tocsr()
-    x = np.full(n, 1.0 / n)
-    for _ in range(max_iter):
-        last = x
-        x = alpha * (WT @ (last * inv)) + (alpha * last[dangling].sum() + (1.0 - alpha)) / n
-        if np.abs(x - last).sum() < n * tol:
-            return x
-    raise nx.PowerIterationFailedConvergence(max_iter)
-
-
-def pagerank(G, alpha: float = 0.85, weight: str | None = "weight", *, tol: float = 1e-10, max_iter: int = 1000) -> dict[Any, float]:
-    """Weighted PageRank by power iteration (same model as ``nx.pagerank``).
-
-    A walker follows a tie with probability proportional to its strength and
-    jumps to a uniformly chosen node with probability 1 - alpha; nodes without
-    ties jump uniformly. Iterates until the L1 change is below ``n * tol``.
-
-    Parameters
-    ----------
-    G : networkx.Graph
-    alpha : float
-        Damping factor.
-    weight : str or None
-    tol : float
-    max_iter : int
-
-    Returns
-    -------
-    dict
-        node -> PageRank (sums to 1).
-
-    References
-    ----------
-    .. [1] Page, L., Brin, S., Motwani, R. & Winograd, T. (1999). The PageRank
-       citation ranking: bringing order to the web. Stanford InfoLab.
-    """
-    prep = _prepare(G, weight)
-    return dict(zip(prep.nodes, _pagerank(prep, alpha, tol, max_iter).tolist()))
 
 
 def _clustering(prep: _Prepared) -> np.ndarray:
@@ -547,7 +494,9 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
 
     Per node: ``degree``, ``strength`` (sum of tie strengths), ``betweenness``
     and ``closeness`` (harmonic; both on distance = 1/weight), ``pagerank``
-    (weighted), ``clustering`` (unweighted), ``constraint`` and
+    (weighted), ``eigenvector`` (weighted, per connected component, 1 for the
+    most central contact of each; see :func:`eigenvector_centrality`),
+    ``clustering`` (unweighted), ``constraint`` and
     ``effective_size`` (weighted by tie strength; NaN for isolated nodes),
     ``participation`` and ``within_z`` (counting ties, unweighted), ``role``.
 
@@ -603,6 +552,7 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
     deg, strength = _degrees(prep)
     clo = _harmonic(prep, pivots)
     pr = _pagerank(prep, 0.85, 1e-10, 1000)
+    eig = _eigenvector(prep)
     clu = _clustering(prep)
     cons, eff = _structural_holes(prep)
     K = _module_degrees(prep, labels, weighted=False)
@@ -613,6 +563,7 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
     finite = cons[~np.isnan(cons)]
     broker_c = float(np.quantile(finite, ROLE_THRESHOLDS["broker_constraint_quantile"])) if finite.size else 0.0
     cols = {"degree": deg.astype(int), "strength": strength, "betweenness": bet, "closeness": clo, "pagerank": pr,
+            "eigenvector": eig,
             "clustering": clu, "constraint": cons, "effective_size": eff, "participation": part, "within_z": wz}
     cols = {name: col.tolist() for name, col in cols.items()}
     measures: dict[Any, dict] = {}
