@@ -250,3 +250,29 @@ def test_reach_org_matching_finds_past_staff_and_avoid(sample_ws):
     again = reach(net, t, k=5, avoid={first})
     assert all(first not in p["path"] for p in again.paths)
     assert all(first != pt["target"] for pt in again.per_target)
+
+
+def test_audit_finds_dormant_ties_as_of_today(tmp_path):
+    # A tie is dormant when it was active (3 or more interactions) and its last one is older than
+    # warmth_model.dormant_days (365 by default) on the day of the audit.
+    from datetime import date
+
+    from mynet.warmth import Warmth
+
+    f = team_csv(tmp_path / "people.csv", TEAMS)
+    store = open_workspace(tmp_path / "ws.sqlite")
+    import_paths(store, [f])
+    net = load_network(store)
+    ids = {c.name: c.id for c in net.contacts}
+    net.warmth[ids["Ana Lind"]] = Warmth(ids["Ana Lind"], warmth=0.4, computed=0.4, meetings=4, last="2024-03-01")
+    net.warmth[ids["Bo Ek"]] = Warmth(ids["Bo Ek"], warmth=0.5, computed=0.5, meetings=5, last="2025-01-15")
+    net.warmth[ids["Fay Ro"]] = Warmth(ids["Fay Ro"], warmth=0.1, computed=0.1, meetings=2, last="2023-01-01")  # never active
+    a = analyse(store, net)
+
+    def dormant(today):
+        found = [f for f in audit(store, net, a, today=today) if f["id"] == "dormant"]
+        return found[0]["numbers"]["people"] if found else []
+
+    assert dormant(date(2025, 2, 1)) == []  # Ana quiet for 337 days, Bo for 17
+    assert dormant(date(2025, 3, 15)) == [ids["Ana Lind"]]  # 379 days
+    assert dormant(date(2026, 2, 1)) == [ids["Ana Lind"], ids["Bo Ek"]]  # oldest first
