@@ -32,7 +32,7 @@ from .estimate import adaptive_pivots
 from .spectral import _eigenvector, _pagerank, eigenvector_centrality, pagerank  # noqa: F401  (re-exported)
 
 __all__ = [
-    "ROLE_THRESHOLDS", "betweenness", "clustering", "constraint", "contact_measures", "contact_role",
+    "ROLES", "ROLE_THRESHOLDS", "betweenness", "clustering", "constraint", "contact_measures", "contact_role",
     "degree_strength", "effective_size", "eigenvector_centrality", "harmonic_closeness", "pagerank", "participation_coefficient",
     "structural_holes", "within_module_degree",
 ]
@@ -51,6 +51,9 @@ ROLE_THRESHOLDS: dict[str, float] = {
 EXACT_LIMIT = 5000
 #: Most pivot sources of the estimate above :data:`EXACT_LIMIT` (see :mod:`.estimate`).
 SAMPLES = 4096
+
+#: Every role :func:`contact_role` gives, in the order of its rules (the README lists the same).
+ROLES = ("isolated", "hub of its group", "hub across groups", "hub", "gateway", "broker", "peripheral", "member")
 
 # Row blocks for the structural-hole products are sized so that one block's
 # two-step neighbourhood holds about this many entries (bounds peak memory).
@@ -102,11 +105,16 @@ def betweenness(G, weight: str | None = "weight", *, k: int | None = None, seed=
     (n - 1)(n - 2), which equals ``nx.betweenness_centrality(G, weight=d,
     normalized=True)`` with ``d = 1/weight``.
 
+    Note for networkx users: networkx reads ``weight`` as a *length* (a heavier
+    edge is a longer step); here ``weight`` is a tie *strength* and its length is
+    its inverse, so a strong tie is a short step. Passing the same graph to
+    ``nx.betweenness_centrality(G, weight="weight")`` gives different values.
+
     Parameters
     ----------
     G : networkx.Graph
     weight : str or None
-        Tie strength attribute; None makes every tie length 1.
+        Tie strength attribute (length = 1 / strength); None makes every tie length 1.
     k : int or None
         None for the exact value (Brandes 2001); otherwise the number of pivot
         sources drawn uniformly without replacement, and the estimate is the

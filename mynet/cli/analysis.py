@@ -134,7 +134,12 @@ def register(cli: click.Group) -> None:
     @json_option
     @click.pass_obj
     def brokers_cmd(obj, limit, as_json):
-        """Who holds the network together: betweenness, constraint, roles, single points of access."""
+        """Who holds the network together: betweenness, constraint, roles, single points of access.
+
+        Betweenness reads a tie's strength w as a distance 1/w (strong ties are short steps): networkx's
+        betweenness_centrality gives the same values with weight=1/w, not with the strength itself.
+        --json adds every measure per person, eigenvector centrality included.
+        """
         store = obj.store()
         net, a = _load(store)
         ranked = sorted(a.measures.items(), key=lambda kv: (-(kv[1].get("betweenness") or 0), kv[0]))
