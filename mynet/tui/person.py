@@ -83,7 +83,7 @@ def standing_words(eigenvector: float | None) -> Text:
     elif eigenvector >= 0.3:
         words = "tied to well-tied people"
     else:
-        words = "on the edge of the well-tied core"
+        words = "further from the best-tied circle"
     return Text(words) + Text(f" · eigenvector {eigenvector:.2f} of 1", style="italic")
 
 
