@@ -183,7 +183,7 @@ class ReachView(Vertical):
                         return snap, None, f"Nobody matches {value!r} as an organisation, a tag or a single person."
                 else:
                     return snap, None, str(exc)
-            return snap, reach(net, targets, k=5, groups=snap.analysis.group_of), ""
+            return snap, reach(net, targets, k=5, groups=snap.analysis.group_of, today=snap.today), ""
 
         self.run_worker(work, thread=True, exclusive=True, group="reach", exit_on_error=False)
 
