@@ -16,6 +16,7 @@ from datetime import date
 import networkx as nx
 import numpy as np
 import pytest
+from test_paths import greedy_distinct_second  # the documented distinct-second rule, by brute force
 
 from mynet.model import Contact
 from mynet.network import Network
@@ -76,23 +77,6 @@ def brute_paths(g: nx.Graph, warmth: dict[int, float], targets: set[int], hops: 
     return out
 
 
-def greedy(paths, k):
-    """Best path with a new first and a new second person, then (none left) with a new first person."""
-    paths = sorted(paths, key=lambda x: -x[0])
-    chosen, firsts, seconds = [], set(), set()
-    for strict in (True, False):
-        while len(chosen) < k:
-            pick = next(((s, p) for s, p in paths
-                         if p[0] not in firsts and (not strict or len(p) < 3 or p[1] not in seconds)), None)
-            if pick is None:
-                break
-            chosen.append(pick)
-            firsts.add(pick[1][0])
-            if strict and len(pick[1]) >= 3:
-                seconds.add(pick[1][1])
-    return sorted(chosen, key=lambda x: -x[0])
-
-
 def same_ranking(got: list[dict], want: list[tuple[float, list[int]]]):
     """Same length and scores in order; same people wherever a score is not shared."""
     assert len(got) == len(want)
@@ -130,7 +114,7 @@ def test_whole_ranked_list_matches_brute_force(block):
             res = reach(net, Targets("person" if len(members) == 1 else "organisation", "q", members), k=50)
             insiders = {m for m in members if len(members) > 1 and warm.get(m, 0) >= WARM_ENOUGH}
             outsiders = set(members) - insiders or set(members)
-            want = greedy(brute_paths(g, warm, outsiders), 50)
+            want = greedy_distinct_second(brute_paths(g, warm, outsiders), 50)
             same_ranking(res.paths, want)
             if len(outsiders) > 1:
                 best = {t: max((s for s, p in brute_paths(g, warm, outsiders) if p[-1] == t), default=None)
