@@ -213,6 +213,11 @@ def _describe_path(net: Network, p: IntroPath, groups: dict[int, Any] | None) ->
 WARM_ENOUGH = 0.3
 
 
+def rank_key(path: IntroPath) -> tuple:
+    """How reach orders its paths: best score first. Add tie-breaks after the score."""
+    return (-path.score,)
+
+
 def warm_contacts(index: PathIndex) -> list[int]:
     """Contacts you are warm enough with to ask yourself: they may open a path, never continue one."""
     return [int(c) for c in index.ids[index.warmth >= WARM_ENOUGH]]
@@ -255,6 +260,7 @@ def reach(
     known = warm_contacts(index)
     paths = find_paths(index, outsiders, k=k, max_intermediaries=max_intermediaries, avoid=avoid,
                        min_strength=min_strength, first_only=known)
+    paths.sort(key=rank_key)  # stable: equal keys keep the search's order (smaller ids first)
     described = [_describe_path(net, p, groups) for p in paths]
     direct = []
     for m in members:
