@@ -4,6 +4,7 @@ A script, not a test: it prints figures and asserts nothing.
 
     python benchmarks/bench_betweenness.py            # co-occurrence graphs of 5,000 and 10,000 contacts, LFR 5,000
     python benchmarks/bench_betweenness.py --quick    # 5,000 contacts only
+    python benchmarks/bench_betweenness.py --sizes 10000 --no-lfr --skip-nx
 
 The broker role takes the top 10% by betweenness, so what matters is the *overlap*: the share
 of the exact top 10% (ties by node) that an estimate also ranks in its top 10%. For each graph:
@@ -61,7 +62,7 @@ def row(label: str, seconds: float, ov: float, note: str = "") -> None:
     print(f"  {label:<44} {seconds:8.1f} s   top-10% overlap {ov:6.1%}  {note}")
 
 
-def run(name: str, G: nx.Graph, groups: dict, seeds: int) -> None:
+def run(name: str, G: nx.Graph, groups: dict, seeds: int, with_nx: bool = True) -> None:
     prep = _prepare(G, "weight")
     n = prep.n
     print(f"{name}: {n} contacts, {G.number_of_edges()} ties, {len(set(groups.values()))} groups")
@@ -72,7 +73,7 @@ def run(name: str, G: nx.Graph, groups: dict, seeds: int) -> None:
     for seed in range(seeds):
         est, t = timed(lambda: _betweenness(prep, _pivots(n, 256, seed)))
         row(f"before: 256 uniform pivots, seed {seed}", t, overlap(T, est))
-    for seed in range(min(seeds, 1)):
+    for seed in range(min(seeds, 1) if with_nx else 0):
         H = nx.Graph()
         H.add_nodes_from(G)
         H.add_edges_from((u, v, {"d": 1.0 / w}) for u, v, w in G.edges(data="weight"))
@@ -95,15 +96,19 @@ def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--quick", action="store_true", help="5,000 contacts only")
     ap.add_argument("--seeds", type=int, default=2)
+    ap.add_argument("--sizes", default="", help="comma-separated co-occurrence sizes (default 5000,10000)")
+    ap.add_argument("--no-lfr", action="store_true", help="skip the LFR graph")
+    ap.add_argument("--skip-nx", action="store_true", help="skip networkx's estimate (slow)")
     args = ap.parse_args()
-    sizes = [5_000] if args.quick else [5_000, 10_000]
+    sizes = [int(x) for x in args.sizes.split(",") if x] or ([5_000] if args.quick else [5_000, 10_000])
     for n in sizes:
         G = bench_analysis.graph(n, 10 * n)
         groups = detect_groups(G).membership
-        run(f"co-occurrence graph ({n // 1000}k contacts, {10 * n} events)", G, groups, args.seeds)
-    G, groups, how = bench_measures.build_graph(5_000, 7)
-    G = nx.Graph((u, v, {"weight": w}) for u, v, w in G.edges(data="weight"))
-    run(f"{how.split(',')[0]} (5k)", G, groups, args.seeds)
+        run(f"co-occurrence graph ({n // 1000}k contacts, {10 * n} events)", G, groups, args.seeds, not args.skip_nx)
+    if not args.no_lfr:
+        G, groups, how = bench_measures.build_graph(5_000, 7)
+        G = nx.Graph((u, v, {"weight": w}) for u, v, w in G.edges(data="weight"))
+        run(f"{how.split(',')[0]} (5k)", G, groups, args.seeds, not args.skip_nx)
 
 
 if __name__ == "__main__":
