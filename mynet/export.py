@@ -39,7 +39,7 @@ import networkx as nx
 from .analysis.bridges import neighbourhood_overlap
 from .analysis.snapshot import Analysis, analyse, tie_graph
 from .errors import MynetError
-from .network import Network, describe, evidence_summary, load_network
+from .network import Network, basis, evidence_summary, load_network, tie_words
 from .report import check_redacted
 from .report._io import write_private
 from .report.redact import redact_analysis, redact_network
@@ -126,7 +126,9 @@ def network_graph(net: Network, analysis: Analysis, *, redacted: bool = False) -
         e["between_groups"] = ga is not None and gb is not None and ga != gb
         _put(e, "source_group", ga)
         _put(e, "target_group", gb)
-        _put(e, "evidence", "; ".join(describe(x) for x in evidence_summary(net, i)))
+        items = evidence_summary(net, i)
+        e["basis"] = basis(items)
+        _put(e, "evidence", tie_words(items))
     return G
 
 
@@ -193,6 +195,7 @@ def export_network(
     *,
     redact: bool = False,
     today: date | None = None,
+    as_of=None,
 ) -> list[Path]:
     """Write the network to ``path`` in ``fmt`` (default: from the suffix) and return the files written.
 
@@ -210,7 +213,7 @@ def export_network(
                          f"{p.name!r} does not tell by its suffix")
     if not p.parent.is_dir():
         raise MynetError(f"cannot write {p}: the folder {p.parent} does not exist")
-    net = load_network(store, today=today)
+    net = load_network(store, today=today, as_of=as_of)
     analysis = analyse(store, net)
     ps = None
     if redact:

@@ -20,6 +20,7 @@ from typing import Iterable
 from .model import Contact, Record
 from .normalise import (
     email_domain,
+    fold_text,
     is_webmail,
     name_key,
     normalise_email,
@@ -461,6 +462,7 @@ def _build_contact(cid: int, stored: list[StoredRecord], emails, phones, members
         phones=phone_list + [p for p in raw_phones if p not in phone_list],
         orgs=current,
         past_orgs=past,
+        org_units=_org_units(stored, orgmap),
         titles=_unique(t for s in stored for t in s.record.titles),
         tags=_unique(t for s in stored for t in s.record.tags),
         localities=localities,
@@ -470,6 +472,23 @@ def _build_contact(cid: int, stored: list[StoredRecord], emails, phones, members
         sources=_unique(s.source for s in stored),
         record_ids=sorted(s.id for s in stored),
     )
+
+
+def _org_units(stored: list[StoredRecord], orgmap: dict[str, str]) -> list[list[str]]:
+    """[organisation, unit] for every department a record names (the first unit of a vCard ORG)."""
+    out: list[list[str]] = []
+    seen: set[tuple[str, str]] = set()
+    for s in stored:
+        for org, units in zip(s.record.orgs, s.record.org_units):
+            unit = next((u.strip() for u in units if u.strip()), "")
+            if not unit:
+                continue
+            name = orgmap.get(normalise_org(org), org.strip())
+            key = (normalise_org(name), fold_text(unit))
+            if key[0] and key not in seen:
+                seen.add(key)
+                out.append([name, unit])
+    return out
 
 
 def suggest_merges(

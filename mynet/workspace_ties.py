@@ -9,7 +9,8 @@ from .errors import MynetError
 from .network import anchor_key
 from .store import Store
 
-__all__ = ["add_tie", "remove_tie", "rate_contact", "update_setting", "update_settings", "update_list_setting"]
+__all__ = ["add_tie", "remove_tie", "rate_contact", "update_setting", "update_settings", "update_list_setting",
+           "decide_label", "LABEL_VERDICTS"]
 
 
 def _pair_keys(store: Store, a: int, b: int) -> tuple[str, str]:
@@ -90,3 +91,42 @@ def update_settings(store: Store, group: str, key: str, value: str) -> dict[str,
     """Change one model setting (``tie_model``, ``meeting_scale``, ``"3"``); returns the group's stored values."""
     update_setting(store, f"{group}.{key}", value)
     return dict(store.setting(group, {}) or {})
+
+
+LABEL_VERDICTS = ("count", "ignore")
+
+
+def decide_label(store: Store, label: str, verdict: str | None) -> str:
+    """Say whether a label counts as evidence (``"count"``, ``"ignore"``; ``None``: let mynet judge again).
+
+    The decision is kept across re-imports (a row of the decisions table keyed by
+    the folded label). Returns the label as your contacts carry it.
+
+    Raises
+    ------
+    NotFoundError
+        When no contact carries a label like ``label``.
+    MynetError
+        For a verdict other than "count", "ignore" or None.
+    """
+    from .errors import NotFoundError
+    from .normalise import fold_text
+
+    if verdict is not None and verdict not in LABEL_VERDICTS:
+        raise MynetError(f"a label is either counted or ignored, not {verdict!r}")
+    key = fold_text(label)
+    shown = {}
+    for c in store.contacts():
+        for t in c.tags:
+            shown.setdefault(fold_text(t), t)
+    if not key or key not in shown:
+        near = sorted(k for k in shown if key and (key in k or k in key))[:5]
+        hint = f"; did you mean {', '.join(repr(shown[k]) for k in near)}?" if near else " (see: mynet tags)"
+        raise NotFoundError(f"no contact carries the label {label!r}{hint}")
+    with store.transaction():
+        store.delete_decisions("label", key)
+        if verdict is not None:
+            store.add_decision("label", key, "", verdict)
+        else:
+            store.bump_data_version()
+    return shown[key]

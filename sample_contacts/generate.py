@@ -26,6 +26,7 @@ from _scenario import World, build_world
 from _sources import (
     CLUB_HEADER,
     CONF_HEADER,
+    WORKFLOW_LABELS,
     Rec,
     club_rows,
     conference_rows,
@@ -210,6 +211,7 @@ def ground_truth(w: World, recs: dict[str, list[Rec]], act: Activity) -> dict:
         "non_contacts": [{"email": a, "name": s["name"], "occurrences": s["count"]}
                          for a, s in sorted(act.strangers.items())],
         "ties": ties,
+        "workflow_labels": WORKFLOW_LABELS,
     }
 
 

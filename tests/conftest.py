@@ -57,3 +57,15 @@ def import_sample(ws_path: Path):
     update_list_setting(store, "webmail_domains", ",".join(personal))
     import_paths(store, [src / f for f in SOURCE_FILES], region="GB")
     return store, truth
+
+
+def person_of(store, truth) -> dict[int, str]:
+    """Contact id -> the scenario's true person id, through the records behind each contact."""
+    rec2person = {(r["file"], r["index"]): r.get("person") for r in truth["records"]}
+    cmap = store.contact_map()
+    out = {}
+    for _rid, key, src, rec in store.records():
+        p = rec2person.get((src["path"].rsplit("/", 1)[-1], rec.index))
+        if key in cmap and p:
+            out[cmap[key]] = p
+    return out

@@ -26,7 +26,7 @@ from .centrality import EXACT_LIMIT, SAMPLES, contact_measures
 from .groups import detect_groups, match_groups, suggest_label
 from .structure import network_summary
 
-__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "cache_key", "load_analysis", "name_group", "contact_attrs"]
+__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest", "load_analysis", "name_group", "contact_attrs"]
 
 CACHE_KEY = "analysis:v1"
 STATE_KEY = "groups_state"
@@ -108,9 +108,11 @@ def contact_attrs(net: Network, extra_webmail: frozenset[str] | set[str] = froze
     """Per contact: organisations (current and past), tags, work mail domains, places."""
     extra = set(extra_webmail)
     orgs, tags, domains, places = {}, {}, {}, {}
+    labels = getattr(net, "labels", {}) or {}
     for c in net.contacts:
         orgs[c.id] = [o for o in c.orgs + c.past_orgs if is_real_org(normalise_org(o))]
-        tags[c.id] = list(c.tags)
+        # only labels that count as evidence name a group (never "follow up" or "VIP")
+        tags[c.id] = [t for t in c.tags if labels.get(fold_text(t), {}).get("counts", True)]
         domains[c.id] = sorted({email_domain(e) for e in c.emails} - {""} - {d for d in map(email_domain, c.emails) if is_webmail(d, extra)})
         places[c.id] = list(c.localities)
     return {"organisation": orgs, "tag": tags, "domain": domains, "place": places}
@@ -128,12 +130,14 @@ def cache_inputs(store: Store, net: Network, model: AnalysisModel) -> dict[str, 
         "settings": asdict(model),
         "contacts": [[c.id, c.orgs, c.past_orgs, c.tags, c.emails, c.localities] for c in sorted(net.contacts, key=lambda c: c.id)],
         "webmail": sorted(store.setting("webmail_domains", []) or []),
+        # Labels that do not count as evidence never name a group.
+        "labels": sorted(k for k, v in (getattr(net, "labels", {}) or {}).items() if not v.get("counts", True)),
         # Single points of access add you to the graph, tied to everyone you have any warmth with.
         "warm": sorted(cid for cid, w in net.warmth.items() if w.warmth > 0),
     }
 
 
-def cache_key(inputs: Mapping[str, Any]) -> str:
+def inputs_digest(inputs: Mapping[str, Any]) -> str:
     """A digest of :func:`cache_inputs` (arrays by their bytes, the rest as sorted JSON)."""
     h = hashlib.sha1()
     for name in sorted(inputs):
@@ -154,7 +158,7 @@ def _first(values: list[str], fold) -> str | None:
 
 
 def _compute(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[str, Any]) -> Analysis:
-    fp = cache_key(inputs)
+    fp = inputs_digest(inputs)
     G = tie_graph(net)
     backend = model.backend
     if backend == "auto":
@@ -180,6 +184,11 @@ def _compute(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[s
     links = [dict(v, a=int(g), b=int(h)) for (g, h), v in sorted(group_links(G, sets).items())]
     links = [{k: (sorted(map(int, v)) if isinstance(v, (set, frozenset)) else v) for k, v in link.items()} for link in links]
     bridges = group_bridges(G, sets, limit=200)
+    observed = net.ties.observed()
+    row = {(int(x), int(y)): i for i, (x, y) in enumerate(zip(net.ties.a, net.ties.b))}
+    for b in bridges:
+        i = row.get((min(b["a"], b["b"]), max(b["a"], b["b"])))
+        b["basis"] = "observed" if i is not None and observed[i] else "assumed"
     access = single_points_of_access(G, sets, ego_ties={cid: 1.0 for cid in inputs["warm"]})
     flat = {
         "organisation": {v: _first(x, normalise_org) for v, x in attrs["organisation"].items() if x},
@@ -189,8 +198,9 @@ def _compute(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[s
     summary = network_summary(G, group_of, flat, seed=model.seed)
     new_state = {"groups": {str(g): m for g, m in groups.items()},
                  "next_id": max([int(state.get("next_id", 1)), *[g + 1 for g in groups]])}
-    with store.transaction():
-        store.set_meta(STATE_KEY, json.dumps(new_state))
+    if not _looking_back(net):  # a look at a past day never renumbers today's groups
+        with store.transaction():
+            store.set_meta(STATE_KEY, json.dumps(new_state))
     return Analysis(fp, float(gr.modularity), model.resolution, infos, group_of, measures, _jsonable(info),
                     _jsonable(bridges), _jsonable(links), _jsonable(access), _jsonable(summary), _jsonable(events))
 
@@ -222,13 +232,25 @@ def _default(o: Any) -> Any:
     raise TypeError(type(o))
 
 
+def _looking_back(net: Network) -> bool:
+    """Whether the network leaves out interactions after a past day (``mynet ... --as-of``)."""
+    as_of = getattr(net, "as_of", None)
+    return bool(as_of is not None and as_of.cut)
+
+
+def cache_key(net: Network) -> str:
+    """The analysis cache entry of this network: one for now, one per past day looked at."""
+    return CACHE_KEY + (f":{net.as_of.day.isoformat()}" if _looking_back(net) else "")
+
+
 def analyse(store: Store, net: Network | None = None, *, force: bool = False) -> Analysis:
     """The analysis, from the cache when nothing it reads has changed (see :func:`cache_inputs`)."""
     net = net or load_network(store)
     model = AnalysisModel.from_settings(store.setting("analysis", {}))
     inputs = cache_inputs(store, net, model)
-    fp = cache_key(inputs)
-    row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (CACHE_KEY,)).fetchone()
+    fp = inputs_digest(inputs)
+    key = cache_key(net)
+    row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (key,)).fetchone()
     result = None
     if row and not force:
         data = json.loads(row[0])
@@ -236,7 +258,7 @@ def analyse(store: Store, net: Network | None = None, *, force: bool = False) ->
             result = Analysis.from_json(data)
     if result is None:
         result = _compute(store, net, model, inputs)
-        store.put_cache(CACHE_KEY, result.to_json())
+        store.put_cache(key, result.to_json())
     _apply_user(store, net, result)
     return result
 

@@ -20,6 +20,7 @@ from .reach import register as _register_reach
 from .analysis import register as _register_analysis
 from .browse import register as _register_browse
 from .report import register as _register_report
+from .tags import register as _register_tags
 
 __all__ = ["main", "cli"]
 
@@ -41,6 +42,7 @@ def cli(ctx: click.Context, workspace: str | None) -> None:
 
 _register_contacts(cli)
 _register_network(cli)
+_register_tags(cli)
 _register_reach(cli)
 _register_analysis(cli)
 _register_browse(cli)

@@ -57,3 +57,36 @@ def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequenc
 
 
 json_option = click.option("--json", "as_json", is_flag=True, help="Print one JSON document on stdout.")
+def _check_day(ctx, param, value):
+    from datetime import date
+
+    if value is None:
+        return None
+    try:
+        date.fromisoformat(value.strip())
+    except ValueError:
+        raise click.BadParameter(f"{value!r} is not a date written YYYY-MM-DD") from None
+    return value.strip()
+
+
+as_of_option = click.option(
+    "--as-of", "as_of", metavar="YYYY-MM-DD", default=None, callback=_check_day,
+    help="Look from this day: meetings and mail after it are left out and warmth is measured on it "
+         "(default today, or your newest interaction when that is more than a year old).")
+
+
+def when(store: Store, as_of: str | None):
+    """The day to analyse at (see :func:`mynet.network.resolve_as_of`); says so on stderr when mynet chose it."""
+    from ..network import resolve_as_of
+
+    chosen = resolve_as_of(store, as_of)
+    if chosen.note:
+        note(chosen.note)
+    return chosen
+
+
+def load_net(store: Store, as_of: str | None):
+    """The network at the day asked for (or chosen), with the one-line note on stderr."""
+    from ..network import load_network
+
+    return load_network(store, as_of=when(store, as_of))

@@ -8,12 +8,11 @@ import click
 from ..analysis.audit import audit
 from ..analysis.snapshot import analyse, name_group
 from ..errors import MynetError, NotFoundError
-from ..network import load_network
-from ._common import clip, emit_json, json_option, note, table
+from ._common import as_of_option, clip, emit_json, json_option, load_net, note, table
 
 
-def _load(store):
-    net = load_network(store)
+def _load(store, as_of: str | None = None):
+    net = load_net(store, as_of)
     return net, analyse(store, net)
 
 
@@ -54,14 +53,15 @@ def audit_markdown(net, a, findings) -> str:
 
 def register(cli: click.Group) -> None:
     @cli.group("groups", invoke_without_command=True)
+    @as_of_option
     @json_option
     @click.pass_context
-    def groups_cmd(ctx, as_json):
+    def groups_cmd(ctx, as_of, as_json):
         """The clusters of your network (Louvain), with names you can give them."""
         if ctx.invoked_subcommand:
             return
         store = ctx.obj.store()
-        net, a = _load(store)
+        net, a = _load(store, as_of)
         if as_json:
             emit_json({
                 "modularity": round(a.modularity, 4), "resolution": a.resolution,
@@ -105,12 +105,13 @@ def register(cli: click.Group) -> None:
 
     @groups_cmd.command("show")
     @click.argument("gid", type=int)
+    @as_of_option
     @json_option
     @click.pass_obj
-    def groups_show(obj, gid, as_json):
+    def groups_show(obj, gid, as_of, as_json):
         """List a group's members with their roles."""
         store = obj.store()
-        net, a = _load(store)
+        net, a = _load(store, as_of)
         g = a.group(gid)
         if g is None:
             raise NotFoundError(f"no group {gid} (see: mynet groups)")
@@ -131,9 +132,10 @@ def register(cli: click.Group) -> None:
 
     @cli.command("brokers")
     @click.option("--limit", type=int, default=15, show_default=True)
+    @as_of_option
     @json_option
     @click.pass_obj
-    def brokers_cmd(obj, limit, as_json):
+    def brokers_cmd(obj, limit, as_of, as_json):
         """Who holds the network together: betweenness, constraint, roles, single points of access.
 
         Betweenness reads a tie's strength w as a distance 1/w (strong ties are short steps): networkx's
@@ -141,7 +143,7 @@ def register(cli: click.Group) -> None:
         --json adds every measure per person, eigenvector centrality included.
         """
         store = obj.store()
-        net, a = _load(store)
+        net, a = _load(store, as_of)
         ranked = sorted(a.measures.items(), key=lambda kv: (-(kv[1].get("betweenness") or 0), kv[0]))
         if as_json:
             emit_json({"measures_info": a.measures_info, "contacts": [
@@ -169,12 +171,17 @@ def register(cli: click.Group) -> None:
 
     @cli.command("bridges")
     @click.option("--limit", type=int, default=15, show_default=True)
+    @as_of_option
     @json_option
     @click.pass_obj
-    def bridges_cmd(obj, limit, as_json):
-        """The ties between groups that matter most (weak, low-overlap bridges first)."""
+    def bridges_cmd(obj, limit, as_of, as_json):
+        """The ties between groups that matter most (weak, low-overlap bridges first).
+
+        The "seen" column says whether the tie rests on something that happened (a meeting, a thread, your word)
+        or only on something the two share ("may know").
+        """
         store = obj.store()
-        net, a = _load(store)
+        net, a = _load(store, as_of)
         groups = {g.id: g.name for g in a.groups}
         if as_json:
             emit_json({"bridges": a.bridges[: limit or None], "links": a.links})
@@ -182,8 +189,9 @@ def register(cli: click.Group) -> None:
         if not a.bridges:
             click.echo("No ties between groups.")
             return
-        click.echo(table(["score", "between", "and", "groups", "strength", "overlap", "local bridge"], [
+        click.echo(table(["score", "between", "and", "seen", "groups", "strength", "overlap", "local bridge"], [
             (f"{b['score']:.2f}", net.name(b["a"]), net.name(b["b"]),
+             "yes" if b.get("basis") == "observed" else "may know",
              " / ".join(clip(groups.get(g, str(g)), 22) for g in b["groups"]), f"{b['strength']:.2f}",
              f"{b['overlap']:.2f}", f"yes (span {b['span']})" if b.get("local_bridge") else "no")
             for b in a.bridges[:limit]
@@ -191,15 +199,16 @@ def register(cli: click.Group) -> None:
 
     @cli.command("audit")
     @click.option("--markdown", is_flag=True, help="Print the audit as Markdown.")
+    @as_of_option
     @json_option
     @click.pass_obj
-    def audit_cmd(obj, markdown, as_json):
+    def audit_cmd(obj, markdown, as_of, as_json):
         """A readable report on the shape of your network, most useful finding first."""
         store = obj.store()
-        net, a = _load(store)
+        net, a = _load(store, as_of)
         if not net.contacts:
             raise NotFoundError("there is nothing to audit yet: import your contacts first (mynet import FILE)")
-        findings = audit(store, net, a)
+        findings = audit(store, net, a, today=net.as_of.day)
         if as_json:
             emit_json({"findings": findings, "summary": a.summary, "modularity": a.modularity})
             return

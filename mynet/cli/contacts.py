@@ -20,7 +20,7 @@ from ..workspace import (
     set_me,
     unmerge_contact,
 )
-from ._common import clip, emit_json, json_option, note, table
+from ._common import as_of_option, clip, emit_json, json_option, note, table, when
 
 
 def contact_json(c: Contact, extra: dict | None = None) -> dict:
@@ -215,9 +215,10 @@ def register(cli: click.Group) -> None:
     @click.option("--unlisted", is_flag=True, help="List people you met or wrote with who are not in your address book.")
     @click.option("--sort", type=click.Choice(["id", "name", "warmth", "last"]), default="id", show_default=True)
     @click.option("--limit", type=int, default=0, help="Show at most this many.")
+    @as_of_option
     @json_option
     @click.pass_obj
-    def contacts_cmd(obj, search, suggested, unlisted, sort, limit, as_json):
+    def contacts_cmd(obj, search, suggested, unlisted, sort, limit, as_of, as_json):
         """List the people in your network, with your warmth to each."""
         store = obj.store()
         if unlisted:
@@ -260,7 +261,7 @@ def register(cli: click.Group) -> None:
             contacts = search_contacts(contacts, search)
         from ..network import load_warmth
 
-        warmth = load_warmth(store)
+        warmth = load_warmth(store, today=when(store, as_of).day)
         if sort == "name":
             contacts.sort(key=lambda c: (c.name.casefold(), c.id))
         elif sort == "warmth":

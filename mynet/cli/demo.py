@@ -11,7 +11,7 @@ import click
 from ..errors import MynetError
 from ..analysis.audit import audit
 from ..analysis.snapshot import analyse
-from ..network import describe, evidence_summary, explain_tie, load_network
+from ..network import describe, evidence_summary, explain_tie, load_network, tie_words
 from ..reach import reach, resolve_targets
 from ..workspace import import_paths, merge_suggestions, open_workspace, set_me
 from ..workspace_ties import update_list_setting
@@ -87,7 +87,7 @@ def register(cli: click.Group) -> None:
             order = t.order()
             click.echo(table(["strength", "between", "and", "why"], [
                 (f"{t.strength[i]:.2f}", net.name(int(t.a[i])), net.name(int(t.b[i])),
-                 "; ".join(describe(e) for e in evidence_summary(net, int(i), t)))
+                 tie_words(evidence_summary(net, int(i), t)))
                 for i in order[:6]
             ]))
             multiplex = next((int(i) for i in order if len({e["kind"] for e in evidence_summary(net, int(i), t)}) >= 3),

@@ -5,11 +5,11 @@ from __future__ import annotations
 import click
 
 from ..errors import MynetError
-from ..network import describe, evidence_summary, explain_tie, load_network
+from ..network import basis, describe, evidence_summary, explain_tie, tie_words
 from ..workspace import find_contact
 from .. import settings as settings_schema
 from ..workspace_ties import add_tie, rate_contact, remove_tie, update_setting
-from ._common import emit_json, json_option, note, table
+from ._common import as_of_option, emit_json, json_option, load_net, note, table
 
 
 def register(cli: click.Group) -> None:
@@ -17,12 +17,17 @@ def register(cli: click.Group) -> None:
     @click.option("--all", "show_all", is_flag=True, help="Every pair with any evidence, however weak (no threshold, no backbone filter).")
     @click.option("--of", "of", metavar="WHO", help="Only the ties of this person.")
     @click.option("--limit", type=int, default=30, show_default=True, help="Show at most this many (0: all).")
+    @as_of_option
     @json_option
     @click.pass_obj
-    def ties_cmd(obj, show_all, of, limit, as_json):
-        """List inferred ties between your contacts, strongest first."""
+    def ties_cmd(obj, show_all, of, limit, as_of, as_json):
+        """List inferred ties between your contacts, strongest first.
+
+        A tie that rests only on something the two share (an organisation, a mail domain, a label) and on nothing
+        that happened (a meeting, a thread, a card naming the other, your own word) reads "may know (...)".
+        """
         store = obj.store()
-        net = load_network(store)
+        net = load_net(store, as_of)
         t = net.all_ties if show_all else net.ties
         order = t.order()
         if of:
@@ -32,18 +37,19 @@ def register(cli: click.Group) -> None:
         if limit and not as_json:
             order = order[:limit]
         if as_json:
-            emit_json([
-                {"a": int(t.a[i]), "b": int(t.b[i]), "strength": round(float(t.strength[i]), 4),
-                 "evidence": evidence_summary(net, int(i), t)}
-                for i in order
-            ])
+            out = []
+            for i in order:
+                ev = evidence_summary(net, int(i), t)
+                out.append({"a": int(t.a[i]), "b": int(t.b[i]), "strength": round(float(t.strength[i]), 4),
+                            "basis": basis(ev), "evidence": ev})
+            emit_json(out)
             return
         if not total:
             click.echo("No ties yet: import exports that share organisations, tags, meetings or mail threads.")
             return
         click.echo(table(["strength", "between", "and", "why"], [
             (f"{t.strength[i]:.2f}", f"{net.name(int(t.a[i]))} ({t.a[i]})", f"{net.name(int(t.b[i]))} ({t.b[i]})",
-             "; ".join(describe(e) for e in evidence_summary(net, int(i), t)))
+             tie_words(evidence_summary(net, int(i), t)))
             for i in order
         ]))
         note(f"{len(order)} of {total} ties shown" + ("" if show_all else f" (strength >= {net.model.min_strength}; --all for every pair)"))
@@ -51,22 +57,27 @@ def register(cli: click.Group) -> None:
     @cli.command("why")
     @click.argument("a")
     @click.argument("b")
+    @as_of_option
     @json_option
     @click.pass_obj
-    def why_cmd(obj, a, b, as_json):
+    def why_cmd(obj, a, b, as_of, as_json):
         """Explain why mynet thinks two people know each other, evidence by evidence."""
         store = obj.store()
         ca, cb = find_contact(store, a), find_contact(store, b)
         if ca.id == cb.id:
             raise MynetError(f"{a!r} and {b!r} are the same person ({ca.name})")
-        net = load_network(store)
+        net = load_net(store, as_of)
         ex = explain_tie(store, net, ca.id, cb.id)
         if as_json:
             emit_json(ex)
             return
         click.echo(f"{ca.name} ({ca.id}) and {cb.name} ({cb.id}): strength {ex['strength']:.2f}"
                    + ("" if ex["in_graph"] or not ex["strength"] else " (below the threshold, not in the graph)"))
-        if not ex["evidence"]:
+        if ex["basis"] == "assumed":
+            click.echo("  They may know each other: they share something, but nothing shows they have met or written.")
+        if not any(e.get("counted", True) for e in ex["evidence"]):
+            for ev in ex["evidence"]:
+                click.echo(f"  - {describe(ev)}")
             click.echo("  No evidence that they know each other.")
             click.echo(f"  If they do: mynet tie {ca.id} {cb.id} --note \"how they know each other\"")
             return

@@ -4,10 +4,9 @@ from __future__ import annotations
 
 import click
 
-from ..network import load_network
 from ..reach import reach, resolve_targets
 from ..workspace import find_contact
-from ._common import emit_json, json_option, note
+from ._common import as_of_option, emit_json, json_option, load_net, note
 
 
 def print_path(rank: int, p: dict) -> None:
@@ -17,6 +16,10 @@ def print_path(rank: int, p: dict) -> None:
         frm = "you" if step["from"] == "you" else p["names"][p["path"].index(step["from"])]
         mark = "  <- weakest" if step is p["steps"][p["weakest_step"]["index"]] else ""
         click.echo(f"     {frm} -> {step['to_name']} ({step['strength']:.2f}): {step['why'] or 'linked'}{mark}")
+    if p.get("assumed_steps"):
+        n = p["assumed_steps"]
+        click.echo(f"     note: {'one step' if n == 1 else f'{n} steps'} of this path {'rests' if n == 1 else 'rest'} only "
+                   "on something the two share; nothing shows they have met or written")
     click.echo(f"     ask: {p['ask']}")
 
 
@@ -30,12 +33,17 @@ def register(cli: click.Group) -> None:
     @click.option("--max-intermediaries", type=int, default=2, show_default=True, help="People between you and the target, at most.")
     @click.option("--avoid", multiple=True, metavar="WHO", help="Never go through this person (repeatable).")
     @click.option("--min-strength", type=float, default=0.0, show_default=True, help="Use only steps at least this strong.")
+    @as_of_option
     @json_option
     @click.pass_obj
-    def reach_cmd(obj, to, org, tag, domain, k, max_intermediaries, avoid, min_strength, as_json):
-        """Find who can introduce you, step by step, with a suggested ask."""
+    def reach_cmd(obj, to, org, tag, domain, k, max_intermediaries, avoid, min_strength, as_of, as_json):
+        """Find who can introduce you, step by step, with a suggested ask.
+
+        At an equal score, a path whose steps rest on meetings, mail or your own word comes before one resting on
+        a shared organisation, domain or label; such steps are marked, and the ask says so.
+        """
         store = obj.store()
-        net = load_network(store)
+        net = load_net(store, as_of)
         targets = resolve_targets(net, to=to, org=org, tag=tag, domain=domain, find_contact=lambda q: find_contact(store, q))
         avoid_ids = {find_contact(store, a).id for a in avoid}
         from ..cli.groups_support import group_of  # noqa: F401  (groups mark paths that cross groups)
@@ -61,7 +69,8 @@ def register(cli: click.Group) -> None:
             click.echo("You already know: " + "; ".join(f"{d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'})" for d in insiders))
         if not result.paths:
             click.echo("No intro path found" + (f" within {max_intermediaries} intermediaries" if max_intermediaries else "")
-                       + ". Try --max-intermediaries 3, fewer --avoid, or add ties you know of (mynet tie A B).")
+                       + ". " + (result.why_none or "Try --max-intermediaries 3, fewer --avoid, or add ties you know of "
+                                                     "(mynet tie A B)."))
         for rank, p in enumerate(result.paths, 1):
             click.echo("")
             print_path(rank, p)

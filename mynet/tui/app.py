@@ -195,10 +195,12 @@ class MynetApp(App):
     snapshot_version: reactive[int] = reactive(0)
     status_text: reactive[str] = reactive("")
 
-    def __init__(self, path: Path, *, today: date | None = None, watch_interval: float = 1.5) -> None:
+    def __init__(self, path: Path, *, today: date | None = None, watch_interval: float = 1.5,
+                 as_of: date | str | None = None) -> None:
         super().__init__()
         self.path = path
         self.today = today
+        self.as_of = as_of
         self.snapshot: Snapshot | None = None
         self.busy_label = ""
         self.busy_since = 0.0
@@ -272,10 +274,10 @@ class MynetApp(App):
         def work() -> None:
             try:
                 if peek:
-                    early = peek_snapshot(self.path, self.today)
+                    early = peek_snapshot(self.path, self.today, self.as_of)
                     if early is not None:
                         self._from_thread(self._apply_preview, seq, early)
-                snap = load_snapshot(self.path, self.today, status=say)
+                snap = load_snapshot(self.path, self.today, status=say, as_of=self.as_of)
                 self._from_thread(self._apply, seq, snap, job)
                 extras = load_extras(self.path, snap, status=say)
                 self._from_thread(self._apply_extras, seq, extras)
@@ -346,6 +348,11 @@ class MynetApp(App):
     def greeting(self, snap: Snapshot) -> str:
         if not snap.contacts:
             return "This workspace has no contacts yet. Import your exports first: mynet import FILE"
+        when = snap.net.as_of
+        if when.note:
+            return f"Seen from {when.day.isoformat()}, your newest meeting or mail (mynet browse --as-of to change)"
+        if when.explicit:
+            return f"Seen from {when.day.isoformat()}: later meetings and mail are left out"
         named = sum(1 for g in snap.analysis.groups if g.user_named)
         if snap.analysis.groups and not named:
             return "Enter opens · n names the group · ~ marks a suggested label · ? all keys"
@@ -479,7 +486,7 @@ class MynetApp(App):
 
 
 def create_app(workspace_path: str | Path | None = None, *, today: date | None = None,
-               watch_interval: float = 1.5) -> MynetApp:
+               watch_interval: float = 1.5, as_of: date | str | None = None) -> MynetApp:
     """The browser for a workspace (``None``: ``$MYNET_WORKSPACE`` or the default place).
 
     Parameters
@@ -490,7 +497,16 @@ def create_app(workspace_path: str | Path | None = None, *, today: date | None =
         The day warmth is measured on (tests freeze it; default: today).
     watch_interval : float
         Seconds between checks for changes made by another process (0: never).
+    as_of : datetime.date or str, optional
+        See the network from this day (see :func:`mynet.network.resolve_as_of`).
     """
     path = resolve_workspace_path(workspace_path)
-    Store(path, create=False).close()  # a clear error now, rather than inside the app
-    return MynetApp(path, today=today, watch_interval=watch_interval)
+    store = Store(path, create=False)  # a clear error now, rather than inside the app
+    try:
+        if as_of is not None:
+            from ..network import resolve_as_of
+
+            resolve_as_of(store, as_of)  # a bad date is refused before the screen opens
+    finally:
+        store.close()
+    return MynetApp(path, today=today, watch_interval=watch_interval, as_of=as_of)

@@ -12,7 +12,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Label, Static
 from textual.worker import WorkerState
 
-from ..network import describe, evidence_summary
+from ..network import basis, describe, evidence_summary
 from ..workspace import contact_records
 from ..workspace_ties import add_tie, rate_contact, remove_tie
 from .app import Page
@@ -91,6 +91,8 @@ def evidence_text(ex: dict[str, Any]) -> Text:
     """The full explanation of one tie: each piece of evidence with the files and lines behind it."""
     out = Text()
     out.append(f"{ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}", style="bold")
+    if ex.get("basis") == "assumed":
+        out.append("\nThey may know each other: they share something, but nothing shows they have met or written.")
     if not ex["evidence"]:
         out.append("\nNo evidence on record.")
     for ev in ex["evidence"]:
@@ -232,7 +234,10 @@ class PersonScreen(Page):
         row = next((r for o, _s, r in snap.ties_of(self.cid) if o == other), None)
         quick = Text(f"{snap.net.name(self.cid)} and {snap.net.name(other)}", style="bold")
         if row is not None:
-            for ev in evidence_summary(snap.net, row):
+            items = evidence_summary(snap.net, row)
+            if basis(items) == "assumed":
+                quick.append("\nmay know:")
+            for ev in items:
                 quick.append("\n• " + describe(ev))
         done = self._explained.get(other)
         if done is not None:
