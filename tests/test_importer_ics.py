@@ -501,3 +501,15 @@ def test_parse_does_not_hang_on_a_large_file():
     assert not worker.is_alive(), "parse_ics did not finish in 30 s"
     assert len(out["res"].interactions) == 500 * 20
     assert time.perf_counter() - t0 < 30
+
+
+def test_broken_time_zone_rule_skips_its_events_only():
+    # RFC 5545 section 3.3.10: BYMONTH is 1..12. A VTIMEZONE rule with BYMONTH=0 is accepted when the zone is
+    # built and fails only when an offset is asked for; the events in that zone are skipped with a reason,
+    # the others still import.
+    broken = OFFICE_TZ.replace("BYMONTH=10", "BYMONTH=0")
+    data = ics(broken, event("z1@example.org", ";TZID=Head Office Time:20250106T090000"),
+               event("z2@example.org", ":20250107T090000Z"))
+    res = parse(data)
+    assert [m.key.split("#")[0] for m in res.interactions] == ["z2@example.org"]
+    assert len(res.skipped) == 1 and "time zone cannot be used" in res.skipped[0].reason

@@ -73,7 +73,11 @@ class _Moment:
 
 
 def _to_utc(local: dt.datetime, tz: dt.tzinfo | None) -> dt.datetime:
-    return local.replace(tzinfo=tz or UTC).astimezone(UTC)
+    try:
+        return local.replace(tzinfo=tz or UTC).astimezone(UTC)
+    except (ValueError, OverflowError, TypeError, IndexError) as exc:
+        # A VTIMEZONE whose own rules are broken fails only when asked for an offset.
+        raise _EventError(f"its time zone cannot be used ({exc})") from exc
 
 
 def _stamp(local: dt.datetime, tz: dt.tzinfo | None, all_day: bool) -> str:
@@ -404,6 +408,36 @@ def _is_past(stamp: str, today: dt.date) -> bool:
     return dt.date.fromisoformat(stamp[:10]) <= today
 
 
+def _occurrences(ev: _Event, overrides: dict[str, list[_Event]], cutoff: dt.datetime, today: dt.date,
+                 max_occurrences: int) -> tuple[list[tuple[str, str, _Event]], int, bool]:
+    """``(when, original start, event)`` of an event's past occurrences, how many moved ones were cancelled,
+    and whether the expansion was cut at MAX_GENERATED.
+
+    Raises :class:`_EventError` when the recurrence or the time zone cannot be used.
+    """
+    tz, all_day = ev.start.tz, ev.start.all_day
+    starts, truncated = _local_starts(ev, cutoff) if ev.recurrence_id is None else ([ev.start.value], False)
+    moved = {} if ev.recurrence_id is not None else {
+        o.recurrence_id.local_in(tz): o for o in overrides.get(ev.uid, [])
+    }
+    occurrences: list[tuple[str, str, _Event]] = []
+    for local in reversed(starts):  # latest first; one more than the cap tells that it bites
+        if len(occurrences) > max_occurrences:
+            break
+        when = _stamp(local, tz, all_day)
+        if local not in moved and _is_past(when, today):
+            original = ev.recurrence_id.stamp() if ev.recurrence_id is not None else when
+            occurrences.append((when, original, ev))
+    cancelled = 0
+    for original, o in moved.items():
+        when = o.start.stamp()
+        if o.status == "CANCELLED":
+            cancelled += 1
+        elif _is_past(when, today):
+            occurrences.append((when, _stamp(original, tz, all_day), o))
+    return occurrences, cancelled, truncated
+
+
 def parse_ics(
     data: bytes,
     path: str,
@@ -519,31 +553,14 @@ def parse_ics(
         if ev.status == "CANCELLED":
             cancelled += 1
             continue
-        tz, all_day = ev.start.tz, ev.start.all_day
         try:
-            starts, truncated = _local_starts(ev, cutoff) if ev.recurrence_id is None else ([ev.start.value], False)
+            occurrences, moved_cancelled, truncated = _occurrences(ev, overrides, cutoff, today, max_occurrences)
+            upcoming = not occurrences and not _is_past(ev.start.stamp(), today)
         except _EventError as exc:
             skip(ev.block, str(exc))
             continue
-        moved = {} if ev.recurrence_id is not None else {
-            o.recurrence_id.local_in(tz): o for o in overrides.get(ev.uid, [])
-        }
-        occurrences: list[tuple[str, str, _Event]] = []  # (when, original start, event)
-        for local in reversed(starts):  # latest first; one more than the cap tells that it bites
-            if len(occurrences) > max_occurrences:
-                break
-            when = _stamp(local, tz, all_day)
-            if local not in moved and _is_past(when, today):
-                original = ev.recurrence_id.stamp() if ev.recurrence_id is not None else when
-                occurrences.append((when, original, ev))
-        for original, o in moved.items():
-            when = o.start.stamp()
-            if o.status == "CANCELLED":
-                cancelled += 1
-            elif _is_past(when, today):
-                occurrences.append((when, _stamp(original, tz, all_day), o))
-        if not occurrences and not _is_past(ev.start.stamp(), today):
-            future += 1
+        cancelled += moved_cancelled
+        future += upcoming
         occurrences.sort(key=lambda item: item[0])
         if len(occurrences) > max_occurrences:
             occurrences = occurrences[-max_occurrences:]
