@@ -57,8 +57,8 @@ FORMATS = ("graphml", "csv", "json")
 _SUFFIX = {".graphml": "graphml", ".xml": "graphml", ".csv": "csv", ".json": "json"}
 _RISKY = ("=", "+", "-", "@", "\t", "\r")
 _MEASURES_INT = ("degree",)
-_MEASURES_FLOAT = ("strength", "betweenness", "closeness", "pagerank", "clustering", "constraint", "effective_size",
-                   "participation", "within_z")
+_MEASURES_FLOAT = ("strength", "betweenness", "closeness", "pagerank", "eigenvector", "clustering", "constraint",
+                   "effective_size", "participation", "within_z")
 
 CONTACT_COLUMNS = ("id", "label", "emails", "phones", "organisations", "past_organisations", "titles", "tags",
                    "localities", "group", "group_name", "role", *_MEASURES_INT, *_MEASURES_FLOAT, "warmth", "warmth_tier",

@@ -9,6 +9,7 @@ with a suggested ask that never claims more than the evidence says.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from datetime import date
 from typing import Any
 
 import numpy as np
@@ -139,12 +140,21 @@ def path_index(net: Network) -> PathIndex:
 
 @dataclass
 class ReachResult:
+    """The answer to one reach query.
+
+    ``known`` is your own tie to a single target person when it is warm and recent enough
+    to ask them yourself: then it is the answer, and ``paths`` are alternatives (each
+    goes through someone else). ``direct`` lists every direct tie to a target (weak,
+    dormant and insiders included), ``per_target`` the best path to each person of a set.
+    """
+
     targets: Targets
     paths: list[dict[str, Any]]
     direct: list[dict[str, Any]]
     per_target: list[dict[str, Any]]
     unreachable: list[int]
     why_none: str = ""  # when there is no path: why, in plain words
+    known: dict[str, Any] | None = None
 
 
 def _warmth_words(net: Network, cid: int) -> str:
@@ -236,12 +246,15 @@ def _describe_path(net: Network, p: IntroPath, groups: dict[int, Any] | None) ->
 WARM_ENOUGH = 0.3
 
 
-def _dormant(last: str | None, days: float, day=None) -> bool:
-    from datetime import date
+def warm_contacts(index: PathIndex) -> list[int]:
+    """Contacts you are warm enough with to ask yourself: they may open a path, never continue one."""
+    return [int(c) for c in index.ids[index.warmth >= WARM_ENOUGH]]
 
+
+def _dormant(last: str | None, days: float, today: date) -> bool:
     if not last:
         return False
-    return ((day or date.today()) - date.fromisoformat(last[:10])).days > days
+    return (today - date.fromisoformat(last[:10])).days > days
 
 
 def _rank_observed_first(net: Network, paths: list[IntroPath]) -> list[IntroPath]:
@@ -318,8 +331,14 @@ def reach(
     index: PathIndex | None = None,
     groups: dict[int, Any] | None = None,
     per_target: bool = True,
+    today: date | None = None,
 ) -> ReachResult:
-    """Ranked intro paths to the targets, each step explained, plus the direct (cold) routes."""
+    """Ranked intro paths to the targets, each step explained, plus your direct routes.
+
+    ``today`` (default: the day the network is seen from, ``net.as_of``) decides which
+    direct ties are dormant.
+    """
+    today = today or net.as_of.day
     if max_intermediaries < 1:
         raise MynetError("an intro path has at least one intermediary (--max-intermediaries 1 or more)")
     index = index or path_index(net)
@@ -328,11 +347,12 @@ def reach(
     # listed as your direct way in and may be intermediaries towards their colleagues.
     insiders = [m for m in members if len(members) > 1 and (direct_route(index, m) or 0) >= WARM_ENOUGH]
     outsiders = [m for m in members if m not in insiders] or members
-    # A path that goes through someone you already know warmly after its first step is a detour:
-    # you could ask that person yourself. Ask for spare paths and leave those out.
-    paths = find_paths(index, outsiders, k=2 * k, max_intermediaries=max_intermediaries, avoid=avoid, min_strength=min_strength)
-    paths = [p for p in paths if not any((direct_route(index, m) or 0) >= WARM_ENOUGH for m in p.nodes[1:-1])]
-    paths = _rank_observed_first(net, paths)[:k]
+    # Someone you already know warmly is never a later intermediary (you would ask them yourself):
+    # the search applies this rule itself, so nobody loses a good path to a detour through them.
+    first_only = warm_contacts(index)
+    paths = find_paths(index, outsiders, k=k, max_intermediaries=max_intermediaries, avoid=avoid,
+                       min_strength=min_strength, first_only=first_only)
+    paths = _rank_observed_first(net, paths)
     described = [_describe_path(net, p, groups) for p in paths]
     direct = []
     for m in members:
@@ -341,13 +361,13 @@ def reach(
             info = net.warmth.get(m)
             direct.append({"target": m, "name": net.name(m), "warmth": round(float(w), 4),
                            "last": info.last if info else None, "weak": w < WARM_ENOUGH,
-                           "dormant": _dormant(info.last if info else None, net.warmth_model.dormant_days,
-                                               net.as_of.day),
+                           "dormant": _dormant(info.last if info else None, net.warmth_model.dormant_days, today),
                            "insider": m in insiders})
     by_target = []
     unreachable = []
     if per_target and len(outsiders) > 1:
-        best = best_per_target(index, outsiders, k=1, max_intermediaries=max_intermediaries, avoid=avoid, min_strength=min_strength)
+        best = best_per_target(index, outsiders, k=1, max_intermediaries=max_intermediaries, avoid=avoid,
+                               min_strength=min_strength, first_only=first_only)
         for m, ps in best.items():
             if ps:
                 by_target.append({"target": m, "name": net.name(m), "past": m in targets.past,
@@ -360,4 +380,6 @@ def reach(
     if not paths:
         reason = no_path_reason(net, index, [m for m in outsiders if m not in avoid],
                                 max_intermediaries=max_intermediaries, avoid=set(avoid), min_strength=min_strength)
-    return ReachResult(targets, described, sorted(direct, key=lambda d: -d["warmth"]), by_target, unreachable, reason)
+    known = next((d for d in direct if targets.kind == "person" and not d["weak"] and not d["dormant"]), None)
+    return ReachResult(targets, described, sorted(direct, key=lambda d: -d["warmth"]), by_target, unreachable, reason,
+                       known)

@@ -52,7 +52,7 @@ from __future__ import annotations
 import math
 from collections import defaultdict
 from itertools import chain
-from dataclasses import asdict, dataclass, field, fields
+from dataclasses import asdict, dataclass, field
 from typing import Any, Iterable, Mapping, Sequence
 
 import numpy as np
@@ -64,6 +64,7 @@ from .labels import judge_labels
 from .model import Contact, Interaction
 from .org_limit import limit_large_orgs
 from .normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
+from .settings import SettingsGroup, setting
 
 __all__ = [
     "TieModel",
@@ -88,7 +89,7 @@ ASSUMED_KINDS = ("organisation", "domain", "tag")
 
 
 @dataclass
-class TieModel:
+class TieModel(SettingsGroup, group="tie_model"):
     """The settings of the strength model (stored in the workspace, see ``mynet settings``).
 
     The defaults are a judgement call, not a published calibration: one
@@ -96,32 +97,30 @@ class TieModel:
     ten-person organisation gives 0.30, a hundred-person one 0.10.
     """
 
-    meeting_scale: float = 2.0  # Newman weight that gives strength 1 - 1/e
-    thread_scale: float = 3.0
-    org_current: float = 0.30
-    org_past: float = 0.20
-    domain: float = 0.15
-    tag: float = 0.20
-    related: float = 0.60
-    manual: float = 0.80
-    size_ref: int = 10  # groups up to this size count in full
-    group_cap: int = 500  # larger organisations/tags/domains give no pairwise evidence
-    broadcast_cap: int = 50  # larger meetings/threads count for nothing
-    tag_share_cap: float = 0.25  # tags carried by a larger share of contacts say nothing
-    min_strength: float = 0.05  # ties weaker than this are left out of the graph
-    backbone_alpha: float = 0.0  # disparity filter significance; 0 = off
-    size_exponent: float = 0.5  # a shared group weighs base * (size_ref / size) ** size_exponent
-    assumed_cap: int = 10  # per person and large organisation, the assumed-only ties kept, best first (0: all)
-    org_alone_max: int = 0  # larger organisations count only for pairs with other evidence (0: no such rule)
-
-    @classmethod
-    def from_settings(cls, raw: Mapping[str, Any] | None) -> "TieModel":
-        known = {f.name: f.type for f in fields(cls)}
-        kwargs = {}
-        for k, v in (raw or {}).items():
-            if k in known:
-                kwargs[k] = int(v) if known[k] in (int, "int") else float(v)
-        return cls(**kwargs)
+    meeting_scale: float = setting(2.0, "shared meetings needed (Newman weight) for a tie of strength 0.63; higher: "
+                                   "meetings count less", low=0, low_open=True)
+    thread_scale: float = setting(3.0, "the same for shared mail threads", low=0, low_open=True)
+    org_current: float = setting(0.30, "chance that two people at a small organisation now know each other",
+                                 low=0, high=1, high_open=True)
+    org_past: float = setting(0.20, "the same when either was there only in the past", low=0, high=1, high_open=True)
+    domain: float = setting(0.15, "the same for a shared work mail domain", low=0, high=1, high_open=True)
+    tag: float = setting(0.20, "the same for a shared tag, category or group", low=0, high=1, high_open=True)
+    related: float = setting(0.60, "the same for a RELATED link on a card", low=0, high=1, high_open=True)
+    manual: float = setting(0.80, "strength of a tie you add without giving one", low=0, high=1, low_open=True)
+    size_ref: int = setting(10, "organisations, tags and domains up to this size count in full", low=1)
+    group_cap: int = setting(500, "larger organisations, tags and domains give no evidence", low=2)
+    broadcast_cap: int = setting(50, "larger meetings and threads count for nothing", low=2)
+    tag_share_cap: float = setting(0.25, "tags carried by a larger share of contacts say nothing",
+                                   low=0, high=1, low_open=True)
+    min_strength: float = setting(0.05, "ties weaker than this are left out of the graph", low=0, high=1, high_open=True)
+    backbone_alpha: float = setting(0.0, "keep only locally significant ties (disparity filter) at this "
+                                    "significance; 0 keeps every tie", low=0, high=1, high_open=True)
+    size_exponent: float = setting(0.5, "how fast a shared group weighs less as it grows: base * (size_ref / size) "
+                                   "to this power; 0: size does not matter", low=0)
+    assumed_cap: int = setting(10, "per person and large organisation, the assumed-only ties kept, best first "
+                               "(0: all)", low=0)
+    org_alone_max: int = setting(0, "larger organisations count only for pairs with other evidence (0: no such rule)",
+                                 low=0)
 
     def to_dict(self) -> dict[str, Any]:
         return asdict(self)

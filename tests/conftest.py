@@ -13,10 +13,21 @@ SAMPLE = ROOT / "sample_contacts"
 
 @pytest.fixture
 def corpus_dir() -> Path:
-    """The shared test corpus, read in place; skipped when a clone has no ../shared."""
+    """The shared test corpus, read in place; skipped when a clone has no ../shared.
+
+    The one place the corpus is located: tests take this fixture (directly or through one of
+    their own), and every test that does is marked ``corpus`` (see the hook below).
+    """
     if not CORPUS.is_dir():
         pytest.skip(f"{CORPUS} is absent (a fresh clone has no ../shared/corpus)")
     return CORPUS
+
+
+def pytest_collection_modifyitems(config, items):
+    """Mark every test that reads the corpus (it uses ``corpus_dir``) with ``corpus``."""
+    for item in items:
+        if "corpus_dir" in getattr(item, "fixturenames", ()):
+            item.add_marker(pytest.mark.corpus)
 
 
 @pytest.fixture(autouse=True)

@@ -94,6 +94,43 @@ def test_each_delimiter(delimiter):
     assert result.records[0].notes == ["likes , ; | and\ttabs"]
 
 
+def test_rfc4180_section_2_examples():
+    # RFC 4180 section 2, rules 1-7 with their examples (CRLF line breaks; an optional header line;
+    # fields in double quotes may hold commas, line breaks and doubled double quotes).
+    from mynet.importers._csv_text import read_rows
+    from mynet.importers.csv import detect_delimiter
+
+    def cells(text):
+        delimiter, start, first = detect_delimiter(text)
+        assert delimiter == ","
+        return [row.cells for row in read_rows(text, start, delimiter, first, "rfc.csv") if row.cells]
+
+    assert cells("aaa,bbb,ccc\r\nzzz,yyy,xxx\r\n") == [["aaa", "bbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 1
+    assert cells("aaa,bbb,ccc\r\nzzz,yyy,xxx") == [["aaa", "bbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 2
+    assert cells("field_name,field_name,field_name\r\naaa,bbb,ccc\r\nzzz,yyy,xxx\r\n")[0] == ["field_name"] * 3  # rule 3
+    assert cells('"aaa","bbb","ccc"\r\nzzz,yyy,xxx') == [["aaa", "bbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 5
+    assert cells('"aaa","b\r\nbb","ccc"\r\nzzz,yyy,xxx') == [["aaa", "b\r\nbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 6
+    assert cells('"aaa","b""bb","ccc"') == [["aaa", 'b"bb', "ccc"]]  # rule 7
+    # The same rules through the whole importer, with a header it knows.
+    data = b'Name,Email,Notes\r\n"Lind, Ana",ana@example.org,"said ""hello""\r\non two lines"\r\n'
+    (rec,) = parse_csv(data, "rfc.csv").records
+    assert (rec.full_name, rec.emails, rec.notes) == ("Lind, Ana", ["ana@example.org"], ['said "hello"\r\non two lines'])
+
+
+def test_delimiter_is_the_one_rows_agree_with_not_the_widest_header():
+    # Semicolon-separated, with commas inside the header's and the rows' cells: split on commas the
+    # header is wider (4 cells against 3), but no row has its width; split on semicolons every row does.
+    data = ("Name, full;Email;Notes, remarks, more\r\n"
+            "Lind, Ana;ana@example.org;tea\r\n"
+            "Ek, Bo;bo@example.org;coffee\r\n").encode()
+    from mynet.importers.csv import detect_delimiter
+
+    assert detect_delimiter(data.decode())[0] == ";"
+    result = parse_csv(data, "semi.csv", mapping={"full_name": "Name, full", "emails": "Email", "notes": "Notes, remarks, more"})
+    assert [(r.full_name, r.emails, r.notes) for r in result.records] == [
+        ("Lind, Ana", ["ana@example.org"], ["tea"]), ("Ek, Bo", ["bo@example.org"], ["coffee"])]
+
+
 def test_excel_sep_hint_line():
     data = b"sep=;\r\nName;Email\r\nIlse Varrow;ilse@example.org\r\n"
     result = parse_csv(data, "hint.csv")

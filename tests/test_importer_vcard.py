@@ -73,6 +73,21 @@ def test_qp_with_charset_and_bare_parameter_forms():
     assert rec.addresses[0].street == "1 Example Way\r\nExampleton"
 
 
+def test_v21_fold_keeps_its_whitespace_and_v3_fold_drops_one():
+    # The vCard 2.1 specification folds long lines the RFC 822 way: wherever linear white space may
+    # appear, CRLF followed by that white space may be inserted, and unfolding treats CRLF + LWSP as the
+    # LWSP itself (the space stays). vCard 3.0 (RFC 2426 section 2.6) and 4.0 (RFC 6350 section 3.2)
+    # instead drop the one white-space character after the line break.
+    v21 = "BEGIN:VCARD\r\nVERSION:2.1\r\nN:Example;Ada\r\nNOTE:Met at the harbour\r\n office opening\r\nTITLE:Chief\r\n\tengineer\r\nEND:VCARD\r\n"
+    rec = one(v21)
+    assert rec.notes == ["Met at the harbour office opening"]
+    assert rec.titles == ["Chief\tengineer"]
+    v30 = v21.replace("VERSION:2.1", "VERSION:3.0").replace("harbour\r\n office", "harbour \r\n office")
+    rec = one(v30)
+    assert rec.notes == ["Met at the harbour office opening"]
+    assert rec.titles == ["Chiefengineer"]
+
+
 # ------------------------------------------------------------ character sets
 
 

@@ -256,6 +256,8 @@ def test_person_shows_ties_strongest_first_with_evidence(workspace):
             assert snap.net.name(ties[0].key) in evidence and ".vcf:" in evidence  # file:line provenance
             card = str(app.screen.query_one("#person-card").render())
             assert snap.net.name(cid) in card and ".vcf:" in card  # the sources with their lines
+            eig = snap.analysis.measures[cid]["eigenvector"]
+            assert "Standing" in card and f"eigenvector {eig:.2f} of 1" in card  # plain words, then the number
             await pilot.press("enter")  # the other end of the tie
             await settle(pilot)
             assert app.screen.cid == ties[0].key

@@ -1,16 +1,17 @@
 """The analysis of a workspace in one object: groups, measures, bridges, shape.
 
 Computes everything the views need from the tie graph, caches it in the
-workspace keyed by a fingerprint of the ties and the settings (so a rating or
-a group name does not trigger a recomputation, a re-import that changes ties
-does), keeps group ids stable across runs and applies the user's group names.
+workspace keyed by a digest of everything it reads (:func:`cache_inputs`: the
+ties, the contacts' attributes, the settings, and whom you have any warmth
+with), keeps group ids stable across runs and applies the user's group names
+(cheap, so applied on every load and never part of the key).
 """
 
 from __future__ import annotations
 
 import hashlib
 import json
-from dataclasses import asdict, dataclass, field, fields
+from dataclasses import asdict, dataclass, field
 from typing import Any, Mapping
 
 import networkx as nx
@@ -18,36 +19,31 @@ import numpy as np
 
 from ..network import Network, load_network
 from ..normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
+from ..settings import SettingsGroup, setting
 from ..store import Store
 from .bridges import group_bridges, group_links, single_points_of_access
-from .centrality import contact_measures
+from .centrality import EXACT_LIMIT, SAMPLES, contact_measures
 from .groups import detect_groups, match_groups, suggest_label
 from .structure import network_summary
 
-__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "load_analysis", "name_group", "contact_attrs"]
+__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest", "load_analysis", "name_group", "contact_attrs"]
 
 CACHE_KEY = "analysis:v1"
 STATE_KEY = "groups_state"
 
 
 @dataclass
-class AnalysisModel:
+class AnalysisModel(SettingsGroup, group="analysis"):
     """Settings of the analysis (``mynet settings analysis.resolution=1.5``)."""
 
-    resolution: float = 1.0  # above 1: more, smaller groups (networkx's convention)
-    min_group_size: int = 3  # smaller fragments are shown as unclustered
-    seed: int = 0
-    exact_limit: int = 2000  # betweenness is exact up to this many contacts, sampled above
-    samples: int = 256
-    backend: str = "auto"  # "louvain" (python-louvain), "igraph", or "auto": python-louvain up to 20,000 contacts
-
-    @classmethod
-    def from_settings(cls, raw: Mapping | None) -> "AnalysisModel":
-        out = cls()
-        for f in fields(cls):
-            if raw and f.name in raw:
-                setattr(out, f.name, type(getattr(out, f.name))(raw[f.name]))
-        return out
+    resolution: float = setting(1.0, "group size: above 1 finds more, smaller groups", low=0, low_open=True)
+    min_group_size: int = setting(3, "smaller fragments are shown as unclustered", low=1)
+    seed: int = setting(0, "seed of every random choice (the same seed gives the same answer)", low=0)
+    exact_limit: int = setting(EXACT_LIMIT, "betweenness is exact up to this many contacts, estimated above", low=0)
+    samples: int = setting(SAMPLES, "most source contacts of the betweenness estimate above that size (it stops "
+                           "earlier once its top 10% is expected to agree 92% with exact values)", low=64)
+    backend: str = setting("auto", "Louvain implementation: python-louvain, igraph, or auto (python-louvain up to "
+                           "20,000 contacts)", choices=("auto", "louvain", "igraph"))
 
 
 @dataclass
@@ -122,15 +118,38 @@ def contact_attrs(net: Network, extra_webmail: frozenset[str] | set[str] = froze
     return {"organisation": orgs, "tag": tags, "domain": domains, "place": places}
 
 
-def _fingerprint(net: Network, model: AnalysisModel, webmail: list[str]) -> str:
-    h = hashlib.sha1()
+def cache_inputs(store: Store, net: Network, model: AnalysisModel) -> dict[str, Any]:
+    """Everything the analysis reads, by name: the cache key is a digest of exactly this.
+
+    The computation takes its inputs from here too (see :func:`_compute`), so nothing it
+    reads can be left out of the key. A new input is one more entry.
+    """
     t = net.ties
-    for arr in (t.a, t.b, np.round(t.strength, 9)):
-        h.update(np.ascontiguousarray(arr).tobytes())
-    h.update(json.dumps(asdict(model), sort_keys=True).encode())
-    h.update(json.dumps(sorted(c.id for c in net.contacts)).encode())
-    h.update(json.dumps(sorted(webmail)).encode())
-    h.update(json.dumps(sorted(k for k, v in (getattr(net, "labels", {}) or {}).items() if not v.get("counts", True))).encode())
+    return {
+        "ties": (t.a, t.b, np.round(t.strength, 9)),
+        "settings": asdict(model),
+        "contacts": [[c.id, c.orgs, c.past_orgs, c.tags, c.emails, c.localities] for c in sorted(net.contacts, key=lambda c: c.id)],
+        "webmail": sorted(store.setting("webmail_domains", []) or []),
+        # Labels that do not count as evidence never name a group.
+        "labels": sorted(k for k, v in (getattr(net, "labels", {}) or {}).items() if not v.get("counts", True)),
+        # Single points of access add you to the graph, tied to everyone you have any warmth with.
+        "warm": sorted(cid for cid, w in net.warmth.items() if w.warmth > 0),
+    }
+
+
+def inputs_digest(inputs: Mapping[str, Any]) -> str:
+    """A digest of :func:`cache_inputs` (arrays by their bytes, the rest as sorted JSON)."""
+    h = hashlib.sha1()
+    for name in sorted(inputs):
+        h.update(name.encode() + b"\0")
+        value = inputs[name]
+        parts = value if isinstance(value, tuple) else (value,)
+        for part in parts:
+            if isinstance(part, np.ndarray):
+                h.update(str(part.dtype).encode() + np.ascontiguousarray(part).tobytes())
+            else:
+                h.update(json.dumps(part, sort_keys=True, default=_default).encode())
+            h.update(b"\1")
     return h.hexdigest()
 
 
@@ -138,7 +157,8 @@ def _first(values: list[str], fold) -> str | None:
     return fold(values[0]) if values else None
 
 
-def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analysis:
+def _compute(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[str, Any]) -> Analysis:
+    fp = inputs_digest(inputs)
     G = tie_graph(net)
     backend = model.backend
     if backend == "auto":
@@ -156,7 +176,7 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     measures = {int(k): {mk: (None if isinstance(mv, float) and not np.isfinite(mv) else mv) for mk, mv in m.items()}
                 for k, m in measures.items()}
     sets = {g: set(m) for g, m in groups.items()}
-    attrs = contact_attrs(net, set(store.setting("webmail_domains", []) or []))
+    attrs = contact_attrs(net, set(inputs["webmail"]))
     infos = []
     for gid in sorted(groups, key=lambda g: (-len(groups[g]), g)):
         label, share = suggest_label(groups[gid], attrs)
@@ -169,8 +189,7 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     for b in bridges:
         i = row.get((min(b["a"], b["b"]), max(b["a"], b["b"])))
         b["basis"] = "observed" if i is not None and observed[i] else "assumed"
-    ego = {cid: w.warmth for cid, w in net.warmth.items() if w.warmth > 0}
-    access = single_points_of_access(G, sets, ego_ties=ego)
+    access = single_points_of_access(G, sets, ego_ties={cid: 1.0 for cid in inputs["warm"]})
     flat = {
         "organisation": {v: _first(x, normalise_org) for v, x in attrs["organisation"].items() if x},
         "domain": {v: x[0] for v, x in attrs["domain"].items() if x},
@@ -189,8 +208,18 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
 
 
 def _jsonable(x: Any) -> Any:
-    """Plain JSON types (numpy scalars, tuples, sets and NaN made safe)."""
-    return json.loads(json.dumps(x, default=_default, allow_nan=True).replace("NaN", "null"))
+    """Plain JSON types (numpy scalars, tuples, sets; NaN and infinities become None)."""
+    return _finite(json.loads(json.dumps(x, default=_default, allow_nan=True)))
+
+
+def _finite(x: Any) -> Any:
+    if isinstance(x, float):
+        return x if np.isfinite(x) else None
+    if isinstance(x, dict):
+        return {k: _finite(v) for k, v in x.items()}
+    if isinstance(x, list):
+        return [_finite(v) for v in x]
+    return x
 
 
 def _default(o: Any) -> Any:
@@ -217,10 +246,11 @@ def cache_key(net: Network) -> str:
 
 
 def analyse(store: Store, net: Network | None = None, *, force: bool = False) -> Analysis:
-    """The analysis, from the cache when the ties and settings have not changed."""
+    """The analysis, from the cache when nothing it reads has changed (see :func:`cache_inputs`)."""
     net = net or load_network(store)
     model = AnalysisModel.from_settings(store.setting("analysis", {}))
-    fp = _fingerprint(net, model, store.setting("webmail_domains", []) or [])
+    inputs = cache_inputs(store, net, model)
+    fp = inputs_digest(inputs)
     key = cache_key(net)
     row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (key,)).fetchone()
     result = None
@@ -229,7 +259,7 @@ def analyse(store: Store, net: Network | None = None, *, force: bool = False) ->
         if data.get("fingerprint") == fp:
             result = Analysis.from_json(data)
     if result is None:
-        result = _compute(store, net, model, fp)
+        result = _compute(store, net, model, inputs)
         store.put_cache(key, result.to_json())
     _apply_user(store, net, result)
     return result

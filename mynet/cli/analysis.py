@@ -136,7 +136,12 @@ def register(cli: click.Group) -> None:
     @json_option
     @click.pass_obj
     def brokers_cmd(obj, limit, as_of, as_json):
-        """Who holds the network together: betweenness, constraint, roles, single points of access."""
+        """Who holds the network together: betweenness, constraint, roles, single points of access.
+
+        Betweenness reads a tie's strength w as a distance 1/w (strong ties are short steps): networkx's
+        betweenness_centrality gives the same values with weight=1/w, not with the strength itself.
+        --json adds every measure per person, eigenvector centrality included.
+        """
         store = obj.store()
         net, a = _load(store, as_of)
         ranked = sorted(a.measures.items(), key=lambda kv: (-(kv[1].get("betweenness") or 0), kv[0]))
@@ -153,7 +158,9 @@ def register(cli: click.Group) -> None:
             for c, m in ranked[:limit]
         ]))
         if info.get("betweenness_sampled"):
-            note(f"betweenness estimated from {info.get('betweenness_samples')} sampled sources (Brandes & Pich 2007)")
+            agree = info.get("betweenness_agreement")
+            note(f"betweenness estimated from {info.get('betweenness_samples')} sampled sources (Brandes & Pich 2007)"
+                 + (f"; about {agree:.0%} of the true top 10% are expected among the top 10% shown" if agree else ""))
         groups = {g.id: g.name for g in a.groups}
         spof = [x for x in a.access if x.get("groups")]
         if spof:

@@ -7,7 +7,8 @@ import click
 from ..errors import MynetError
 from ..network import basis, describe, evidence_summary, explain_tie, tie_words
 from ..workspace import find_contact
-from ..workspace_ties import LIST_SETTINGS, SETTING_GROUPS, add_tie, rate_contact, remove_tie, update_list_setting, update_settings
+from .. import settings as settings_schema
+from ..workspace_ties import add_tie, rate_contact, remove_tie, update_setting
 from ._common import as_of_option, echo, emit_json, json_option, load_net, note, table
 
 
@@ -144,37 +145,45 @@ def register(cli: click.Group) -> None:
     @json_option
     @click.pass_obj
     def settings_cmd(obj, assignment, as_json):
-        """Show or change settings: tie_model.broadcast_cap=40, webmail_domains=+mail.example, org_aliases=+QL=Quillon Labs."""
+        """Show or change settings: tie_model.broadcast_cap=40, webmail_domains=+mail.example, org_aliases=+QL=Quillon Labs.
+
+        Each setting is checked before it is stored; the listing says what each one means
+        and which values it takes.
+        """
         store = obj.store()
         if assignment:
             if "=" not in assignment:
                 raise MynetError("write the change as NAME=VALUE, e.g. warmth_model.half_life_days=90")
-            lhs, value = assignment.split("=", 1)
-            lhs = lhs.strip()
-            if lhs in LIST_SETTINGS:
-                update_list_setting(store, lhs, value.strip())
-            elif "." in lhs:
-                group, key = lhs.split(".", 1)
-                update_settings(store, group, key.strip(), value.strip())
-            else:
-                raise MynetError(f"unknown setting {lhs!r}; see mynet settings")
+            name, text = assignment.split("=", 1)
+            value = update_setting(store, name.strip(), text)
             if not as_json:
-                shown = store.setting(lhs) if lhs in LIST_SETTINGS else (store.setting(lhs.split(".")[0], {}) or {}).get(lhs.split(".", 1)[1])
-                echo(f"{lhs} = {shown}")
+                echo(f"{name.strip()} = {_shown(value)}")
                 return
-        data = {}
-        for group, cls in SETTING_GROUPS.items():
-            data[group] = cls().__dict__ | (store.setting(group, {}) or {})
-        for name in LIST_SETTINGS:
-            data[name] = store.setting(name, [] if name == "webmail_domains" else {}) or ([] if name == "webmail_domains" else {})
+        stored = store.settings()
+        specs = settings_schema.schema()
+        data: dict = {}
+        for name, spec in specs.items():
+            value = settings_schema.stored_value(stored, name)
+            if "." in name:
+                group, key = name.split(".", 1)
+                data.setdefault(group, {})[key] = value
+            else:
+                data[name] = value
         if as_json:
             emit_json(data)
             return
-        for group, values in data.items():
-            if isinstance(values, dict) and group in SETTING_GROUPS:
-                for k, v in values.items():
-                    echo(f"{group}.{k} = {v}")
-            elif isinstance(values, dict):
-                echo(f"{group} = " + (", ".join(f"{k}={v}" for k, v in values.items()) or "(none)"))
-            else:
-                echo(f"{group} = " + (", ".join(values) or "(none)"))
+        for name, spec in specs.items():
+            value = settings_schema.stored_value(stored, name)
+            changed = "" if value == spec.default else f"   (default {_shown(spec.default)})"
+            echo(f"{name} = {_shown(value)}{changed}")
+            echo(f"    {spec.meaning}; {spec.accepts()}")
+
+
+def _shown(value) -> str:
+    if isinstance(value, dict):
+        return ", ".join(f"{k}={v}" for k, v in value.items()) or "(none)"
+    if isinstance(value, list):
+        return ", ".join(value) or "(none)"
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    return str(value)

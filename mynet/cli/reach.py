@@ -58,10 +58,12 @@ def register(cli: click.Group) -> None:
         echo(f"Reaching {what}{matched}: {len(targets.members)} {'person' if len(targets.members) == 1 else 'people'}")
         if targets.kind == "organisation" and targets.query.strip().lower() != matched.lower():
             note(f"'{targets.query}' matched: {matched}")
-        known = [d for d in result.direct if not d.get("insider") and not d["weak"] and not d["dormant"]]
-        for d in known:
+        d = result.known
+        if d:
             echo(f"You already know {d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'}): "
-                 "you can ask them yourself; the paths below are other ways in.")
+                 "ask them yourself, that is your best way in.")
+            if result.paths:
+                echo("Alternatives, each through someone else and so less sure than asking them yourself:")
         insiders = [d for d in result.direct if d.get("insider")]
         if insiders:
             echo("You already know: " + "; ".join(f"{d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'})" for d in insiders))

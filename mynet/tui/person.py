@@ -22,7 +22,7 @@ from .rowlist import Col, Row, RowList
 from .screens import AskScreen
 from .views_main import group_title
 
-__all__ = ["PersonScreen", "ConfirmScreen", "card_text", "evidence_text"]
+__all__ = ["PersonScreen", "ConfirmScreen", "card_text", "evidence_text", "standing_words"]
 
 
 def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
@@ -56,6 +56,7 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
     m = snap.analysis.measures.get(cid) or {}
     line("Group", group_title(snap, snap.group_of(cid)) + Text(" · ") + Text(m.get("role") or "isolated", style="bold")
          + Text(f" · {plural(int(m.get('degree') or 0), 'tie')}"))
+    line("Standing", standing_words(m.get("eigenvector")))
     titles = f" ({', '.join(c.titles)})" if c.titles else ""
     line("Works at", ", ".join(c.orgs) + titles if c.orgs else (titles.strip(" ()") or ""))
     line("Worked at", ", ".join(c.past_orgs))
@@ -71,6 +72,19 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
     else:
         line("Sources", ", ".join(sources) or ", ".join(sorted({s.rsplit('/', 1)[-1] for s in c.sources})))
     return out
+
+
+def standing_words(eigenvector: float | None) -> Text:
+    """Eigenvector centrality in plain words first, the number after (1: the best tied of their part of the network)."""
+    if not eigenvector:
+        return Text("no ties to anyone well tied")
+    if eigenvector >= 0.7:
+        words = "among the best tied to well-tied people"
+    elif eigenvector >= 0.3:
+        words = "tied to well-tied people"
+    else:
+        words = "further from the best-tied circle"
+    return Text(words) + Text(f" · eigenvector {eigenvector:.2f} of 1", style="italic")
 
 
 def evidence_text(ex: dict[str, Any]) -> Text:

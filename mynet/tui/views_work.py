@@ -185,7 +185,7 @@ class ReachView(Vertical):
                         return snap, None, f"Nobody matches {value!r} as an organisation, a tag or a single person."
                 else:
                     return snap, None, str(exc)
-            return snap, reach(net, targets, k=5, groups=snap.analysis.group_of), ""
+            return snap, reach(net, targets, k=5, groups=snap.analysis.group_of, today=snap.today), ""
 
         self.run_worker(work, thread=True, exclusive=True, group="reach", exit_on_error=False)
 
@@ -211,9 +211,13 @@ class ReachView(Vertical):
         insiders = [d for d in result.direct if d.get("insider")]
         if insiders:
             head += "; you already know " + ", ".join(f"{d['name']} ({d['warmth']:.2f})" for d in insiders[:3])
+        elif result.known:
+            d = result.known
+            head += (f". You already know them (warmth {d['warmth']:.2f}, last {d['last'] or '–'}): ask them yourself"
+                     + ("; below, alternatives through someone else, less sure" if result.paths else ""))
         elif result.direct and t.kind == "person":
             d = result.direct[0]
-            head += f"; you know them directly (warmth {d['warmth']:.2f}, last {d['last'] or '–'})"
+            head += f"; your own tie is weak or quiet (warmth {d['warmth']:.2f}, last {d['last'] or '–'})"
         if not result.paths:
             head += ". No intro path within 2 intermediaries; add ties you know of from a person's page (t)."
         self.query_one("#reach-head", Static).update(head)
