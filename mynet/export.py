@@ -17,6 +17,10 @@ One graph (:func:`network_graph`) is the single source of every format:
   number. Booleans are written ``true`` / ``false``.
 * **JSON**: networkx's node-link form (``nx.node_link_data(G, edges="edges")``).
 
+Text attributes pass through :func:`mynet.safetext.shown`, so every file is
+valid whatever the workspace holds (GraphML: XML 1.0's Char production; no
+raw ESC or other control character in any cell).
+
 Tie strength is the edge attribute ``weight``. Free-text notes and web
 addresses are not exported. With ``redact=True`` the graph is built from the
 redacted network (see :mod:`mynet.report.redact`). Files are written
@@ -39,10 +43,11 @@ import networkx as nx
 from .analysis.bridges import neighbourhood_overlap
 from .analysis.snapshot import Analysis, analyse, tie_graph
 from .errors import MynetError
-from .network import Network, describe, evidence_summary, load_network
+from .network import Network, basis, evidence_summary, load_network, tie_words
 from .report import check_redacted
 from .report._io import write_private
 from .report.redact import redact_analysis, redact_network
+from .safetext import shown
 from .store import Store
 
 __all__ = ["FORMATS", "network_graph", "graphml_text", "csv_texts", "json_text", "neutralise", "csv_paths",
@@ -52,8 +57,8 @@ FORMATS = ("graphml", "csv", "json")
 _SUFFIX = {".graphml": "graphml", ".xml": "graphml", ".csv": "csv", ".json": "json"}
 _RISKY = ("=", "+", "-", "@", "\t", "\r")
 _MEASURES_INT = ("degree",)
-_MEASURES_FLOAT = ("strength", "betweenness", "closeness", "pagerank", "clustering", "constraint", "effective_size",
-                   "participation", "within_z")
+_MEASURES_FLOAT = ("strength", "betweenness", "closeness", "pagerank", "eigenvector", "clustering", "constraint",
+                   "effective_size", "participation", "within_z")
 
 CONTACT_COLUMNS = ("id", "label", "emails", "phones", "organisations", "past_organisations", "titles", "tags",
                    "localities", "group", "group_name", "role", *_MEASURES_INT, *_MEASURES_FLOAT, "warmth", "warmth_tier",
@@ -126,8 +131,24 @@ def network_graph(net: Network, analysis: Analysis, *, redacted: bool = False) -
         e["between_groups"] = ga is not None and gb is not None and ga != gb
         _put(e, "source_group", ga)
         _put(e, "target_group", gb)
-        _put(e, "evidence", "; ".join(describe(x) for x in evidence_summary(net, i)))
+        items = evidence_summary(net, i)
+        e["basis"] = basis(items)
+        _put(e, "evidence", tie_words(items))
+    _shown_attributes(G)
     return G
+
+
+def _shown_attributes(G: nx.Graph) -> None:
+    """Every text attribute passed through :func:`mynet.safetext.shown`.
+
+    Whatever the workspace holds, the files then carry no control character
+    but tab and newline: GraphML stays well-formed XML 1.0 and no CSV or JSON
+    cell can act on the terminal that shows it.
+    """
+    for attrs in (G.graph, *(d for _n, d in G.nodes(data=True)), *(d for _a, _b, d in G.edges(data=True))):
+        for key, value in attrs.items():
+            if isinstance(value, str):
+                attrs[key] = shown(value)
 
 
 def graphml_text(G: nx.Graph) -> str:
@@ -193,6 +214,7 @@ def export_network(
     *,
     redact: bool = False,
     today: date | None = None,
+    as_of=None,
 ) -> list[Path]:
     """Write the network to ``path`` in ``fmt`` (default: from the suffix) and return the files written.
 
@@ -210,7 +232,7 @@ def export_network(
                          f"{p.name!r} does not tell by its suffix")
     if not p.parent.is_dir():
         raise MynetError(f"cannot write {p}: the folder {p.parent} does not exist")
-    net = load_network(store, today=today)
+    net = load_network(store, today=today, as_of=as_of)
     analysis = analyse(store, net)
     ps = None
     if redact:

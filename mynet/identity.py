@@ -20,6 +20,7 @@ from typing import Iterable
 from .model import Contact, Record
 from .normalise import (
     email_domain,
+    fold_text,
     is_webmail,
     name_key,
     normalise_email,
@@ -385,6 +386,19 @@ def canonical_orgs(names: Iterable[str], aliases: dict[str, str] | None = None) 
     return out
 
 
+def _family_first(rec, before_comma: str) -> bool:
+    """Whether a name written "A, B" puts the family name first.
+
+    A card's structured name (vCard N) decides when it gives one: only when
+    the part before the comma is N's family name ("Lind, Ana" with N
+    ``Lind;Ana``); "Ana Lind, MD" with N ``Lind;Ana;;;MD`` stays as written.
+    Without N (a CSV row), "Lind, Ana" is read family first, as exports write it.
+    """
+    if not (rec.family.strip() or rec.given.strip()):
+        return True
+    return fold_text(before_comma) == fold_text(rec.family)
+
+
 def _pick_name(stored: list[StoredRecord]) -> str:
     """The most informative display name among a contact's records.
 
@@ -399,7 +413,7 @@ def _pick_name(stored: list[StoredRecord]) -> str:
             continue
         if "," in name and name.count(",") == 1 and not s.record.full_name.strip().endswith(","):
             last, first = name.split(",")
-            if first.strip() and last.strip():
+            if first.strip() and last.strip() and _family_first(s.record, last):
                 name = f"{first.strip()} {last.strip()}"
         counts[name] += 1
         non_ascii = any(ord(ch) > 127 for ch in name)
@@ -462,6 +476,7 @@ def _build_contact(cid: int, stored: list[StoredRecord], emails, phones, members
         phones=phone_list + [p for p in raw_phones if p not in phone_list],
         orgs=current,
         past_orgs=past,
+        org_units=_org_units(stored, orgmap),
         titles=_unique(t for s in stored for t in s.record.titles),
         tags=_unique(t for s in stored for t in s.record.tags),
         localities=localities,
@@ -471,6 +486,23 @@ def _build_contact(cid: int, stored: list[StoredRecord], emails, phones, members
         sources=_unique(s.source for s in stored),
         record_ids=sorted(s.id for s in stored if s.id > 0),  # people found in mail have no record of a file
     )
+
+
+def _org_units(stored: list[StoredRecord], orgmap: dict[str, str]) -> list[list[str]]:
+    """[organisation, unit] for every department a record names (the first unit of a vCard ORG)."""
+    out: list[list[str]] = []
+    seen: set[tuple[str, str]] = set()
+    for s in stored:
+        for org, units in zip(s.record.orgs, s.record.org_units):
+            unit = next((u.strip() for u in units if u.strip()), "")
+            if not unit:
+                continue
+            name = orgmap.get(normalise_org(org), org.strip())
+            key = (normalise_org(name), fold_text(unit))
+            if key[0] and key not in seen:
+                seen.add(key)
+                out.append([name, unit])
+    return out
 
 
 def suggest_merges(

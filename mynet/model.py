@@ -177,6 +177,7 @@ class Contact:
     phones: list[str] = field(default_factory=list)
     orgs: list[str] = field(default_factory=list)
     past_orgs: list[str] = field(default_factory=list)
+    org_units: list[list[str]] = field(default_factory=list)  # [organisation, unit] pairs (a vCard ORG's department)
     titles: list[str] = field(default_factory=list)
     tags: list[str] = field(default_factory=list)
     localities: list[str] = field(default_factory=list)

@@ -14,17 +14,79 @@ from typing import Any
 
 import numpy as np
 
+from .errors import MynetError
 from .model import Contact, Interaction
 from .normalise import email_domain, fold_text, is_webmail, normalise_email, normalise_name, normalise_org
 from .store import Store
-from .correspondence import thread_members
 from .mailpeople import evidence_interactions, me_emails, not_employer_domains
-from .ties import KINDS, TieModel, TieTable, disparity_filter, infer_ties
+from .ties import KINDS, OBSERVED_KINDS, EventIndex, TieModel, TieTable, disparity_filter, infer_ties
 from .warmth import Warmth, WarmthModel, compute_warmth
 
-__all__ = ["Network", "load_network", "load_warmth", "describe", "explain_tie", "evidence_summary", "tie_decisions", "anchor_key", "contact_of_key"]
+__all__ = ["Network", "AsOf", "resolve_as_of", "load_network", "load_warmth", "describe", "tie_words", "explain_tie",
+           "evidence_summary", "basis", "tie_decisions", "label_decisions", "anchor_key", "contact_of_key"]
 
-TIES_CACHE = "ties:v1"
+TIES_CACHE = "ties:v2"
+#: Days without any interaction after which mynet measures warmth at your newest interaction by default.
+STALE_DAYS = 365
+
+
+@dataclass(frozen=True)
+class AsOf:
+    """The day the analysis looks from: evidence dated after it is left out, warmth is measured on it.
+
+    ``cut`` is true when some interactions are dated after ``day`` (so the ties
+    differ from the full ones); ``note`` is one line saying why mynet chose the
+    day itself ("" when you chose it or it is today).
+    """
+
+    day: date
+    cut: bool = False
+    note: str = ""
+    explicit: bool = False
+
+
+def _newest_interaction(store: Store) -> date | None:
+    row = store.conn.execute(
+        "SELECT max(substr(json_extract(data, '$.when'), 1, 10)) FROM interactions "
+        "WHERE coalesce(json_extract(data, '$.bulk'), 0) = 0"
+    ).fetchone()
+    try:
+        return date.fromisoformat(row[0]) if row and row[0] else None
+    except ValueError:
+        return None
+
+
+def resolve_as_of(store: Store, as_of: date | str | None = None, *, today: date | None = None) -> AsOf:
+    """The day to analyse at: ``as_of`` if given, else today, else your newest interaction when it is stale.
+
+    When your newest meeting or message is more than :data:`STALE_DAYS` days
+    old, measuring warmth today would make everyone look dormant; the newest
+    interaction's day is used instead and ``note`` says so.
+
+    Raises
+    ------
+    MynetError
+        When ``as_of`` is not a date written YYYY-MM-DD.
+    """
+    today = today or date.today()
+    newest = _newest_interaction(store)
+    if as_of is not None and as_of != "":
+        if isinstance(as_of, str):
+            try:
+                as_of = date.fromisoformat(as_of.strip())
+            except ValueError as exc:
+                raise MynetError(f"an as-of date is written YYYY-MM-DD, got {as_of!r}") from exc
+        return AsOf(as_of, newest is not None and newest > as_of, "", True)
+    if newest is not None and (today - newest).days > STALE_DAYS:
+        return AsOf(newest, False, f"Your newest meeting or message is from {newest.isoformat()}, more than a year ago: "
+                                   "warmth is measured at that date (--as-of DATE to choose another).")
+    return AsOf(today)
+
+
+def _before(interactions: list[Interaction], day: date) -> list[Interaction]:
+    """The interactions dated on or before ``day`` (undated ones are kept)."""
+    cut = day.isoformat()
+    return [it for it in interactions if not it.when or it.when[:10] <= cut]
 
 
 @dataclass
@@ -40,6 +102,8 @@ class Network:
     warmth_model: WarmthModel
     me_emails: set[str]
     notes: dict[tuple[int, int], str] = field(default_factory=dict)  # manual tie notes
+    as_of: AsOf = field(default_factory=lambda: AsOf(date.today()))
+    labels: dict[str, dict[str, Any]] = field(default_factory=dict)  # folded label -> verdict (mynet.labels)
 
     def name(self, cid: int) -> str:
         c = self.by_id.get(cid)
@@ -86,6 +150,17 @@ def tie_decisions(store: Store):
             else:
                 ratings[a] = float(row["value"])
     return manual, notes, suppressed, ratings
+
+
+def label_decisions(store: Store) -> dict[str, str]:
+    """Your verdicts on labels: folded label -> "count" or "ignore" (the latest decision wins)."""
+    out: dict[str, str] = {}
+    for row in store.decisions("label"):
+        if row["value"] in ("count", "ignore"):
+            out[row["a"]] = row["value"]
+        else:
+            out.pop(row["a"], None)
+    return out
 
 
 def _related_pairs(store: Store, contacts: list[Contact]) -> list[tuple[int, int]]:
@@ -152,27 +227,42 @@ def load_warmth(
     return warmth
 
 
-def load_network(store: Store, *, today: date | None = None) -> Network:
-    """Contacts, ties and warmth for the workspace, from the cache when it is current."""
+def load_network(store: Store, *, today: date | None = None, as_of: AsOf | date | str | None = None) -> Network:
+    """Contacts, ties and warmth for the workspace, from the cache when it is current.
+
+    Parameters
+    ----------
+    store : Store
+    today : date, optional
+        Today's date (tests freeze it); default the system's.
+    as_of : AsOf, date or str, optional
+        Look from this day: meetings and messages dated after it are left out
+        and warmth is measured on it. Default: see :func:`resolve_as_of`.
+    """
+    when = as_of if isinstance(as_of, AsOf) else resolve_as_of(store, as_of, today=today)
     contacts = store.contacts()
     by_id = {c.id: c for c in contacts}
     model = TieModel.from_settings(store.setting("tie_model", {}))
     wmodel = WarmthModel.from_settings(store.setting("warmth_model", {}))
     me = _me_emails(store)
     manual, notes, suppressed, ratings = tie_decisions(store)
-    cached = store.cached(TIES_CACHE)
+    key = TIES_CACHE + (f":{when.day.isoformat()}" if when.cut else "")
+    cached = store.cached(key)
     interactions: list[Interaction] | None = None
     if cached is not None:
         all_ties = TieTable.from_json(cached)
     else:
         interactions = evidence_interactions(store)
+        if when.cut:
+            interactions = _before(interactions, when.day)
         all_ties = infer_ties(
             contacts, interactions, me, model,
             related=_related_pairs(store, contacts), manual=manual, suppressed=suppressed,
             extra_webmail=not_employer_domains(store),
+            label_decisions=label_decisions(store),
         )
-        store.put_cache(TIES_CACHE, all_ties.to_json())
-    warmth = load_warmth(store, contacts, today=today, interactions=interactions, ratings=ratings)
+        store.put_cache(key, all_ties.to_json())
+    warmth = load_warmth(store, contacts, today=when.day, interactions=interactions, ratings=ratings)
     mask = all_ties.strength >= model.min_strength
     if all_ties.manual is not None:
         mask |= all_ties.manual
@@ -182,7 +272,8 @@ def load_network(store: Store, *, today: date | None = None) -> Network:
         if ties.manual is not None:
             keep |= ties.manual
         ties = ties.select(keep)
-    return Network(contacts, by_id, all_ties, ties, warmth, model, wmodel, me, notes)
+    labels = {v["key"]: v for v in all_ties.labels}
+    return Network(contacts, by_id, all_ties, ties, warmth, model, wmodel, me, notes, when, labels)
 
 
 def _shared_orgs(a: Contact, b: Contact) -> list[tuple[str, bool]]:
@@ -197,14 +288,46 @@ def _shared_orgs(a: Contact, b: Contact) -> list[tuple[str, bool]]:
     return out
 
 
+def _shared_units(a: Contact, b: Contact, org: str) -> list[str]:
+    """The units (departments) of ``org`` both contacts belong to."""
+    norm = normalise_org(org)
+    ua = {fold_text(u): u for o, u in a.org_units if normalise_org(o) == norm}
+    ub = {fold_text(u) for o, u in b.org_units if normalise_org(o) == norm}
+    return [ua[k] for k in sorted(set(ua) & ub)]
+
+
+def _org_sizes(net: Network) -> dict[str, int]:
+    sizes = getattr(net, "_org_sizes", None)
+    if sizes is None:
+        sizes = defaultdict(int)
+        for c in net.contacts:
+            for o in {normalise_org(x) for x in c.orgs + c.past_orgs} - {""}:
+                sizes[o] += 1
+        net._org_sizes = sizes  # type: ignore[attr-defined]
+    return sizes
+
+
+def _basis_of(kind: str) -> str:
+    return "observed" if kind in OBSERVED_KINDS or kind == "manual" else "assumed"
+
+
 def evidence_summary(net: Network, i: int, table: TieTable | None = None) -> list[dict[str, Any]]:
-    """Short evidence for row ``i`` of a tie table (for listings and ``--json``)."""
+    """Short evidence for row ``i`` of a tie table (for listings and ``--json``).
+
+    Every item says whether it is ``observed`` or ``assumed`` (its ``basis``);
+    meetings and threads are counted by :func:`mynet.ties.infer_ties` over
+    :func:`mynet.ties.evidence_events`, the same events :func:`explain_tie` lists.
+    """
     t = table if table is not None else net.ties
     a, b = net.by_id[int(t.a[i])], net.by_id[int(t.b[i])]
     out: list[dict[str, Any]] = []
     if t.parts["organisation"][i] > 0:
         for name, current in _shared_orgs(a, b):
-            out.append({"kind": "organisation", "name": name, "current": current})
+            ev: dict[str, Any] = {"kind": "organisation", "name": name, "current": current}
+            units = _shared_units(a, b, name)
+            if units:
+                ev["units"] = units
+            out.append(ev)
     if t.counts["meeting"][i]:
         out.append({"kind": "meeting", "count": int(t.counts["meeting"][i]), "weight": round(float(t.parts["meeting"][i]), 4)})
     if t.counts["thread"][i]:
@@ -217,46 +340,66 @@ def evidence_summary(net: Network, i: int, table: TieTable | None = None) -> lis
     if t.parts["tag"][i] > 0:
         ta = {fold_text(x): x for x in a.tags}
         for tag in sorted(set(ta) & {fold_text(x) for x in b.tags}):
-            out.append({"kind": "tag", "tag": ta[tag]})
+            if net.labels.get(tag, {}).get("counts", True):
+                out.append({"kind": "tag", "tag": ta[tag]})
     if t.parts["related"][i] > 0:
         out.append({"kind": "related"})
-    if t.manual is not None and t.manual[i]:
+    if t.manual is not None and len(t.manual) and t.manual[i]:
         pair = (int(t.a[i]), int(t.b[i]))
         out.append({"kind": "manual", "note": net.notes.get(pair, "")})
+    for ev in out:
+        ev["basis"] = _basis_of(ev["kind"])
     return out
+
+
+def basis(evidence: list[dict[str, Any]]) -> str:
+    """``"observed"`` when any counted item is observed, else ``"assumed"``."""
+    counted = [e for e in evidence if e.get("counted", True)]
+    return "observed" if any(_basis_of(e["kind"]) == "observed" for e in counted) else "assumed"
+
+
+def tie_words(evidence: list[dict[str, Any]]) -> str:
+    """A tie in plain words: its evidence, and "may know (...)" when nothing observed backs it."""
+    counted = [e for e in evidence if e.get("counted", True)]
+    words = "; ".join(describe(e) for e in counted)
+    if not counted:
+        return "linked"
+    return words if basis(counted) == "observed" else f"may know ({words})"
 
 
 def describe(ev: dict[str, Any]) -> str:
     """One evidence item in plain words."""
     k = ev["kind"]
     if k == "organisation":
-        return f"both at {ev['name']}" if ev.get("current") else f"both at {ev['name']} (past)"
-    if k == "meeting":
+        where = ev["name"] + (f", {', '.join(ev['units'])}" if ev.get("units") else "")
+        text = f"both at {where}" if ev.get("current") else f"both at {where} (past)"
+    elif k == "meeting":
         last = f", last {ev['last']}" if ev.get("last") else ""
-        return f"{ev['count']} meeting{'s' if ev['count'] != 1 else ''} together{last}"
-    if k == "thread":
+        text = f"{ev['count']} meeting{'s' if ev['count'] != 1 else ''} together{last}"
+    elif k == "thread":
         last = f", last {ev['last']}" if ev.get("last") else ""
-        return f"in {ev['count']} mail thread{'s' if ev['count'] != 1 else ''} together{last}"
-    if k == "domain":
-        return f"both use @{ev['domain']}"
-    if k == "tag":
-        return f"both tagged {ev['tag']!r}"
-    if k == "related":
-        return "named as related on a card"
-    if k == "manual":
-        return "you said they know each other" + (f": {ev['note']}" if ev.get("note") else "")
-    return k
+        text = f"in {ev['count']} mail thread{'s' if ev['count'] != 1 else ''} together{last}"
+    elif k == "domain":
+        text = f"both use @{ev['domain']}"
+    elif k == "tag":
+        text = f"both tagged {ev['tag']!r}"
+    elif k == "related":
+        text = "named as related on a card"
+    elif k == "manual":
+        text = "you said they know each other" + (f": {ev['note']}" if ev.get("note") else "")
+    else:
+        text = k
+    if ev.get("counted") is False:
+        text += f" (not counted: {ev.get('why_not') or 'see mynet tags'})"
+    return text
 
 
 @dataclass
 class _EvidenceIndex:
-    """Records per contact and interactions per address, built once per loaded network."""
+    """Records per contact and the shared-event index, built once per loaded network."""
 
     records: dict[int, list[tuple[str, Any]]]
-    interactions: list[Interaction]
-    by_email: dict[str, list[int]]
-    threads_of: dict[str, set[str]]  # address -> the threads it is a member of
-    members: dict[str, set[str]]  # thread -> its members (as the tie step counts them)
+    events: EventIndex
 
 
 def _evidence_index(store: Store, net: Network) -> _EvidenceIndex:
@@ -270,27 +413,30 @@ def _evidence_index(store: Store, net: Network) -> _EvidenceIndex:
         if cid is not None:
             records[cid].append((f"{src['path'].rsplit('/', 1)[-1]}:{rec.line}", rec))
     interactions = evidence_interactions(store, store.interactions())
-    by_email: dict[str, list[int]] = defaultdict(list)
-    for k, it in enumerate(interactions):
-        for p in it.participants:
-            by_email[normalise_email(p) or p].append(k)
-    threads_of: dict[str, set[str]] = defaultdict(set)
-    members = thread_members(interactions)
-    for thread, people in members.items():
-        for p in people:
-            threads_of[p].add(thread)
-    ix = _EvidenceIndex(dict(records), interactions, dict(by_email), dict(threads_of), members)
+    if net.as_of.cut:
+        interactions = _before(interactions, net.as_of.day)
+    ix = _EvidenceIndex(dict(records), EventIndex(net.contacts, interactions))
     net._evidence_ix = ix  # type: ignore[attr-defined]
     return ix
 
 
+def _where(it: Interaction) -> str:
+    return f"{it.source.rsplit('/', 1)[-1]}:{it.line}"
+
+
 def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, Any]:
-    """Every piece of evidence for the tie between two contacts, with where it came from."""
+    """Every piece of evidence for the tie between two contacts, with where it came from.
+
+    Also lists what two contacts share that does not count (a workflow label, an
+    organisation whose evidence the large-organisation limit left out), marked
+    ``"counted": False`` with the reason in ``why_not``.
+    """
     a, b = net.by_id[a_id], net.by_id[b_id]
     lo, hi = sorted((a_id, b_id))
     t = net.all_ties
     rows = np.nonzero((t.a == lo) & (t.b == hi))[0]
     i = int(rows[0]) if rows.size else None
+    summary = evidence_summary(net, i, t) if i is not None else []
     ix = _evidence_index(store, net)
     # Provenance of organisations and tags: file:line of every record that says so.
     said: dict[tuple[int, str, str], list[str]] = defaultdict(list)
@@ -301,45 +447,48 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
             for tg in rec.tags:
                 said[(cid, "tag", fold_text(tg))].append(where)
     evidence: list[dict[str, Any]] = []
+    org_counted = i is not None and t.parts["organisation"][i] > 0
+    sizes = _org_sizes(net)
     for name, current in _shared_orgs(a, b):
         norm = normalise_org(name)
         prov = sorted(set(said[(a_id, "org", norm)] + said[(b_id, "org", norm)]))
-        evidence.append({"kind": "organisation", "name": name, "current": current, "provenance": prov})
-    ea, eb = set(a.emails), set(b.emails)
-    meetings, threads = [], defaultdict(list)
-    shared = {k for e in ea for k in ix.by_email.get(e, ())} & {k for e in eb for k in ix.by_email.get(e, ())}
-    for k in sorted(shared):
-        it = ix.interactions[k]
-        if not it.bulk and it.kind == "meeting" and len(it.participants) <= net.model.broadcast_cap:
-            meetings.append(it)
-    # Threads both are members of (a list thread: both wrote in it), as the tie step counts them.
-    both = {t for e in ea for t in ix.threads_of.get(e, ())} & {t for e in eb for t in ix.threads_of.get(e, ())}
-    both = {t for t in both if len(ix.members.get(t, ())) <= net.model.broadcast_cap}
-    for it in ix.interactions:
-        if it.kind == "message" and not it.bulk and (it.thread or it.key) in both:
-            threads[it.thread or it.key].append(it)
+        ev: dict[str, Any] = {"kind": "organisation", "name": name, "current": current, "provenance": prov}
+        units = _shared_units(a, b, name)
+        if units:
+            ev["units"] = units
+        if not org_counted and sizes.get(norm, 0) > net.model.size_ref and net.model.assumed_cap:
+            ev["counted"] = False
+            ev["why_not"] = (f"{sizes[norm]} of your contacts are there; inside an organisation that large only "
+                             f"{net.model.assumed_cap} links per person count, best first")
+        evidence.append(ev)
+    shared = ix.events.shared(a_id, b_id, net.model.broadcast_cap)
+    meetings = [ev.items[0] for ev in shared["meeting"]]
     if meetings:
-        meetings.sort(key=lambda m: m.when)
+        count = int(t.counts["meeting"][i]) if i is not None else len(meetings)
         evidence.append({
-            "kind": "meeting", "count": len(meetings), "first": meetings[0].when[:10], "last": meetings[-1].when[:10],
-            "recent": [{"date": m.when[:10], "title": m.title, "size": len(m.participants),
-                        "provenance": f"{m.source.rsplit('/', 1)[-1]}:{m.line}"} for m in meetings[-3:][::-1]],
+            "kind": "meeting", "count": count, "first": meetings[0].when[:10], "last": meetings[-1].when[:10],
+            "recent": [{"date": m.when[:10], "title": m.title, "size": len(m.participants), "provenance": _where(m)}
+                       for m in meetings[-3:][::-1]],
         })
-    if threads:
-        msgs = sorted((m for ms in threads.values() for m in ms), key=lambda m: m.when)
+    if shared["thread"]:
+        msgs = sorted((m for ev in shared["thread"] for m in ev.items), key=lambda m: m.when)
+        count = int(t.counts["thread"][i]) if i is not None else len(shared["thread"])
         evidence.append({
-            "kind": "thread", "count": len(threads), "messages": len(msgs), "last": msgs[-1].when[:10],
-            "recent": [{"date": m.when[:10], "subject": m.title, "provenance": f"{m.source.rsplit('/', 1)[-1]}:{m.line}"}
-                       for m in msgs[-3:][::-1]],
+            "kind": "thread", "count": count, "messages": len(msgs), "last": msgs[-1].when[:10],
+            "recent": [{"date": m.when[:10], "subject": m.title, "provenance": _where(m)} for m in msgs[-3:][::-1]],
         })
-    if i is not None:
-        for ev in evidence_summary(net, i, t):
-            if ev["kind"] in ("domain", "related", "manual"):
-                evidence.append(ev)
-            elif ev["kind"] == "tag":
-                norm = fold_text(ev["tag"])
-                ev["provenance"] = sorted(set(said[(a_id, "tag", norm)] + said[(b_id, "tag", norm)]))
-                evidence.append(ev)
+    for ev in summary:
+        if ev["kind"] in ("domain", "related", "manual"):
+            evidence.append(ev)
+    ta = {fold_text(x): x for x in a.tags}
+    for key in sorted(set(ta) & {fold_text(x) for x in b.tags}):
+        verdict = net.labels.get(key)
+        ev = {"kind": "tag", "tag": ta[key], "provenance": sorted(set(said[(a_id, "tag", key)] + said[(b_id, "tag", key)]))}
+        if verdict is not None and not verdict.get("counts", True):
+            ev |= {"counted": False, "why_not": verdict.get("reason", "")}
+        evidence.append(ev)
+    for ev in evidence:
+        ev["basis"] = _basis_of(ev["kind"])
     contributions = {}
     strength = 0.0
     if i is not None:
@@ -349,11 +498,15 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
             if x > 0:
                 contributions[k] = round(float(-np.expm1(-x)), 4)
         strength = float(t.strength[i])
+    counted = [e for e in evidence if e.get("counted", True)]
     return {
         "a": a_id, "b": b_id, "a_name": a.name, "b_name": b.name,
         "strength": round(strength, 4),
+        "basis": basis(counted) if counted else None,
+        "words": tie_words(evidence) if counted else "",
         "in_graph": bool(np.any((net.ties.a == lo) & (net.ties.b == hi))),
-        "suppressed": i is None and bool(evidence),
+        "suppressed": i is None and bool(counted),
+        "as_of": net.as_of.day.isoformat(),
         "evidence": evidence,
         "contributions": contributions,
     }

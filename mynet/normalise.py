@@ -188,10 +188,11 @@ PLACEHOLDER_ORGS = frozenset(
 )
 
 # Address-book labels that almost everyone carries; sharing one is no evidence.
-# Common practice, not a standard list.
+# Common practice, not a standard list. Rankings of your own ("VIP", "Favourites") are
+# workflow labels: see mynet.labels.
 GENERIC_TAGS = frozenset(
-    {"work", "business", "personal", "other", "starred", "mycontacts", "my contacts", "imported", "contacts",
-     "all contacts", "vip", "favourites", "favorites", "important", "misc", "general"}
+    {"work", "business", "personal", "other", "mycontacts", "my contacts", "imported", "contacts",
+     "all contacts", "misc", "general"}
 )
 
 

@@ -30,6 +30,16 @@ the top ``k`` candidates (one path per first intermediary) are the answer.
 Targets are sources of the search and are never relaxed *through*: a path ends at
 the first target it reaches, so no target is an intermediary of another's path.
 
+Contacts who may only open a path
+---------------------------------
+``first_only`` names contacts who may be the first intermediary but never a later
+one (the reach rule: someone you already know warmly is asked directly, never
+reached through somebody else). The search never relaxes through them, exactly as
+through an avoided contact, so every contact's best continuation is already free
+of them; they remain candidates for the first step. Filtering finished paths
+instead would be wrong: a contact whose *best* path has such a detour would lose
+its good detour-free path along with it.
+
 Distinct second intermediaries
 ------------------------------
 With ``distinct_second=True`` the ``k`` paths are chosen greedily, best first:
@@ -278,6 +288,7 @@ class _Search:
     """The result of one search from a target set: best continuation per node."""
 
     def __init__(self, index: PathIndex, targets: np.ndarray, node_ok: np.ndarray, edge_ok: np.ndarray, hops: int | None):
+        # node_ok: who may lie on a continuation (after the first intermediary), targets aside.
         self.index = index
         self.is_target = np.zeros(index.n, dtype=bool)
         self.is_target[targets] = True
@@ -289,6 +300,7 @@ class _Search:
 
     def _dijkstra(self, targets, node_ok, edge_ok):
         ix = self.index
+        node_ok = node_ok | self.is_target
         keep = edge_ok & node_ok[ix.rows] & node_ok[ix.indices]
         if keep.all():
             g = ix.costs
@@ -377,13 +389,19 @@ def _row_edges(indptr: np.ndarray, rows: np.ndarray) -> tuple[np.ndarray, np.nda
     return src, offsets + np.arange(total)
 
 
-def _prepare(index: PathIndex, targets: Iterable[int], avoid: Iterable[int], min_strength: float):
-    avoid_rows = [p for p in (index.pos(a) for a in avoid) if p is not None]
+def _rows_of(index: PathIndex, contacts: Iterable[int]) -> list[int]:
+    return [p for p in (index.pos(c) for c in contacts) if p is not None]
+
+
+def _prepare(index: PathIndex, targets: Iterable[int], avoid: Iterable[int], min_strength: float, first_only: Iterable[int] = ()):
+    """Target rows, who may be on a path at all, who may be beyond its first step, usable ties."""
     node_ok = np.ones(index.n, dtype=bool)
-    node_ok[avoid_rows] = False
-    rows = sorted({p for p in (index.pos(t) for t in targets) if p is not None and node_ok[p]})
+    node_ok[_rows_of(index, avoid)] = False
+    rows = sorted({p for p in _rows_of(index, targets) if node_ok[p]})
+    later_ok = node_ok.copy()
+    later_ok[_rows_of(index, first_only)] = False
     edge_ok = index.strengths >= min_strength
-    return np.asarray(rows, dtype=np.int64), node_ok, edge_ok
+    return np.asarray(rows, dtype=np.int64), node_ok, later_ok, edge_ok
 
 
 def find_paths(
@@ -395,6 +413,7 @@ def find_paths(
     avoid: Iterable[int] = (),
     min_strength: float = 0.0,
     distinct_second: bool = True,
+    first_only: Iterable[int] = (),
 ) -> list[IntroPath]:
     """The top ``k`` intro paths to a target (or any of a set), with distinct first intermediaries.
 
@@ -417,6 +436,9 @@ def find_paths(
     distinct_second : bool, default True
         Prefer paths whose second intermediaries differ as well (see the module notes
         for the greedy rule).
+    first_only : iterable of int, default ()
+        Contacts who may be the first intermediary of a path but never a later one
+        (applied inside the search; see the module notes).
 
     Returns
     -------
@@ -440,10 +462,10 @@ def find_paths(
         raise ValueError("k must be >= 0")
     if max_intermediaries is not None and max_intermediaries < 1:
         raise ValueError("max_intermediaries must be >= 1 (or None for no limit)")
-    rows, node_ok, edge_ok = _prepare(index, targets, avoid, min_strength)
+    rows, node_ok, later_ok, edge_ok = _prepare(index, targets, avoid, min_strength, first_only)
     if k == 0 or len(rows) == 0:
         return []
-    search = _Search(index, rows, node_ok, edge_ok, max_intermediaries)
+    search = _Search(index, rows, later_ok, edge_ok, max_intermediaries)
     # The d values that a second step may lean on: one layer fewer than the full budget.
     lean = search.dist if max_intermediaries is None else search.dists[max_intermediaries - 1]
     warm = index.warmth
@@ -454,12 +476,12 @@ def find_paths(
     src, eidx = _row_edges(index.indptr, cand)
     nbr = index.indices[eidx]
     total = lean[nbr] + index.cost_data[eidx]
-    total[~(edge_ok[eidx] & node_ok[nbr])] = np.inf
+    total[~(edge_ok[eidx] & (later_ok[nbr] | search.is_target[nbr]))] = np.inf
     best = np.full(index.n, np.inf)
     np.minimum.at(best, src, total)
     bound = warm[cand] * np.exp(-best[cand])
     bounds = {int(m): float(b) for b, m in zip(bound, cand) if b > 0}
-    picked = _greedy(index, search, lean, node_ok, edge_ok, bounds, k, distinct_second)
+    picked = _greedy(index, search, lean, later_ok, edge_ok, bounds, k, distinct_second)
     paths = [_make_path(index, m, chain) for m, chain in picked]
     paths.sort(key=lambda p: (-p.score, [index.pos(x) for x in p.nodes]))
     return paths
@@ -468,7 +490,8 @@ def find_paths(
 def _greedy(index, search, lean, node_ok, edge_ok, bounds, k, distinct_second):
     """Lazy greedy choice of first intermediaries (see the module notes).
 
-    ``bounds`` maps each candidate row to an upper bound on its score. The heap holds
+    ``bounds`` maps each candidate row to an upper bound on its score; ``node_ok`` says who
+    may follow the first intermediary. The heap holds
     ``(-score, m, version, chain)``; an entry is fresh (its score exact under the current
     banned set) when its version equals the number of times that set has grown.
     """
@@ -507,7 +530,7 @@ def _best_from(index, search, lean, node_ok, edge_ok, m, banned_second):
     lo, hi = index.indptr[m], index.indptr[m + 1]
     nbr = index.indices[lo:hi]
     total = lean[nbr] + index.cost_data[lo:hi]
-    ok = edge_ok[lo:hi] & node_ok[nbr] & np.isfinite(total)
+    ok = edge_ok[lo:hi] & (node_ok[nbr] | search.is_target[nbr]) & np.isfinite(total)
     if banned_second:
         ok &= ~np.isin(nbr, list(banned_second)) | search.is_target[nbr]
     nbr, total = nbr[ok], total[ok]
@@ -544,6 +567,7 @@ def best_per_target(
     avoid: Iterable[int] = (),
     min_strength: float = 0.0,
     distinct_second: bool = True,
+    first_only: Iterable[int] = (),
 ) -> dict[int, list[IntroPath]]:
     """The best intro paths to each target of a set, for a listing grouped by target.
 
@@ -554,7 +578,7 @@ def best_per_target(
         Contact ids (e.g. everyone at one organisation). Ids not in the index are skipped.
     k : int, default 1
         Paths per target.
-    max_intermediaries, avoid, min_strength, distinct_second
+    max_intermediaries, avoid, min_strength, distinct_second, first_only
         As in :func:`find_paths`.
 
     Returns
@@ -577,6 +601,7 @@ def best_per_target(
             avoid=avoid_set | others,
             min_strength=min_strength,
             distinct_second=distinct_second,
+            first_only=first_only,
         )
     order = sorted(out, key=lambda t: (0, -out[t][0].score, t) if out[t] else (1, 0.0, t))
     return {t: out[t] for t in order}

@@ -24,7 +24,34 @@ from .model import Record
 from .normalise import normalise_name
 from .store import Store
 
-__all__ = ["forget_contact", "remove_source", "compact", "forgotten_filter", "forgotten_address", "ForgetReport"]
+__all__ = ["forget_contact", "remove_source", "compact", "forgotten_filter", "forgotten_address", "ForgetReport",
+           "remember_written",
+           "written_files"]
+
+#: Meta key listing the reports and exports written from this workspace (paths only, no content).
+WRITTEN_KEY = "written_files"
+MAX_WRITTEN = 100
+
+
+def remember_written(store: Store, paths: Iterable[str]) -> None:
+    """Note where a report or an export was written, so that forgetting someone can name the files.
+
+    Files outside the workspace cannot be cleaned by mynet; the list lets
+    :func:`written_files` say which ones may still hold a forgotten person.
+    Nothing is noted on a read-only workspace.
+    """
+    if store.read_only:
+        return
+    old = [p for p in json.loads(store.meta(WRITTEN_KEY, "[]") or "[]") if p not in set(map(str, paths))]
+    new = (old + [str(p) for p in paths])[-MAX_WRITTEN:]
+    store.set_meta(WRITTEN_KEY, json.dumps(new))
+
+
+def written_files(store: Store) -> list[str]:
+    """Reports and exports written from this workspace that still exist, oldest first."""
+    import os
+
+    return [p for p in json.loads(store.meta(WRITTEN_KEY, "[]") or "[]") if os.path.exists(p)]
 
 
 def _salt(store: Store) -> str:

@@ -7,6 +7,12 @@ analysis results keyed by a data version.
 The file and its journal are readable by the owner only (mode 0600). Writes run
 in ``BEGIN IMMEDIATE`` transactions in WAL mode, so a second process reading
 the workspace sees either the state before an import or after it, never half.
+
+A workspace that cannot be written (a read-only file, folder or mount) opens
+read-only: SQLite's ``mode=ro``, or ``immutable=1`` when not even the WAL
+index beside the file can be created. Reading works as usual (results that
+would be cached are computed each time); a change raises
+:class:`WorkspaceError` saying the workspace is read-only.
 """
 
 from __future__ import annotations
@@ -19,6 +25,7 @@ from contextlib import contextmanager
 from datetime import datetime, timezone
 from pathlib import Path
 from typing import Any, Iterator
+from urllib.parse import quote
 
 from .errors import WorkspaceError
 from .model import Contact, Interaction, Record
@@ -98,9 +105,29 @@ class SourceRow(dict):
 
 def _create_private_file(path: Path) -> None:
     """Create an empty file readable by the owner only, if it does not exist."""
-    path.parent.mkdir(parents=True, exist_ok=True, mode=0o700)
-    fd = os.open(path, os.O_CREAT | os.O_RDWR, 0o600)
+    try:
+        path.parent.mkdir(parents=True, exist_ok=True, mode=0o700)
+        fd = os.open(path, os.O_CREAT | os.O_RDWR, 0o600)
+    except OSError as exc:
+        raise WorkspaceError(f"cannot create a workspace at {path}: {exc.strerror or exc}") from exc
     os.close(fd)
+
+
+def _writable(path: Path) -> bool:
+    """Whether the workspace file and its folder (where SQLite keeps its journal) can be written."""
+    return os.access(path, os.W_OK) and os.access(path.parent if str(path.parent) else Path("."), os.W_OK)
+
+
+def _read_only_failure(exc: sqlite3.Error) -> bool:
+    """Whether SQLite failed because it could not write (the file, its journal or the folder)."""
+    text = str(exc).lower()
+    return "readonly" in text or "read-only" in text or "unable to open database file" in text
+
+
+def _read_only_uris(path: Path) -> list[str]:
+    """``mode=ro`` first; ``immutable=1`` when the WAL index cannot be created beside the file."""
+    base = "file:" + quote(str(path.absolute()))
+    return [base + "?mode=ro", base + "?mode=ro&immutable=1"]
 
 
 class Store:
@@ -114,6 +141,12 @@ class Store:
         When false, a missing file raises :class:`WorkspaceError` instead.
     timeout : float
         Seconds to wait for another process's write transaction to finish.
+
+    Attributes
+    ----------
+    read_only : bool
+        True when the file, its folder or its mount cannot be written: reads
+        work, :meth:`transaction` raises :class:`WorkspaceError`.
     """
 
     def __init__(self, path: str | os.PathLike, *, create: bool = True, timeout: float = 30.0):
@@ -124,24 +157,70 @@ class Store:
             _create_private_file(self.path)
         self._tighten_permissions()
         self._in_tx = False
-        try:
-            self.conn = sqlite3.connect(self.path, timeout=timeout, isolation_level=None)
+        self.read_only = False
+        if _writable(self.path):
+            try:
+                self._open_writable(timeout)
+                return
+            except sqlite3.DatabaseError as exc:
+                if not _read_only_failure(exc):
+                    raise WorkspaceError(f"{self.path} is not a mynet workspace or is damaged ({exc})") from exc
+                if getattr(self, "conn", None) is not None:
+                    self.conn.close()
+        self._open_read_only(timeout)
+
+    def _open_writable(self, timeout: float) -> None:
+        self.conn = sqlite3.connect(self.path, timeout=timeout, isolation_level=None)
+        self.conn.row_factory = sqlite3.Row
+        self.conn.execute("PRAGMA foreign_keys = ON")
+        self.conn.execute("PRAGMA secure_delete = ON")
+        self.journal_mode = self.conn.execute("PRAGMA journal_mode = WAL").fetchone()[0]
+        self.conn.execute("PRAGMA synchronous = NORMAL")
+        self._migrate()
+
+    def _open_read_only(self, timeout: float) -> None:
+        """Open with ``mode=ro`` (or ``immutable=1``); a workspace that needs creating or upgrading cannot be."""
+        self.read_only = True
+        last: sqlite3.Error | None = None
+        for uri in _read_only_uris(self.path):
+            try:
+                self.conn = sqlite3.connect(uri, uri=True, timeout=timeout, isolation_level=None)
+            except sqlite3.Error as exc:
+                last = exc
+                continue
             self.conn.row_factory = sqlite3.Row
-            self.conn.execute("PRAGMA foreign_keys = ON")
-            self.conn.execute("PRAGMA secure_delete = ON")
-            mode = self.conn.execute("PRAGMA journal_mode = WAL").fetchone()[0]
-            self.conn.execute("PRAGMA synchronous = NORMAL")
-            self._migrate()
-        except sqlite3.DatabaseError as exc:
-            raise WorkspaceError(f"{self.path} is not a mynet workspace or is damaged ({exc})") from exc
-        self.journal_mode = mode
+            try:
+                version = self.conn.execute("PRAGMA user_version").fetchone()[0]
+                self.journal_mode = self.conn.execute("PRAGMA journal_mode").fetchone()[0]
+            except sqlite3.DatabaseError as exc:
+                self.conn.close()
+                last = exc
+                if _read_only_failure(exc):
+                    continue
+                break
+            if version == 0 and not self.conn.execute("SELECT 1 FROM sqlite_master LIMIT 1").fetchone():
+                self.conn.close()
+                raise WorkspaceError(f"{self.path} is read-only and empty: nothing has been imported into it, "
+                                     "and nothing can be (make the file and its folder writable)")
+            if version > SCHEMA_VERSION:
+                self.conn.close()
+                raise WorkspaceError(f"{self.path} was written by a newer mynet (schema {version}, this one knows "
+                                     f"{SCHEMA_VERSION}); upgrade mynet")
+            if version < SCHEMA_VERSION:
+                self.conn.close()
+                raise WorkspaceError(f"{self.path} is read-only and needs upgrading to this mynet's format first "
+                                     "(make the file and its folder writable once, then run any mynet command)")
+            return
+        raise WorkspaceError(f"{self.path} is not a mynet workspace or is damaged ({last})")
 
     # -- life cycle -----------------------------------------------------------
     def _tighten_permissions(self) -> None:
+        """Take group and others' access away; the owner's own bits (a write-protected file) are kept."""
         try:
             st = self.path.stat()
-            if stat.S_IMODE(st.st_mode) & 0o077:
-                os.chmod(self.path, 0o600)
+            mode = stat.S_IMODE(st.st_mode)
+            if mode & 0o077:
+                os.chmod(self.path, mode & 0o700)
         except OSError:
             pass
 
@@ -185,6 +264,9 @@ class Store:
         if self._in_tx:
             yield self.conn
             return
+        if self.read_only:
+            raise WorkspaceError(f"{self.path} is read-only (the file, its folder or the disk it is on cannot be "
+                                 "written): it can be read, but this command changes it; nothing was changed")
         try:
             self.conn.execute("BEGIN IMMEDIATE")
         except sqlite3.OperationalError as exc:
@@ -246,6 +328,9 @@ class Store:
         return json.loads(row[1])
 
     def put_cache(self, key: str, value: Any, version: int | None = None) -> None:
+        """Keep a derived result (skipped on a read-only workspace: it is computed again next time)."""
+        if self.read_only:
+            return
         with self.transaction():
             self.conn.execute(
                 "INSERT OR REPLACE INTO cache(key, version, data) VALUES (?, ?, ?)",

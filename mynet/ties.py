@@ -25,6 +25,14 @@ Each kind of evidence ``k`` gives a pair a non-negative amount ``x_k``:
   not organisations;
 * ``related``: a vCard RELATED property (or a vendor relation field) naming the other.
 
+Meetings, threads, RELATED and your own ties are *observed* evidence (something
+happened or you said so); organisation, domain and tag are *assumed* (a shared
+attribute). A tie resting on assumed evidence alone is only a "may know". In a
+large organisation every pair shares the organisation, so assumed evidence alone
+would make one complete clique of all its people; see ``TieModel.org_alone_max``.
+A shared unit of an organisation (the department of a vCard ORG) is a smaller
+group and counts as its own organisation evidence. See :mod:`mynet.org_limit`.
+
 The strength is ``1 - exp(-sum_k x_k / scale_k)``: each kind acts as an
 independent chance that the two know each other (a noisy-OR), so strength is
 in (0, 1), grows with every piece of evidence and grows faster when the kinds
@@ -44,16 +52,19 @@ from __future__ import annotations
 import math
 from collections import defaultdict
 from itertools import chain
-from dataclasses import asdict, dataclass, field, fields
+from dataclasses import asdict, dataclass, field
 from typing import Any, Iterable, Mapping, Sequence
 
 import numpy as np
 import pandas as pd
 import scipy.sparse as sp
 
-from .correspondence import thread_members
+from .events import Event, EventIndex, contact_of_email, event_lists, evidence_events
+from .labels import judge_labels
 from .model import Contact, Interaction
-from .normalise import GENERIC_TAGS, email_domain, fold_text, is_real_org, is_webmail, normalise_org
+from .org_limit import limit_large_orgs
+from .normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
+from .settings import SettingsGroup, setting
 
 __all__ = [
     "TieModel",
@@ -63,13 +74,22 @@ __all__ = [
     "infer_ties",
     "disparity_filter",
     "KINDS",
+    "OBSERVED_KINDS",
+    "ASSUMED_KINDS",
+    "Event",
+    "evidence_events",
+    "EventIndex",
 ]
 
 KINDS = ("meeting", "thread", "organisation", "domain", "tag", "related")
+#: Evidence of something that happened (or that you said): a meeting, a thread both wrote in, RELATED.
+OBSERVED_KINDS = ("meeting", "thread", "related")
+#: Evidence inferred from a shared attribute.
+ASSUMED_KINDS = ("organisation", "domain", "tag")
 
 
 @dataclass
-class TieModel:
+class TieModel(SettingsGroup, group="tie_model"):
     """The settings of the strength model (stored in the workspace, see ``mynet settings``).
 
     The defaults are a judgement call, not a published calibration: one
@@ -77,29 +97,30 @@ class TieModel:
     ten-person organisation gives 0.30, a hundred-person one 0.10.
     """
 
-    meeting_scale: float = 2.0  # Newman weight that gives strength 1 - 1/e
-    thread_scale: float = 3.0
-    org_current: float = 0.30
-    org_past: float = 0.20
-    domain: float = 0.15
-    tag: float = 0.20
-    related: float = 0.60
-    manual: float = 0.80
-    size_ref: int = 10  # groups up to this size count in full
-    group_cap: int = 500  # larger organisations/tags/domains give no pairwise evidence
-    broadcast_cap: int = 50  # larger meetings/threads count for nothing
-    tag_share_cap: float = 0.25  # tags carried by a larger share of contacts say nothing
-    min_strength: float = 0.05  # ties weaker than this are left out of the graph
-    backbone_alpha: float = 0.0  # disparity filter significance; 0 = off
-
-    @classmethod
-    def from_settings(cls, raw: Mapping[str, Any] | None) -> "TieModel":
-        known = {f.name: f.type for f in fields(cls)}
-        kwargs = {}
-        for k, v in (raw or {}).items():
-            if k in known:
-                kwargs[k] = int(v) if known[k] in (int, "int") else float(v)
-        return cls(**kwargs)
+    meeting_scale: float = setting(2.0, "shared meetings needed (Newman weight) for a tie of strength 0.63; higher: "
+                                   "meetings count less", low=0, low_open=True)
+    thread_scale: float = setting(3.0, "the same for shared mail threads", low=0, low_open=True)
+    org_current: float = setting(0.30, "chance that two people at a small organisation now know each other",
+                                 low=0, high=1, high_open=True)
+    org_past: float = setting(0.20, "the same when either was there only in the past", low=0, high=1, high_open=True)
+    domain: float = setting(0.15, "the same for a shared work mail domain", low=0, high=1, high_open=True)
+    tag: float = setting(0.20, "the same for a shared tag, category or group", low=0, high=1, high_open=True)
+    related: float = setting(0.60, "the same for a RELATED link on a card", low=0, high=1, high_open=True)
+    manual: float = setting(0.80, "strength of a tie you add without giving one", low=0, high=1, low_open=True)
+    size_ref: int = setting(10, "organisations, tags and domains up to this size count in full", low=1)
+    group_cap: int = setting(500, "larger organisations, tags and domains give no evidence", low=2)
+    broadcast_cap: int = setting(50, "larger meetings and threads count for nothing", low=2)
+    tag_share_cap: float = setting(0.25, "tags carried by a larger share of contacts say nothing",
+                                   low=0, high=1, low_open=True)
+    min_strength: float = setting(0.05, "ties weaker than this are left out of the graph", low=0, high=1, high_open=True)
+    backbone_alpha: float = setting(0.0, "keep only locally significant ties (disparity filter) at this "
+                                    "significance; 0 keeps every tie", low=0, high=1, high_open=True)
+    size_exponent: float = setting(0.5, "how fast a shared group weighs less as it grows: base * (size_ref / size) "
+                                   "to this power; 0: size does not matter", low=0)
+    assumed_cap: int = setting(10, "per person and large organisation, the assumed-only ties kept, best first "
+                               "(0: all)", low=0)
+    org_alone_max: int = setting(0, "larger organisations count only for pairs with other evidence (0: no such rule)",
+                                 low=0)
 
     def to_dict(self) -> dict[str, Any]:
         return asdict(self)
@@ -108,7 +129,7 @@ class TieModel:
         """``-ln(1 - s)`` for one shared group of ``size`` members (0 above the cap)."""
         if size < 2 or size > self.group_cap or base <= 0:
             return 0.0
-        s = base * min(1.0, math.sqrt(self.size_ref / size))
+        s = base * min(1.0, (self.size_ref / size) ** self.size_exponent)
         return -math.log1p(-min(s, 0.999))
 
 
@@ -118,7 +139,9 @@ class TieTable:
 
     ``a`` and ``b`` are contact ids with ``a < b``; ``parts[kind]`` holds the
     pair's amount of each kind of evidence (before scaling) and ``counts`` the
-    number of shared meetings and threads.
+    number of shared meetings and threads. ``labels`` holds the verdict on
+    every label (:class:`mynet.labels.LabelVerdict` as dicts) the tags were
+    judged by.
     """
 
     a: np.ndarray
@@ -127,9 +150,26 @@ class TieTable:
     parts: dict[str, np.ndarray] = field(default_factory=dict)
     counts: dict[str, np.ndarray] = field(default_factory=dict)
     manual: np.ndarray | None = None
+    labels: list[dict] = field(default_factory=list)
 
     def __len__(self) -> int:
         return int(self.a.shape[0])
+
+    def observed(self) -> np.ndarray:
+        """Per row: the tie rests on observed evidence (a meeting, a thread, RELATED or your own tie)."""
+        obs = np.zeros(len(self), dtype=bool)
+        for k in OBSERVED_KINDS:
+            if k in self.parts:
+                obs |= self.parts[k] > 0
+        if self.manual is not None and len(self.manual):
+            obs |= self.manual
+        return obs
+
+    def basis(self, i: int) -> str:
+        """``"observed"`` or ``"assumed"`` (shared attributes only) for row ``i``."""
+        if self.manual is not None and len(self.manual) and self.manual[i]:
+            return "observed"
+        return "observed" if any(self.parts[k][i] > 0 for k in OBSERVED_KINDS if k in self.parts) else "assumed"
 
     def order(self) -> np.ndarray:
         """Row indices, strongest first (ties broken by ids, so the order is stable)."""
@@ -141,6 +181,7 @@ class TieTable:
             {k: v[mask] for k, v in self.parts.items()},
             {k: v[mask] for k, v in self.counts.items()},
             None if self.manual is None else self.manual[mask],
+            self.labels,
         )
 
     def to_json(self) -> dict[str, list]:
@@ -148,6 +189,7 @@ class TieTable:
         out |= {f"part_{k}": v.tolist() for k, v in self.parts.items()}
         out |= {f"count_{k}": v.tolist() for k, v in self.counts.items()}
         out["manual"] = [] if self.manual is None else self.manual.tolist()
+        out["labels"] = self.labels
         return out
 
     @classmethod
@@ -156,7 +198,7 @@ class TieTable:
         counts = {k[6:]: np.asarray(v, dtype=np.int64) for k, v in d.items() if k.startswith("count_")}
         manual = np.asarray(d["manual"], dtype=bool) if d.get("manual") else None
         return cls(np.asarray(d["a"], dtype=np.int64), np.asarray(d["b"], dtype=np.int64),
-                   np.asarray(d["strength"], dtype=float), parts, counts, manual)
+                   np.asarray(d["strength"], dtype=float), parts, counts, manual, list(d.get("labels", [])))
 
 
 def incidence(groups: Sequence[Sequence[int]], n: int) -> sp.csr_matrix:
@@ -197,6 +239,7 @@ def infer_ties(
     manual: Mapping[tuple[int, int], float] | None = None,
     suppressed: Iterable[tuple[int, int]] = (),
     extra_webmail: frozenset[str] = frozenset(),
+    label_decisions: Mapping[str, str] | None = None,
 ) -> TieTable:
     """Every pair of contacts with any evidence, with its strength.
 
@@ -216,59 +259,75 @@ def infer_ties(
         The user's own ties; the strength becomes at least this.
     suppressed : iterable of (id, id)
         Ties the user said are wrong; removed whatever the evidence.
+    label_decisions : mapping of folded label -> "count" | "ignore"
+        Your own verdicts on labels (see :mod:`mynet.labels`); the others are judged.
 
     Returns
     -------
     TieTable
-        Pairs with ``a < b`` (contact ids), in no particular order.
+        Pairs with ``a < b`` (contact ids), in no particular order, with the
+        verdict on every label in ``labels``.
     """
     model = model or TieModel()
     contacts = sorted(contacts, key=lambda c: c.id)
     ids = np.array([c.id for c in contacts], dtype=np.int64)
     n = len(contacts)
     pos = {c.id: i for i, c in enumerate(contacts)}
-    by_email: dict[str, int] = {}
-    for i, c in enumerate(contacts):
-        for e in c.emails:
-            by_email.setdefault(e, i)
+    by_email = {e: pos[cid] for e, cid in contact_of_email(contacts).items()}
 
     mats: dict[str, sp.coo_matrix] = {}
     counts: dict[str, sp.coo_matrix] = {}
 
-    # Meetings and threads: Newman weights 1/(n-1), broadcast events dropped. A thread's members are
-    # everyone in its messages; a list message counts only its author (see mynet.correspondence.clean).
-    interactions = list(interactions)
-    meeting_parts = [it.participants for it in interactions if it.kind == "meeting" and not it.bulk]
-    threads = thread_members(interactions)
+    # Meetings and threads: Newman weights 1/(n-1), broadcast events dropped.
+    events = event_lists(interactions)
     emails_index = pd.Index(list(by_email)) if by_email else None
     email_pos = np.fromiter(by_email.values(), dtype=np.int64, count=len(by_email))
-    thread_parts = [sorted(threads[k] - {""}) for k in sorted(threads)]
-    for kind, parts in (("meeting", meeting_parts), ("thread", thread_parts)):
+    for kind, parts in (("meeting", events.meeting_parts), ("thread", events.thread_parts)):
         B, sizes = _event_incidence(parts, emails_index, email_pos, n, model.broadcast_cap)
         if B is not None:
             w = 1.0 / (sizes - 1.0)
             mats[kind] = _clean(cooccurrence(B, w))
             counts[kind] = _clean(cooccurrence(B))
 
-    # Organisations: current (both now) and past (either only in the past).
+    # Organisations (current: both now; past: either only in the past), and units of organisations.
     cur_groups: dict[str, list[int]] = defaultdict(list)
     all_groups: dict[str, list[int]] = defaultdict(list)
+    orgs_now: list[frozenset[str]] = []
     for i, c in enumerate(contacts):
         cur = {o for o in map(normalise_org, c.orgs) if is_real_org(o)}
+        orgs_now.append(frozenset(cur))
         for o in cur:
             cur_groups[o].append(i)
         for o in cur | {o for o in map(normalise_org, c.past_orgs) if is_real_org(o)}:
             all_groups[o].append(i)
+        for org, unit in c.org_units:
+            key = _unit_key(org, unit)
+            if key:
+                all_groups[key].append(i)
+                if normalise_org(org) in cur:
+                    cur_groups[key].append(i)
     if all_groups:
         names = sorted(all_groups)
         sizes = np.array([len(all_groups[o]) for o in names])
-        w_past = np.array([model.group_weight(model.org_past, s) for s in sizes])
-        B_all = incidence([all_groups[o] for o in names], n)
-        B_cur = incidence([cur_groups.get(o, []) for o in names], n)
-        w_cur = np.array([model.group_weight(model.org_current, s) for s in sizes])
-        org = (cooccurrence(B_cur, w_cur) + cooccurrence(B_all, w_past) - cooccurrence(B_cur, w_past)).tocoo()
-        org.eliminate_zeros()
-        mats["organisation"] = _clean(org)
+        # A large organisation (unit keys are never "large": they are the smaller group)
+        big = model.org_alone_max if model.org_alone_max > 0 else model.size_ref
+        large = np.array([s > big and _UNIT_SEP not in o for o, s in zip(names, sizes)])
+        for kind, sel in (("organisation", ~large), ("org_large", large)):
+            if not sel.any():
+                continue
+            names_k = [o for o, keep in zip(names, sel) if keep]
+            sizes_k = sizes[sel]
+            w_past = np.array([model.group_weight(model.org_past, s) for s in sizes_k])
+            w_cur = np.array([model.group_weight(model.org_current, s) for s in sizes_k])
+            B_all = incidence([all_groups[o] for o in names_k], n)
+            B_cur = incidence([cur_groups.get(o, []) for o in names_k], n)
+            org = (cooccurrence(B_cur, w_cur) + cooccurrence(B_all, w_past) - cooccurrence(B_cur, w_past)).tocoo()
+            org.eliminate_zeros()
+            mats[kind] = _clean(org)
+        large_groups = [np.array(sorted(set(all_groups[o])), dtype=np.int64)
+                        for o, s, big_one in zip(names, sizes, large) if big_one and s <= model.group_cap]
+    else:
+        large_groups = []
 
     # E-mail domains that are not public webmail.
     dom_groups: dict[str, list[int]] = defaultdict(list)
@@ -276,20 +335,11 @@ def infer_ties(
         for d in {email_domain(e) for e in c.emails} - {""}:
             if not is_webmail(d, extra_webmail):
                 dom_groups[d].append(i)
-    tag_groups: dict[str, list[int]] = defaultdict(list)
-    for i, c in enumerate(contacts):
-        for t in {fold_text(t) for t in c.tags} - {""} - GENERIC_TAGS:
-            tag_groups[t].append(i)
-    # A label that a large share of the address book carries is a filing habit, not a circle of
-    # people who know each other (common practice; the share is a setting).
-    if n >= 20:
-        tag_groups = defaultdict(list, {t: m for t, m in tag_groups.items() if len(m) <= model.tag_share_cap * n})
-    for kind, groups, base in (("domain", dom_groups, model.domain), ("tag", tag_groups, model.tag)):
-        if groups:
-            names = sorted(groups)
-            w = np.array([model.group_weight(base, len(groups[g])) for g in names])
-            if w.any():
-                mats[kind] = _clean(cooccurrence(incidence([groups[g] for g in names], n), w))
+    if dom_groups:
+        names = sorted(dom_groups)
+        w = np.array([model.group_weight(model.domain, len(dom_groups[g])) for g in names])
+        if w.any():
+            mats["domain"] = _clean(cooccurrence(incidence([dom_groups[g] for g in names], n), w))
 
     rel = [(min(pos[a], pos[b]), max(pos[a], pos[b])) for a, b in related if a in pos and b in pos and a != b]
     if rel:
@@ -298,7 +348,49 @@ def infer_ties(
             (np.full(len(r), -math.log1p(-model.related)), (r[:, 0], r[:, 1])), shape=(n, n)
         ))
 
-    return _assemble(ids, pos, n, mats, counts, model, manual or {}, suppressed)
+    # Labels: judged by wording and by use against every other kind of evidence (see mynet.labels).
+    tag_groups: dict[str, list[int]] = defaultdict(list)
+    shown: dict[str, str] = {}
+    for i, c in enumerate(contacts):
+        for t in c.tags:
+            key = fold_text(t)
+            if key:
+                shown.setdefault(key, t.strip())
+                if not tag_groups[key] or tag_groups[key][-1] != i:
+                    tag_groups[key].append(i)
+    verdicts = {}
+    if tag_groups:
+        man_pairs = [(min(pos[a], pos[b]), max(pos[a], pos[b])) for a, b in (manual or {})
+                     if a in pos and b in pos and a != b]
+        others = [m for k, m in mats.items()]
+        if man_pairs:
+            mp = np.array(man_pairs)
+            others.append(sp.coo_matrix((np.ones(len(mp)), (mp[:, 0], mp[:, 1])), shape=(n, n)))
+        linked = sum((sp.csr_matrix(m, shape=(n, n)) for m in others), sp.csr_matrix((n, n)))
+        seen_m = sum((sp.csr_matrix(mats[k], shape=(n, n)) for k in OBSERVED_KINDS if k in mats), sp.csr_matrix((n, n)))
+        if man_pairs:
+            seen_m = seen_m + others[-1]
+        seen = (np.asarray((seen_m != 0).sum(axis=0)).ravel() + np.asarray((seen_m != 0).sum(axis=1)).ravel()) > 0
+        verdicts = judge_labels(tag_groups, shown, n, orgs=orgs_now, seen=seen, linked=linked,
+                                decisions=label_decisions, share_cap=model.tag_share_cap)
+        counted = sorted(k for k, v in verdicts.items() if v.counts and len(tag_groups[k]) >= 2)
+        if counted:
+            w = np.array([model.group_weight(model.tag, len(tag_groups[g])) for g in counted])
+            if w.any():
+                mats["tag"] = _clean(cooccurrence(incidence([tag_groups[g] for g in counted], n), w))
+
+    table = _assemble(ids, pos, n, mats, counts, model, manual or {}, suppressed, large_groups)
+    table.labels = [v.to_dict() for v in verdicts.values()]
+    return table
+
+
+_UNIT_SEP = "\x1f"
+
+
+def _unit_key(org: str, unit: str) -> str:
+    """The group key of one unit of an organisation ("" for a placeholder organisation or an empty unit)."""
+    o, u = normalise_org(org), fold_text(unit)
+    return f"{o}{_UNIT_SEP}{u}" if u and is_real_org(o) else ""
 
 
 def _event_incidence(parts: list[list[str]], emails_index, email_pos: np.ndarray, n: int, cap: int):
@@ -337,7 +429,7 @@ def _clean(m: sp.coo_matrix) -> sp.coo_matrix:
     return m.tocoo()
 
 
-def _assemble(ids, pos, n, mats, counts, model: TieModel, manual, suppressed) -> TieTable:
+def _assemble(ids, pos, n, mats, counts, model: TieModel, manual, suppressed, large_groups=()) -> TieTable:
     scales = {"meeting": model.meeting_scale, "thread": model.thread_scale}
     keys_all = [_pairs_key(m, n) for m in mats.values()]
     for (a, b) in manual:
@@ -351,7 +443,7 @@ def _assemble(ids, pos, n, mats, counts, model: TieModel, manual, suppressed) ->
     # Each array is sorted and unique already; one kind alone needs no merge.
     keys = keys_all[0] if len(keys_all) == 1 else np.unique(np.concatenate(keys_all))
     parts = {}
-    for kind in KINDS:
+    for kind in (*KINDS, "org_large"):
         arr = np.zeros(keys.shape[0])
         if kind in mats:
             m = mats[kind]
@@ -364,18 +456,28 @@ def _assemble(ids, pos, n, mats, counts, model: TieModel, manual, suppressed) ->
             m = counts[kind]
             arr[np.searchsorted(keys, _pairs_key(m, n))] = np.rint(m.data).astype(np.int64)
         cnt[kind] = arr
+    man = np.zeros(keys.shape[0], dtype=bool)
+    for (a, b), s in manual.items():
+        if a in pos and b in pos and a != b:
+            i, j = sorted((pos[a], pos[b]))
+            man[np.searchsorted(keys, i * n + j)] = True
     # A shared domain usually *is* the shared organisation: count it only without one.
-    parts["domain"] = np.where(parts["organisation"] > 0, 0.0, parts["domain"])
+    parts["domain"] = np.where((parts["organisation"] + parts["org_large"]) > 0, 0.0, parts["domain"])
+    large = parts.pop("org_large")
+    observed = man.copy()
+    for k in OBSERVED_KINDS:
+        observed |= parts[k] > 0
+    ia, ib = keys // n, keys % n
+    x_all = sum(parts[k] / scales.get(k, 1.0) for k in KINDS)
+    parts["organisation"] = parts["organisation"] + limit_large_orgs(large, parts, x_all, observed, keys, n, model,
+                                                                        large_groups)
     total = sum(parts[k] / scales.get(k, 1.0) for k in KINDS)
     strength = -np.expm1(-total)
-    man = np.zeros(keys.shape[0], dtype=bool)
     for (a, b), s in manual.items():
         if a in pos and b in pos and a != b:
             i, j = sorted((pos[a], pos[b]))
             k = np.searchsorted(keys, i * n + j)
             strength[k] = max(strength[k], float(s) if s else model.manual)
-            man[k] = True
-    ia, ib = keys // n, keys % n
     a, b = ids[ia], ids[ib]
     keep = np.ones(keys.shape[0], dtype=bool)
     for x, y in suppressed:

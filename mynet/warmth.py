@@ -32,6 +32,7 @@ from datetime import date, datetime, timezone
 from typing import Iterable, Mapping, Sequence
 
 from .model import Contact, Interaction
+from .settings import SettingsGroup, setting
 from .normalise import normalise_email
 
 __all__ = ["WarmthModel", "Warmth", "compute_warmth", "assign_tiers", "unlisted_people", "TIERS", "parse_when"]
@@ -43,20 +44,16 @@ NONE = "none"
 
 
 @dataclass
-class WarmthModel:
-    half_life_days: float = 180.0
-    scale: float = 3.0
-    dormant_days: float = 365.0
-    unlisted_threshold: int = 3  # people outside the address book are shown from this many interactions
-    reply_boost: float = 2.0  # your reply to someone's message counts this many times a message (judgement call)
+class WarmthModel(SettingsGroup, group="warmth_model"):
+    """The settings of the warmth model (stored in the workspace, see ``mynet settings``)."""
 
-    @classmethod
-    def from_settings(cls, raw: Mapping | None) -> "WarmthModel":
-        raw = raw or {}
-        out = cls(**{k: float(raw[k]) for k in ("half_life_days", "scale", "dormant_days", "reply_boost") if k in raw})
-        if "unlisted_threshold" in raw:
-            out.unlisted_threshold = int(raw["unlisted_threshold"])
-        return out
+    half_life_days: float = setting(180.0, "days after which an interaction with you counts half", low=0, low_open=True)
+    scale: float = setting(3.0, "recent one-to-one interactions needed for a warmth of 0.63", low=0, low_open=True)
+    dormant_days: float = setting(365.0, "a once-active tie quiet for longer than this is dormant", low=0, low_open=True)
+    unlisted_threshold: int = setting(3, "people outside your address book are shown from this many interactions",
+                                      low=1)
+    reply_boost: float = setting(2.0, "your reply to someone's message counts this many times a message "
+                                 "(a judgement call)", low=1)
 
 
 @dataclass

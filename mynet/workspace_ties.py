@@ -4,22 +4,13 @@ from __future__ import annotations
 
 from typing import Any
 
+from . import settings
 from .errors import MynetError
 from .network import anchor_key
 from .store import Store
-from .ties import TieModel
-from .warmth import WarmthModel
 
-__all__ = ["add_tie", "remove_tie", "rate_contact", "update_settings", "update_list_setting", "SETTING_GROUPS", "LIST_SETTINGS",
-           "DOMAIN_LISTS"]
-
-def _analysis_model():
-    from .analysis.snapshot import AnalysisModel
-
-    return AnalysisModel
-
-
-SETTING_GROUPS = {"tie_model": TieModel, "warmth_model": WarmthModel, "analysis": _analysis_model()}
+__all__ = ["add_tie", "remove_tie", "rate_contact", "update_setting", "update_settings", "update_list_setting",
+           "decide_label", "LABEL_VERDICTS"]
 
 
 def _pair_keys(store: Store, a: int, b: int) -> tuple[str, str]:
@@ -61,57 +52,81 @@ def rate_contact(store: Store, cid: int, value: float | None) -> None:
         store.add_decision("rate", key, "", value)
 
 
-LIST_SETTINGS = {
-    "webmail_domains": "mail domains that say nothing about an employer, besides the built-in list",
-    "mail_relay_domains": "domains of list relays, archives and bounce services: never an employer, never a person",
-    "org_aliases": "organisation aliases, ALIAS=NAME pairs",
-}
-#: The list settings whose value is a list of domains (the others map names).
-DOMAIN_LISTS = ("webmail_domains", "mail_relay_domains")
+def update_setting(store: Store, name: str, text: str) -> Any:
+    """Change one setting (``tie_model.meeting_scale``, ``webmail_domains``...) from the text a user typed.
 
+    The value is checked against the setting's schema entry (:mod:`mynet.settings`) before
+    anything is stored; a list setting takes a leading ``+`` to add to its current value.
+    Returns the value stored.
 
-def update_list_setting(store: Store, name: str, value: str) -> Any:
-    """Set ``webmail_domains`` or ``mail_relay_domains`` (comma-separated) or ``org_aliases`` (``A=B`` pairs).
-
-    A leading ``+`` adds to the current value instead of replacing it.
+    Raises
+    ------
+    SettingError
+        For an unknown setting or a value it does not accept (nothing is stored).
     """
     from .workspace import refresh_contacts
 
-    add = value.startswith("+")
-    items = [v.strip() for v in value.lstrip("+").split(",") if v.strip()]
-    if name in DOMAIN_LISTS:
-        current = list(store.setting(name, []) or []) if add else []
-        new: Any = sorted({*current, *(i.lower().lstrip("@") for i in items)})
-    elif name == "org_aliases":
-        new = dict(store.setting(name, {}) or {}) if add else {}
-        for item in items:
-            if "=" not in item:
-                raise MynetError(f"an organisation alias is written ALIAS=NAME, got {item!r}")
-            alias, target = item.split("=", 1)
-            new[alias.strip()] = target.strip()
-    else:
-        raise MynetError(f"unknown setting {name!r}; known lists: {', '.join(LIST_SETTINGS)}")
+    spec = settings.schema().get(name)
+    group = name.split(".", 1)[0] if "." in name and name.split(".", 1)[0] in settings.groups() else None
+    current = settings.stored_value(store.settings(), name) if spec else None
+    value = settings.parse(name, text, current)
     with store.transaction():
-        store.set_setting(name, new)
-        refresh_contacts(store)
-    return new
+        if group:
+            stored = dict(store.setting(group, {}) or {})
+            stored[name.split(".", 1)[1]] = value
+            store.set_setting(group, stored)
+        else:
+            store.set_setting(name, value)
+        if spec.affects == "contacts":
+            refresh_contacts(store)
+    return value
+
+
+def update_list_setting(store: Store, name: str, value: str) -> Any:
+    """Set a workspace-wide list setting (``webmail_domains``, ``org_aliases``); see :func:`update_setting`."""
+    return update_setting(store, name, value)
 
 
 def update_settings(store: Store, group: str, key: str, value: str) -> dict[str, Any]:
-    """Change one model setting (``tie_model.meeting_scale = 3``); returns the new settings."""
-    if group not in SETTING_GROUPS:
-        raise MynetError(f"unknown settings group {group!r}; choose from {', '.join(SETTING_GROUPS)}")
-    cls = SETTING_GROUPS[group]
-    defaults = cls().__dict__
-    if key not in defaults:
-        raise MynetError(f"unknown setting {group}.{key}; known: {', '.join(sorted(defaults))}")
-    try:
-        parsed = type(defaults[key])(float(value)) if isinstance(defaults[key], (int, float)) else value
-    except ValueError as exc:
-        raise MynetError(f"{group}.{key} takes a number, got {value!r}") from exc
-    if isinstance(parsed, (int, float)) and parsed < 0:
-        raise MynetError(f"{group}.{key} cannot be negative")
-    current = dict(store.setting(group, {}) or {})
-    current[key] = parsed
-    store.set_setting(group, current)
-    return current
+    """Change one model setting (``tie_model``, ``meeting_scale``, ``"3"``); returns the group's stored values."""
+    update_setting(store, f"{group}.{key}", value)
+    return dict(store.setting(group, {}) or {})
+
+
+LABEL_VERDICTS = ("count", "ignore")
+
+
+def decide_label(store: Store, label: str, verdict: str | None) -> str:
+    """Say whether a label counts as evidence (``"count"``, ``"ignore"``; ``None``: let mynet judge again).
+
+    The decision is kept across re-imports (a row of the decisions table keyed by
+    the folded label). Returns the label as your contacts carry it.
+
+    Raises
+    ------
+    NotFoundError
+        When no contact carries a label like ``label``.
+    MynetError
+        For a verdict other than "count", "ignore" or None.
+    """
+    from .errors import NotFoundError
+    from .normalise import fold_text
+
+    if verdict is not None and verdict not in LABEL_VERDICTS:
+        raise MynetError(f"a label is either counted or ignored, not {verdict!r}")
+    key = fold_text(label)
+    shown = {}
+    for c in store.contacts():
+        for t in c.tags:
+            shown.setdefault(fold_text(t), t)
+    if not key or key not in shown:
+        near = sorted(k for k in shown if key and (key in k or k in key))[:5]
+        hint = f"; did you mean {', '.join(repr(shown[k]) for k in near)}?" if near else " (see: mynet tags)"
+        raise NotFoundError(f"no contact carries the label {label!r}{hint}")
+    with store.transaction():
+        store.delete_decisions("label", key)
+        if verdict is not None:
+            store.add_decision("label", key, "", verdict)
+        else:
+            store.bump_data_version()
+    return shown[key]

@@ -24,6 +24,33 @@ NATIVE = {"Chen": "陈", "Wang": "王", "Zhang": "张", "Liu": "刘", "Huang": "
           "Mei": "梅", "Fang": "芳", "Ying": "英", "Lan": "兰", "Xiu": "秀"}
 
 
+# The user's own workflow labels, filed the way a person does it on a phone and in a sheet: a few VIPs and
+# favourites, people to call back or to follow up, where they met someone. They say something about the user's
+# plans, nothing about who knows whom. Each is drawn from its own random stream (seeded by file and person), so
+# adding them leaves every other part of the scenario exactly as it was.
+WORKFLOW_ODDS = {  # label -> {main cluster: chance}
+    "VIP": {"lantern": 0.3, "velvane": 0.5, "orsolan": 0.5, "thistlecombe": 0.5, "quillon": 0.06, "aldermoor": 0.1},
+    "Favourites": {"family": 0.7, "neighbours": 0.2, "club": 0.12, "aldermoor": 0.15},
+    "follow up": {"conference": 0.35, "lantern": 0.15, "aldermoor": 0.1, "harrowgate": 0.1, "brennick": 0.15,
+                  "velvane": 0.3, "orsolan": 0.3},
+    "to call": {"family": 0.2, "neighbours": 0.3, "services": 0.5, "club": 0.08, "brennick": 0.1},
+    "met at Tidewater": {"conference": 0.5},
+}
+CLUB_WORKFLOW_ODDS = {"to call": 0.12, "VIP": 0.05}
+#: Labels of the user's own workflow in the files (the conference sheet's own tags included).
+WORKFLOW_LABELS = sorted({*WORKFLOW_ODDS, *CLUB_WORKFLOW_ODDS, "follow up", "hiring", "met at booth", "dinner"})
+
+
+def _workflow(p: Person, where: str) -> list[str]:
+    """The workflow labels the user put on one person in one file."""
+    r = random.Random(f"workflow:{where}:{p.pid}")
+    main = p.clusters[0] if p.clusters else ""
+    labels = [label for label, odds in WORKFLOW_ODDS.items() if r.random() < odds.get(main, 0.0)]
+    if "VIP" not in labels and any(w in p.title for w in ("Head", "Director", "Chief")) and r.random() < 0.4:
+        labels.insert(0, "VIP")
+    return labels
+
+
 @dataclass
 class Rec:
     """One record of one file: who it really is, what it shows, which identifiers it holds."""
@@ -147,6 +174,7 @@ def _phone_card(w: World, p: Person) -> dict:
         c["adrs"].append(_work_adr(p.org))
     if main in CATEGORY and rng.random() < 0.6:
         c["categories"] = [CATEGORY[main]] + (["Work"] if main == "lantern" else [])
+    c["categories"] = c["categories"] + _workflow(p, "phone")
     c["note"] = _phone_note(w, p, main)
     if "shared_card" in p.quirks:
         c["rev"] = "2025-05-20T21:04:00Z"  # added after the regatta the note mentions
@@ -354,6 +382,8 @@ def club_rows(w: World) -> list[Rec]:
         groups = [CLUB_GROUPS[t] for t in p.teams if t in CLUB_GROUPS]
         if rng.random() < 0.3:
             groups.append("Social")
+        r = random.Random(f"workflow:club:{p.pid}")
+        groups += [label for label, odds in CLUB_WORKFLOW_ODDS.items() if r.random() < odds]
         row = [cp1252_fold(first), cp1252_fold(p.family), email, mobile, employer, ", ".join(groups)]
         recs.append(Rec(p.pid, row, emails=emails, phones=phones))
     recs.sort(key=lambda r: (ascii_fold(r.data[1]).lower(), ascii_fold(r.data[0]).lower()))

@@ -27,6 +27,7 @@ from _scenario import World, build_world
 from _sources import (
     CLUB_HEADER,
     CONF_HEADER,
+    WORKFLOW_LABELS,
     Rec,
     club_rows,
     conference_rows,
@@ -217,6 +218,7 @@ def ground_truth(w: World, recs: dict[str, list[Rec]], act: Activity, lists: dic
         "not_people": dict(sorted((NOT_PEOPLE | lists["not_people"]).items())),
         "list_mail": {k: lists[k] for k in ("list", "list_id", "aliases", "threads")},
         "ties": ties,
+        "workflow_labels": WORKFLOW_LABELS,
     }
 
 

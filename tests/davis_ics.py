@@ -73,3 +73,17 @@ def davis_expected() -> dict[str, set[str]]:
     """Event UID -> the attendees' addresses, straight from the graph's neighbourhoods."""
     graph = davis_graph()
     return {davis_uid(e): {davis_email(w) for w in graph.neighbors(e)} for e in _events(graph)}
+
+
+def davis_workspace(folder):
+    """A workspace holding the women (a CSV of names and addresses) and the events (this file), imported."""
+    from mynet.workspace import import_paths, open_workspace
+
+    women = sorted(davis_graph().graph["top"])
+    people = folder / "women.csv"
+    people.write_text("Name,Email\n" + "".join(f"{w},{davis_email(w)}\n" for w in women), encoding="utf-8")
+    cal = folder / "davis.ics"
+    cal.write_bytes(davis_ics_bytes())
+    store = open_workspace(folder / "ws.sqlite")
+    import_paths(store, [people, cal])
+    return store

@@ -154,3 +154,34 @@ def test_whole_corpus_imports_or_is_refused_cleanly(capsys, corpus_dir, tmp_path
     assert "Traceback" not in err
     code, out, err = run(capsys, "--workspace", ws, "ties", "--json")
     assert code == 0 and isinstance(json.loads(out), list)
+
+
+def test_reach_org_tells_two_contacts_of_one_name_apart(capsys, tmp_path):
+    # Two entries named alike (not merged: nothing but the name links them) used to read "Ana Lind, Ana Lind".
+    f = write(tmp_path / "people.csv", "Full name,Email,Mobile,Company\nAna Lind,ana@quillon.example,,Quillon Labs\n"
+                                       "Ana Lind,,07700 900777,Quillon Labs\nBo Ek,bo@quillon.example,,Quillon Labs\n")
+    assert run(capsys, "import", str(f), "--region", "GB")[0] == 0
+    people = json.loads(run(capsys, "contacts", "--json")[1])
+    ana = sorted(p["id"] for p in people if p["name"] == "Ana Lind")
+    assert len(ana) == 2
+    code, out, err = run(capsys, "reach", "--org", "Quillon Labs")
+    assert code == 0
+    listed = next(line for line in out.splitlines() if line.startswith("No path to: ")).split(": ", 1)[1].split(", ")
+    assert sorted(listed) == sorted([f"Ana Lind (id {ana[0]})", f"Ana Lind (id {ana[1]})", "Bo Ek"])
+    assert "same name" in err
+
+
+def test_forget_says_which_earlier_files_still_hold_the_person(capsys, files, tmp_path):
+    staff, _club = files
+    run(capsys, "import", str(staff))
+    code, _out, err = run(capsys, "forget", "Bo Ek", "--yes")
+    assert code == 0 and "Reports and exports written earlier" in err and "Bo Ek" in err
+    assert run(capsys, "export", "-o", str(tmp_path / "net.graphml"))[0] == 0
+    assert run(capsys, "report", "-o", str(tmp_path / "net.html"))[0] == 0
+    code, out, err = run(capsys, "forget", "Tom Reyes", "--yes")
+    assert code == 0 and out.startswith("Forgotten: ")
+    assert "may still name Tom Reyes" in err
+    assert str((tmp_path / "net.graphml").resolve()) in err and str((tmp_path / "net.html").resolve()) in err
+    (tmp_path / "net.html").unlink()  # a file deleted since is not named again
+    code, _out, err = run(capsys, "forget", "Ana Lind", "--yes")
+    assert str((tmp_path / "net.graphml").resolve()) in err and "net.html" not in err

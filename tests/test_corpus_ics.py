@@ -16,10 +16,12 @@ from pathlib import Path
 
 import pytest
 
+from conftest import CORPUS
+
 from mynet.errors import InputError
 from mynet.importers.ics import parse_ics
 
-CORPUS = Path(__file__).resolve().parents[1].parent / "shared" / "corpus"
+pytestmark = pytest.mark.corpus
 TODAY = dt.date(2025, 6, 30)
 LIMIT_S = 5.0
 _ICAL = re.compile(rb"^(?:\xef\xbb\xbf)?\s*BEGIN:(VCALENDAR|VEVENT)\s*$", re.IGNORECASE | re.MULTILINE)
@@ -54,13 +56,10 @@ def _run(data: bytes, name: str):
 
 
 @pytest.fixture
-def corpus() -> Path:
-    if not CORPUS.is_dir():
-        pytest.skip(f"{CORPUS} is absent (a fresh clone has no ../shared/corpus)")
-    return CORPUS
+def corpus(corpus_dir) -> Path:
+    return corpus_dir
 
 
-@pytest.mark.corpus
 @pytest.mark.parametrize("path", _files() or [None], ids=lambda p: _ids(p) if p else "no-corpus")
 def test_corpus_file_parses_or_is_refused_clearly(corpus, path):
     if path is None:

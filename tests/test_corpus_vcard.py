@@ -13,6 +13,8 @@ from pathlib import Path
 
 import pytest
 
+from conftest import CORPUS
+
 from mynet.errors import InputError, RecordError
 from mynet.importers import parse_file
 from mynet.importers._vcard_text import read_cards
@@ -21,7 +23,6 @@ from mynet.model import ParseResult
 
 pytestmark = pytest.mark.corpus
 
-CORPUS = Path(__file__).resolve().parents[1].parent / "shared" / "corpus"
 FILES = sorted(CORPUS.rglob("*.vcf")) if CORPUS.is_dir() else []
 ANDROID = "wild/CyanogenMod__android_frameworks_opt_vcard/tests/res/raw"
 EZ = "wild/mangstadt__ez-vcard/src/test/resources/ezvcard"
@@ -30,9 +31,8 @@ LIMIT_SECONDS = 5.0
 
 
 @pytest.fixture(autouse=True)
-def _need_corpus():
-    if not CORPUS.is_dir():
-        pytest.skip(f"{CORPUS} is absent (a fresh clone has no ../shared/corpus)")
+def _need_corpus(corpus_dir):
+    """Every test here reads the corpus (skipped, with the reason, when it is absent)."""
 
 
 def load(rel: str) -> ParseResult:

@@ -63,6 +63,7 @@ def test_graphml_reads_back_into_the_same_graph(sample, tmp_path):
         assert d.get("group") == a.group_of.get(cid)
         assert d["role"] == a.measures[cid]["role"]
         assert d["warmth"] == pytest.approx(net.warmth[cid].warmth)
+        assert d["eigenvector"] == pytest.approx(a.measures[cid]["eigenvector"])  # in every export format
     some = next((a_, b_) for a_, b_, e in H.edges(data=True) if "both at" in e.get("evidence", ""))
     assert H.edges[some]["organisation"] > 0
 

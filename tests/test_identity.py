@@ -159,7 +159,7 @@ def test_role_and_list_addresses_are_never_linked_by_name():
     ana = Contact(id=1, name="Ana Lind", emails=["ana@home.example"], record_ids=[1])
     it = Interaction(kind="message", source="m.mbox", index=0, line=1, when="2026-01-01", sender="trivial@proj.example",
                      participants=["trivial@proj.example"], names={"trivial@proj.example": "Ana Lind"})
-    facts = MailFacts(kinds={"trivial@proj.example": "shared"})
+    facts = MailFacts(kinds={"trivial@proj.example": "role"})
     _, where = attach_by_name([ana], {}, [it], Me(), facts)
     assert not where and ana.emails == ["ana@home.example"]
     # A detached address is not linked back either.
@@ -220,3 +220,20 @@ def test_import_says_which_region_it_assumed(tmp_path, capsys):
     assert "read as US numbers (like your own number +15555550100)" in capsys.readouterr().out
     assert main(["--workspace", ws, "me", "--phone", "07700 900999"]) == 1
     assert "country code" in capsys.readouterr().err
+
+
+def test_a_comma_in_a_card_name_is_read_by_n_not_guessed():
+    # vCard N (RFC 6350 section 6.2.2) gives the family name: it decides whether "A, B" is "family, given".
+    def card(i, fn, family="", given="", suffix=""):
+        r = rec(i, fn, [f"p{i}@e.example"])
+        r.family, r.given, r.suffix = family, given, suffix
+        return r
+
+    rs = stored([
+        card(0, "Lind, Ana", "Lind", "Ana"),                 # N agrees: family first, shown "Ana Lind"
+        card(1, "Bo Ek, MD", "Ek", "Bo", "MD"),              # N says otherwise: kept as written
+        card(2, "Cy Moss, Jr.", "Moss", "Cy", "Jr."),
+        card(3, "Vik, Di"),                                 # no N (as a CSV row): family first
+    ])
+    names = {c.name for c in resolve(rs, {}, Decisions(), Me()).contacts}
+    assert names == {"Ana Lind", "Bo Ek, MD", "Cy Moss, Jr.", "Di Vik"}

@@ -72,9 +72,11 @@ def test_latin1_file_with_bytes_cp1252_leaves_undefined():
     assert any("latin-1" in w for w in result.warnings)
 
 
-def test_bad_utf16_is_an_input_error():
-    with pytest.raises(InputError, match="not valid UTF-16-LE"):
-        parse_csv(b"\xff\xfe" + "Name,Email\n".encode("utf-16-le") + b"\x00\xd8", "broken.csv")
+def test_bad_utf16_unit_is_replaced_and_the_rows_are_kept():
+    data = b"\xff\xfe" + "Name,Email\nAna Vik,a@example.org\n".encode("utf-16-le") + b"\x00\xd8"
+    result = parse_csv(data, "broken.csv")
+    assert [r.full_name for r in result.records] == ["Ana Vik"]
+    assert any("line 3" in w and "UTF-16-LE" in w and "U+FFFD" in w for w in result.warnings)
 
 
 # --- delimiters and line structure -------------------------------------------------------------
@@ -90,6 +92,43 @@ def test_each_delimiter(delimiter):
     result = parse_csv(table(rows, delimiter).encode(), "d.csv")
     assert [(r.given, r.family) for r in result.records] == [("Ilse", "Varrow"), ("Tomas", "Quill")]
     assert result.records[0].notes == ["likes , ; | and\ttabs"]
+
+
+def test_rfc4180_section_2_examples():
+    # RFC 4180 section 2, rules 1-7 with their examples (CRLF line breaks; an optional header line;
+    # fields in double quotes may hold commas, line breaks and doubled double quotes).
+    from mynet.importers._csv_text import read_rows
+    from mynet.importers.csv import detect_delimiter
+
+    def cells(text):
+        delimiter, start, first = detect_delimiter(text)
+        assert delimiter == ","
+        return [row.cells for row in read_rows(text, start, delimiter, first, "rfc.csv") if row.cells]
+
+    assert cells("aaa,bbb,ccc\r\nzzz,yyy,xxx\r\n") == [["aaa", "bbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 1
+    assert cells("aaa,bbb,ccc\r\nzzz,yyy,xxx") == [["aaa", "bbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 2
+    assert cells("field_name,field_name,field_name\r\naaa,bbb,ccc\r\nzzz,yyy,xxx\r\n")[0] == ["field_name"] * 3  # rule 3
+    assert cells('"aaa","bbb","ccc"\r\nzzz,yyy,xxx') == [["aaa", "bbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 5
+    assert cells('"aaa","b\r\nbb","ccc"\r\nzzz,yyy,xxx') == [["aaa", "b\r\nbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 6
+    assert cells('"aaa","b""bb","ccc"') == [["aaa", 'b"bb', "ccc"]]  # rule 7
+    # The same rules through the whole importer, with a header it knows.
+    data = b'Name,Email,Notes\r\n"Lind, Ana",ana@example.org,"said ""hello""\r\non two lines"\r\n'
+    (rec,) = parse_csv(data, "rfc.csv").records
+    assert (rec.full_name, rec.emails, rec.notes) == ("Lind, Ana", ["ana@example.org"], ['said "hello"\r\non two lines'])
+
+
+def test_delimiter_is_the_one_rows_agree_with_not_the_widest_header():
+    # Semicolon-separated, with commas inside the header's and the rows' cells: split on commas the
+    # header is wider (4 cells against 3), but no row has its width; split on semicolons every row does.
+    data = ("Name, full;Email;Notes, remarks, more\r\n"
+            "Lind, Ana;ana@example.org;tea\r\n"
+            "Ek, Bo;bo@example.org;coffee\r\n").encode()
+    from mynet.importers.csv import detect_delimiter
+
+    assert detect_delimiter(data.decode())[0] == ";"
+    result = parse_csv(data, "semi.csv", mapping={"full_name": "Name, full", "emails": "Email", "notes": "Notes, remarks, more"})
+    assert [(r.full_name, r.emails, r.notes) for r in result.records] == [
+        ("Lind, Ana", ["ana@example.org"], ["tea"]), ("Ek, Bo", ["bo@example.org"], ["coffee"])]
 
 
 def test_excel_sep_hint_line():
@@ -335,11 +374,12 @@ def test_strict_mode_raises_at_the_first_bad_row():
     assert (info.value.line, str(info.value)) == (3, "r.csv:3: row has 2 cells but the header has 3")
 
 
-def test_unclosed_quote_is_skipped_and_named():
+def test_unclosed_quote_keeps_the_rows_it_swallowed_and_is_named():
     data = b'Name,Email\nAnn One,ann@example.org\n"Bo Two,bo@example.org\nCy Three,cy@example.org\n'
     result = parse_csv(data, "q.csv")
-    assert [r.full_name for r in result.records] == ["Ann One"]
-    assert result.skipped[0].line == 3 and "never closed" in result.skipped[0].reason and "3-4" in result.skipped[0].reason
+    assert [(r.line, r.full_name) for r in result.records] == [(2, "Ann One"), (3, "Bo Two"), (4, "Cy Three")]
+    assert result.skipped == []
+    assert any(w.startswith("lines 3-4:") and "never closed" in w for w in result.warnings)
     with pytest.raises(RecordError, match="never closed"):
         parse_csv(data, "q.csv", strict=True)
 
@@ -399,3 +439,68 @@ def test_any_text_round_trips_through_a_cell(text, encoding, delimiter):
     assert rec.full_name == kept
     assert rec.notes == ([kept] if kept else [])
     assert rec.line == 2
+
+
+# --- broken files: every good row survives ---------------------------------------------------------
+
+
+def test_quote_closing_on_a_later_line_keeps_the_rows_it_would_merge():
+    data = b'Full name,Email\n"Alice,a@e.example\nBob,b@e.example\n"Carl, "x,c@e.example\n'
+    result = parse_csv(data, "u.csv")
+    assert [(r.line, r.full_name, r.emails) for r in result.records] == [
+        (2, "Alice", ["a@e.example"]), (3, "Bob", ["b@e.example"]), (4, "Carl, x", ["c@e.example"])]
+    assert not any("\n" in r.full_name for r in result.records)
+    assert [w for w in result.warnings if w.startswith("lines 2-4:") and "closes only on line 4" in w]
+    with pytest.raises(RecordError, match="closes only on line 4") as info:
+        parse_csv(data, "u.csv", strict=True)
+    assert info.value.line == 2
+
+
+def test_quote_swallowing_many_rows_keeps_each_of_them():
+    body = "".join(f"P{i} Vik,p{i}@e.example\n" for i in range(8))
+    data = f'Full name,Email\nAna Lind,a@e.example\n"Bo Ek,b@e.example\n{body}Cy Moss",c@e.example\nDi Park,d@e.example\n'
+    result = parse_csv(data.encode(), "u2.csv")
+    names = [r.full_name for r in result.records]
+    assert names == ["Ana Lind", "Bo Ek", *[f"P{i} Vik" for i in range(8)], "Cy Moss", "Di Park"]
+    assert [r.line for r in result.records] == list(range(2, 14))
+    assert any(w.startswith("lines 3-12:") for w in result.warnings)
+
+
+@pytest.mark.parametrize("column", ["Notes", "Full name"])
+def test_a_legitimate_quoted_line_break_stays_one_field(column):
+    # RFC 4180 section 2, rule 6: a field holding a line break is enclosed in double quotes; it is one field.
+    rows = [["Full name", "Email", "Notes"], ["Ana Vik", "a@e.example", "plain"], ["Bo Ek", "b@e.example", "plain"]]
+    at = rows[0].index(column)
+    rows[1][at] = "first line\nsecond, line, x" if column == "Notes" else "Ana\nVik"
+    result = parse_csv(table(rows).encode(), "ml.csv")
+    assert [r.line for r in result.records] == [2, 4]
+    assert result.warnings == [] and result.skipped == []
+    if column == "Notes":
+        assert result.records[0].notes == ["first line\nsecond, line, x"]
+    else:
+        assert result.records[0].full_name == "Ana\nVik"
+
+
+def test_utf8_bom_file_with_one_bad_byte_keeps_every_row_and_names_the_line():
+    data = b"\xef\xbb\xbfFull name,Email\r\nZo\xc3\xab Vik,a@e.example\r\nBo \xff Ek,b@e.example\r\nCy Moss,c@e.example\r\n"
+    result = parse_csv(data, "bom.csv")
+    assert [r.full_name for r in result.records] == ["Zoë Vik", "Bo \ufffd Ek", "Cy Moss"]
+    assert [w for w in result.warnings if w.startswith("line 3:") and "UTF-8" in w and "U+FFFD" in w]
+
+
+def test_mostly_utf8_file_without_bom_is_not_reread_as_cp1252():
+    data = "Full name,Email\nZoë Brønholt,z@e.example\nÉmile Ça,e@e.example\n".encode() + b"Bo \xff Ek,b@e.example\n"
+    result = parse_csv(data, "mostly.csv")
+    assert [r.full_name for r in result.records] == ["Zoë Brønholt", "Émile Ça", "Bo \ufffd Ek"]
+    assert any(w.startswith("line 4:") for w in result.warnings)
+
+
+@pytest.mark.parametrize("multiline", [False, True])
+def test_a_cell_over_the_reader_limit_skips_only_its_row(multiline):
+    # The standard library's reader refuses a cell over csv.field_size_limit() (128 KiB by default).
+    big = ("y" * 1000 + "\n") * 200 if multiline else "y" * 200_000
+    data = f'Full name,Email,Notes\nAna Vik,a@e.example,short\nBo Ek,b@e.example,"{big}"\nCy Moss,c@e.example,\n'
+    result = parse_csv(data.encode(), "wide.csv")
+    assert [r.full_name for r in result.records] == ["Ana Vik", "Cy Moss"]
+    assert [(s.line, "128 KiB" in s.reason) for s in result.skipped] == [(3, True)]
+    assert result.records[1].line == (204 if multiline else 4)

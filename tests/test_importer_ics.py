@@ -10,7 +10,6 @@ from __future__ import annotations
 import datetime as dt
 import threading
 import time
-from pathlib import Path
 
 import networkx as nx
 import pytest
@@ -22,8 +21,6 @@ from mynet.errors import InputError, RecordError
 from mynet.importers import parse_file
 from mynet.importers.ics import parse_ics
 
-CORPUS = Path(__file__).resolve().parents[1].parent / "shared" / "corpus"
-STANDARDS = CORPUS / "standards"
 TODAY = dt.date(2025, 6, 30)
 
 
@@ -49,17 +46,19 @@ def whens(result) -> list[str]:
     return [i.when for i in result.interactions]
 
 
-def rfc(name: str) -> bytes:
-    path = STANDARDS / name
-    if not path.is_file():
-        pytest.skip(f"{path} is absent (a fresh clone has no ../shared/corpus)")
-    return path.read_bytes()
+@pytest.fixture
+def rfc(corpus_dir):
+    """Read one RFC example of the corpus's standards folder (bytes)."""
+    def read(name: str) -> bytes:
+        return (corpus_dir / "standards" / name).read_bytes()
+
+    return read
 
 
 # ---------------------------------------------------------------- RFC 5545 examples, read in place
 
 
-def test_rfc5545_sec4_example1_organizer_only():
+def test_rfc5545_sec4_example1_organizer_only(rfc):
     res = parse_ics(rfc("rfc5545-sec4-ex1-conference.ics"), "ex1.ics", today=TODAY)
     (m,) = res.interactions
     # RFC 5545 section 4, example 1: ORGANIZER mailto:jsmith@example.com, no ATTENDEE,
@@ -74,7 +73,7 @@ def test_rfc5545_sec4_example1_organizer_only():
     assert res.records == [] and res.kind == "ics" and res.skipped == []
 
 
-def test_rfc5545_sec4_example2_group_attendee_is_not_a_person():
+def test_rfc5545_sec4_example2_group_attendee_is_not_a_person(rfc):
     res = parse_ics(rfc("rfc5545-sec4-ex2-group-meeting.ics"), "ex2.ics", today=TODAY)
     (m,) = res.interactions
     # RFC 5545 section 4, example 2: ATTENDEE employee-A@example.com has CUTYPE=GROUP (a group,
@@ -88,7 +87,7 @@ def test_rfc5545_sec4_example2_group_attendee_is_not_a_person():
     assert m.line == 19
 
 
-def test_rfc5545_sec4_example3_attendee_with_rsvp():
+def test_rfc5545_sec4_example3_attendee_with_rsvp(rfc):
     (m,) = parse_ics(rfc("rfc5545-sec4-ex3-mime-meeting.ics"), "ex3.ics", today=TODAY).interactions
     # RFC 5545 section 4, example 3: ORGANIZER jdoe@example.com, ATTENDEE;RSVP=TRUE jsmith@example.com.
     assert m.organizer == "jdoe@example.com"
@@ -104,14 +103,14 @@ def test_rfc5545_sec4_example3_attendee_with_rsvp():
         ("rfc5545-sec4-ex6-freebusy.ics", "VFREEBUSY"),  # RFC 5545 section 4, example 6
     ],
 )
-def test_rfc5545_sec4_non_events_are_not_meetings(name, component):
+def test_rfc5545_sec4_non_events_are_not_meetings(name, component, rfc):
     res = parse_ics(rfc(name), name, today=TODAY)
     assert res.interactions == [] and res.skipped == []
     assert any(component in w for w in res.warnings)
     assert any("no events" in w for w in res.warnings)
 
 
-def test_rfc5545_sec3_8_4_attendee_fragments_wrapped_in_an_event():
+def test_rfc5545_sec3_8_4_attendee_fragments_wrapped_in_an_event(rfc):
     # RFC 5545 sections 3.8.4.1 and 3.8.4.3: the printed ATTENDEE/ORGANIZER lines, put inside a
     # VEVENT of our own here (the CONTACT lines of 3.8.4.2 and the comment markers are dropped).
     text = rfc("rfc5545-sec3.8.4-attendee-organizer-contact.txt").decode("utf-8")
@@ -411,6 +410,18 @@ def test_bom_crcrlf_cp1252_and_folds():
     assert any("Windows-1252" in w for w in res.warnings)
 
 
+def test_mixed_line_ends_within_one_file():
+    # RFC 5545 section 3.1 ends lines with CR LF; files mixing LF, CR LF and CR-only events are still read whole.
+    first = event("m1@example.org", ":20250101T100000Z", "ORGANIZER:mailto:o@example.org").replace("\n", "\r\n")
+    second = event("m2@example.org", ":20250102T100000Z", "ORGANIZER:mailto:o@example.org").replace("\n", "\r")
+    third = event("m3@example.org", ":20250103T100000Z", "ORGANIZER:mailto:o@example.org")
+    data = ("BEGIN:VCALENDAR\r\nVERSION:2.0\r\n" + first + "\r\n" + second + "\r" + third + "\nEND:VCALENDAR\r\n").encode()
+    res = parse(data)
+    assert [i.key.split("#")[0] for i in res.interactions] == ["m1@example.org", "m2@example.org", "m3@example.org"]
+    assert [i.line for i in res.interactions] == [3, 9, 15]
+    assert res.skipped == []
+
+
 def test_bare_vevent_and_utf16_files():
     bare = event("bare@example.org", ":20250101T100000Z", "ORGANIZER:mailto:o@example.org").replace("\n", "\r\n").encode()
     assert parse(bare).interactions[0].participants == ["o@example.org"]
@@ -502,3 +513,31 @@ def test_parse_does_not_hang_on_a_large_file():
     assert not worker.is_alive(), "parse_ics did not finish in 30 s"
     assert len(out["res"].interactions) == 500 * 20
     assert time.perf_counter() - t0 < 30
+
+
+def test_broken_time_zone_rule_skips_its_events_only():
+    # RFC 5545 section 3.3.10: BYMONTH is 1..12. A VTIMEZONE rule with BYMONTH=0 is accepted when the zone is
+    # built and fails only when an offset is asked for; the events in that zone are skipped with a reason,
+    # the others still import.
+    broken = OFFICE_TZ.replace("BYMONTH=10", "BYMONTH=0")
+    data = ics(broken, event("z1@example.org", ";TZID=Head Office Time:20250106T090000"),
+               event("z2@example.org", ":20250107T090000Z"))
+    res = parse(data)
+    assert [m.key.split("#")[0] for m in res.interactions] == ["z2@example.org"]
+    assert len(res.skipped) == 1 and "time zone cannot be used" in res.skipped[0].reason
+
+
+def test_two_events_in_a_broken_time_zone_are_both_skipped_without_waiting_for_ever():
+    # dateutil keeps a lock taken after a broken VTIMEZONE rule fails; asking the zone a second time must not hang.
+    broken = OFFICE_TZ.replace("BYMONTH=10", "BYMONTH=0")
+    data = ics(broken, event("z1@example.org", ";TZID=Head Office Time:20250106T090000"),
+               event("z3@example.org", ";TZID=Head Office Time:20250108T090000"),
+               event("z2@example.org", ":20250107T090000Z"))
+    out: dict = {}
+    worker = threading.Thread(target=lambda: out.update(res=parse(data)), daemon=True)
+    worker.start()
+    worker.join(20)
+    assert not worker.is_alive(), "parse_ics waited for ever on a broken time zone"
+    res = out["res"]
+    assert [m.key.split("#")[0] for m in res.interactions] == ["z2@example.org"]
+    assert len(res.skipped) == 2 and all("time zone cannot be used" in s.reason for s in res.skipped)

@@ -73,6 +73,21 @@ def test_qp_with_charset_and_bare_parameter_forms():
     assert rec.addresses[0].street == "1 Example Way\r\nExampleton"
 
 
+def test_v21_fold_keeps_its_whitespace_and_v3_fold_drops_one():
+    # The vCard 2.1 specification folds long lines the RFC 822 way: wherever linear white space may
+    # appear, CRLF followed by that white space may be inserted, and unfolding treats CRLF + LWSP as the
+    # LWSP itself (the space stays). vCard 3.0 (RFC 2426 section 2.6) and 4.0 (RFC 6350 section 3.2)
+    # instead drop the one white-space character after the line break.
+    v21 = "BEGIN:VCARD\r\nVERSION:2.1\r\nN:Example;Ada\r\nNOTE:Met at the harbour\r\n office opening\r\nTITLE:Chief\r\n\tengineer\r\nEND:VCARD\r\n"
+    rec = one(v21)
+    assert rec.notes == ["Met at the harbour office opening"]
+    assert rec.titles == ["Chief\tengineer"]
+    v30 = v21.replace("VERSION:2.1", "VERSION:3.0").replace("harbour\r\n office", "harbour \r\n office")
+    rec = one(v30)
+    assert rec.notes == ["Met at the harbour office opening"]
+    assert rec.titles == ["Chiefengineer"]
+
+
 # ------------------------------------------------------------ character sets
 
 
@@ -117,6 +132,29 @@ def test_cr_cr_lf_and_cr_only_line_ends():
     assert (rec.full_name, rec.notes, rec.emails) == ("Cy Example", ["folded note"], ["cy@example.org"])
     rec = one(card.replace("\n", "\r").encode())
     assert (rec.full_name, rec.notes) == ("Cy Example", ["folded note"])
+
+
+@pytest.mark.parametrize("ends", [("\r\n", "\r\n", "\r"), ("\n", "\r", "\r\n"), ("\r", "\r\n", "\r\r\n"),
+                                  ("\r\n", "\r", "\n")])
+def test_mixed_line_ends_within_one_file(ends):
+    # A CR-only card after CR LF cards (or any mix) is read, not dropped; lines are counted across the mix.
+    cards = ["BEGIN:VCARD\nVERSION:3.0\nFN:Ana One\nNOTE:folded\n  note\nEMAIL:a1@example.org\nEND:VCARD\n",
+             "BEGIN:VCARD\nVERSION:3.0\nFN:Bo Two\nEMAIL:b2@example.org\nEND:VCARD\n",
+             "BEGIN:VCARD\nVERSION:3.0\nFN:Cy Three\nEMAIL:c3@example.org\nEND:VCARD\n"]
+    data = "".join(card.replace("\n", end) for card, end in zip(cards, ends)).encode()
+    result = parse_vcard(data, "mixed.vcf")
+    assert [(r.line, r.full_name, r.emails) for r in result.records] == [
+        (1, "Ana One", ["a1@example.org"]), (8, "Bo Two", ["b2@example.org"]), (13, "Cy Three", ["c3@example.org"])]
+    assert result.records[0].notes == ["folded note"]
+    assert result.skipped == [] and result.warnings == []
+
+
+def test_line_ends_mixed_within_one_card():
+    data = (b"BEGIN:VCARD\rVERSION:3.0\r\nN:Moss;Cara;;;\nFN:Cara Moss\rEMAIL:cara@example.org\rORG:Velvane\r\n"
+            b"END:VCARD\r\nBEGIN:VCARD\r\nVERSION:3.0\rFN:Di Park\rEMAIL:di@example.org\r\nEND:VCARD\r")
+    result = parse_vcard(data, "mixed.vcf")
+    assert [(r.line, r.full_name, r.emails, r.orgs) for r in result.records] == [
+        (1, "Cara Moss", ["cara@example.org"], ["Velvane"]), (8, "Di Park", ["di@example.org"], [])]
 
 
 # ------------------------------------------------------------ structure

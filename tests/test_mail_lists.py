@@ -17,7 +17,7 @@ from mailfixtures import LIST, YOU, archive_mbox, list_mbox, message, post
 from mynet.cli import main
 from mynet.correspondence import address_facts, clean, correspondents, thread_members
 from mynet.importers.mbox import parse_mail
-from mynet.mailaddr import archive_parts, machine_kind, reverse_relay, via_name
+from mynet.mailaddr import KIND_WORDS, archive_parts, machine_kind, reverse_relay, via_name
 from mynet.network import explain_tie, load_network
 from mynet.workspace import find_contact, import_paths, open_workspace, set_me
 
@@ -190,7 +190,8 @@ def test_shared_alias_and_desk_names_are_not_people():
         + message("From: Harbour bookings <slots@harbour.example>", "To: bo@x.example").encode()
         + message("From: Ana Lind <ana@quillon.example>", "To: bo@x.example").encode(), "a.mbox").interactions
     facts = address_facts(items)
-    assert facts.kinds["trivial@harbour.example"] == "shared" and "Ana Lind" in facts.reasons["trivial@harbour.example"]
+    assert KIND_WORDS[facts.kinds["trivial@harbour.example"]] == "an address used under several people's names"
+    assert "Ana Lind" in facts.reasons["trivial@harbour.example"]
     assert facts.kinds["slots@harbour.example"] == "role"
     assert "ana@quillon.example" not in facts.kinds
     # Your address book says whose an address is: never taken for a shared alias.

@@ -231,6 +231,25 @@ def test_targets_avoid_and_min_strength_match_brute_force(seed):
                 assert p.target in targets and not set(p.nodes[:-1]) & targets
 
 
+@pytest.mark.parametrize("seed", range(10))
+@pytest.mark.parametrize("hops", [1, 2, 3, None])
+def test_first_only_contacts_match_brute_force(seed, hops):
+    # reference: nx.all_simple_paths, dropping paths with a first-only contact after the first step
+    rng = random.Random(300 + seed)
+    g, warm = random_case(seed, n=12, m=24, n_warm=7)
+    idx = build_index(g, warm)
+    first_only = set(rng.sample(sorted(warm), 3)) | {rng.randrange(12)}
+    for t in (0, 6, 11):
+        every = brute_paths(g, warm, {t}, 12 if hops is None else hops)
+        allowed = [(s, p) for s, p in every if not set(p[1:-1]) & first_only]
+        want = best_per_first(allowed)[:6]
+        got = find_paths(idx, {t}, k=6, max_intermediaries=hops, distinct_second=False, first_only=first_only)
+        assert_same(got, want)
+        for p in got:
+            check_path(p, idx, warm, max_int=hops)
+            assert not set(p.nodes[1:-1]) & first_only
+
+
 def greedy_distinct_second(paths, k):
     """The documented rule by brute force: best path with a new first and a new second person
     (or none), then, when none is left, best path with a new first person; result sorted."""

@@ -89,7 +89,8 @@ def test_large_organisations_weigh_less():
     small = [person(i, f"S{i}", ["Tiny Co"]) for i in range(1, 5)]
     big = [person(i, f"B{i}", ["Huge Corp"]) for i in range(10, 110)]
     t = infer_ties(small + big, [], ME)
-    assert t.strength[row(t, 1, 2)] > t.strength[row(t, 10, 11)] > 0
+    big_pairs = t.strength[t.a >= 10]  # (each person keeps their best ten links there: see test_assumed_evidence)
+    assert big_pairs.size and t.strength[row(t, 1, 2)] > big_pairs.max() > 0
     capped = infer_ties(big, [], ME, TieModel(group_cap=50))
     assert len(capped) == 0
 
@@ -151,6 +152,24 @@ def test_disparity_filter_keeps_dominant_ties():
     s2 = np.concatenate([s, np.full(5, 0.05)])
     keep = disparity_filter(TieTable(a2, b2, s2, {}, {}, None), 0.05)
     assert keep[0] and not keep[1:6].any()
+
+
+def test_disparity_filter_serrano_worked_by_hand():
+    # Serrano, Boguna & Vespignani 2009, eq. 2: alpha_ij = 1 - (k - 1) * integral_0^p (1 - x)^(k - 2) dx
+    # = (1 - p_ij)^(k - 1), with p_ij = w_ij / s_i. Worked by hand for node 0 with k = 3 ties of
+    # 0.5, 0.25, 0.25 (s = 1): alpha = 0.5^2 = 0.25 for the 0.5 tie and 0.75^2 = 0.5625 for the others.
+    # Node 1 has k = 2 ties of 0.5 each: alpha = 0.5^1 = 0.5 for both. Node 11 has one tie: kept.
+    from mynet.ties import TieTable
+
+    a = np.array([0, 0, 0, 1, 2, 3], dtype=np.int64)
+    b = np.array([1, 2, 3, 11, 12, 13], dtype=np.int64)
+    s = np.array([0.5, 0.25, 0.25, 0.5, 0.25, 0.25])
+    table = TieTable(a, b, s, {}, {}, None)
+    # At a significance of 0.3 the 0-1 tie is significant for node 0 (0.25 < 0.3); at 0.2 for nobody
+    # (an exponent k instead of k - 1 would give 0.125 < 0.2 and keep it).
+    assert disparity_filter(table, 0.3).tolist() == [True, False, False, True, True, True]
+    assert disparity_filter(table, 0.2).tolist() == [False, False, False, True, True, True]
+    assert disparity_filter(table, 0.6).tolist() == [True] * 6  # 0.5625 < 0.6: all significant
 
 
 def test_placeholders_and_generic_tags_are_no_evidence():

@@ -7,7 +7,7 @@ import json
 import pytest
 from networkx.algorithms import bipartite
 
-from davis_ics import davis_email, davis_graph, davis_ics_bytes
+from davis_ics import davis_email, davis_graph, davis_workspace
 from mynet.cli import main
 from mynet.network import explain_tie, load_network
 from mynet.workspace import import_paths, open_workspace, set_me
@@ -22,14 +22,7 @@ def run(capsys, *args):
 
 @pytest.fixture
 def davis_ws(tmp_path):
-    women = sorted(davis_graph().graph["top"])
-    people = tmp_path / "women.csv"
-    people.write_text("Name,Email\n" + "".join(f"{w},{davis_email(w)}\n" for w in women), encoding="utf-8")
-    cal = tmp_path / "davis.ics"
-    cal.write_bytes(davis_ics_bytes())
-    store = open_workspace(tmp_path / "ws.sqlite")
-    import_paths(store, [people, cal])
-    return store
+    return davis_workspace(tmp_path)
 
 
 def test_davis_meeting_counts_and_newman_weights_match_networkx(davis_ws):
@@ -98,5 +91,6 @@ def test_tie_untie_rate_survive_reimport(tmp_path, capsys):
     code, out, _ = run(capsys, "--workspace", str(tmp_path / "ws.sqlite"), "ties", "--json")
     listed = json.loads(out)
     manual = next(t for t in listed if {t["a"], t["b"]} == {ana, bo})
-    assert manual["evidence"] == [{"kind": "manual", "note": "rowed together"}]
+    assert manual["evidence"] == [{"kind": "manual", "note": "rowed together", "basis": "observed"}]
+    assert manual["basis"] == "observed"
     assert all(set(t) >= {"a", "b", "strength", "evidence"} for t in listed)

@@ -256,6 +256,8 @@ def test_person_shows_ties_strongest_first_with_evidence(workspace):
             assert snap.net.name(ties[0].key) in evidence and ".vcf:" in evidence  # file:line provenance
             card = str(app.screen.query_one("#person-card").render())
             assert snap.net.name(cid) in card and ".vcf:" in card  # the sources with their lines
+            eig = snap.analysis.measures[cid]["eigenvector"]
+            assert "Standing" in card and f"eigenvector {eig:.2f} of 1" in card  # plain words, then the number
             await pilot.press("enter")  # the other end of the tie
             await settle(pilot)
             assert app.screen.cid == ties[0].key
@@ -414,6 +416,36 @@ def test_changes_made_elsewhere_show_up(workspace):
                 if app.snapshot.group(gid).name == "Named elsewhere":
                     break
             assert app.snapshot.group(gid).name == "Named elsewhere"
+
+    _run(run())
+
+
+def test_an_import_while_the_network_loads_is_noticed(workspace, tmp_path, monkeypatch):
+    # Another process imports right after the browser has read the workspace but before it shows it:
+    # the browser must not take that import as already shown (no polling here: watch_interval=0).
+    import mynet.tui.app as tui_app
+    from mynet.workspace import import_paths
+
+    extra = tmp_path / "late.vcf"
+    extra.write_text("BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Late Arrival\r\nEMAIL:late@arrival.example\r\nEND:VCARD\r\n")
+    real, calls = tui_app.load_snapshot, []
+
+    def load_then_someone_imports(*args, **kw):
+        snap = real(*args, **kw)
+        calls.append(1)
+        if len(calls) == 1:
+            with open_workspace(workspace) as store:
+                import_paths(store, [extra])
+        return snap
+
+    monkeypatch.setattr(tui_app, "load_snapshot", load_then_someone_imports)
+
+    async def run():
+        app = create_app(workspace, today=TODAY, watch_interval=0)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await until(pilot, lambda: app.snapshot is not None and len(calls) >= 2
+                        and any(c.name == "Late Arrival" for c in app.snapshot.contacts))
+            assert app.status_text == tui_app.CHANGED_ELSEWHERE
 
     _run(run())
 

@@ -57,6 +57,20 @@ def test_reciprocity_and_multiplexity():
     assert multi[3].warmth > single[3].warmth
 
 
+def test_reciprocity_is_graded_by_hand():
+    # Four mails each, same day, so the decayed count D = 4 and base = 1 - exp(-4/3) for all three;
+    # r = 0.6 + 0.4 * min(sent, got) / max(sent, got): one-way 0.6, 3 to 1 gives 0.6 + 0.4/3, 2 to 2 gives 1.
+    def exchange(i, sent, got):
+        return ([mail(10 * i + k, "you@example.org", [f"p{i}@x.example"], "2026-11-30") for k in range(sent)]
+                + [mail(10 * i + 5 + k, f"p{i}@x.example", ["you@example.org"], "2026-11-30") for k in range(got)])
+
+    w = compute_warmth([c(1), c(2), c(3)], exchange(1, 4, 0) + exchange(2, 3, 1) + exchange(3, 2, 2), ME, today=TODAY)
+    base = 1 - math.exp(-4 / 3)
+    assert w[1].computed == pytest.approx(base * 0.6, abs=1e-6)
+    assert w[2].computed == pytest.approx(base * (0.6 + 0.4 / 3), abs=1e-6)
+    assert w[3].computed == pytest.approx(base * 1.0, abs=1e-6)
+
+
 def test_rating_overrides_and_future_ignored():
     w = compute_warmth([c(1)], [meet(0, ["p1@x.example"], "2027-05-01")], ME, {1: 0.7}, today=TODAY)
     assert w[1].computed == 0 and w[1].warmth == 0.7 and w[1].rated == 0.7

@@ -14,7 +14,7 @@ import networkx as nx
 import numpy as np
 import scipy.sparse as sp
 
-__all__ = ["_Prepared", "_sorted_nodes", "_prepare", "_from_arrays"]
+__all__ = ["_Prepared", "_sorted_nodes", "_prepare", "_from_arrays", "_degrees"]
 
 
 @dataclass
@@ -73,3 +73,10 @@ def _from_arrays(nodes: list, src_a: np.ndarray, dst_a: np.ndarray, w_a: np.ndar
     W = sp.coo_array((np.concatenate([w_a, w_a]), both), shape=(n, n)).tocsr()
     W.sort_indices()
     return _Prepared(nodes, src_a, dst_a, w_a, W)
+
+
+def _degrees(prep: _Prepared) -> tuple[np.ndarray, np.ndarray]:
+    """Degree (number of ties) and strength (sum of tie strengths) per node."""
+    deg = np.diff(prep.W.indptr).astype(float)
+    strength = np.asarray(prep.W.sum(axis=1)).ravel()
+    return deg, strength

@@ -28,7 +28,7 @@ from .bridges import EGO
 from .centrality import structural_holes
 from .snapshot import Analysis, tie_graph
 
-__all__ = ["blau_index", "shannon_evenness", "ego_brokerage", "audit", "WARM"]
+__all__ = ["blau_index", "shannon_evenness", "ego_brokerage", "audit", "small_world_words", "WARM"]
 
 #: Warmth from which a contact counts as warm in the audit.
 WARM = 0.3
@@ -74,6 +74,29 @@ def ego_brokerage(G: nx.Graph, warmth: dict[int, float]) -> dict[str, float]:
     H.add_weighted_edges_from((EGO, c, w) for c, w in sorted(ego_ties.items()))
     con, eff = structural_holes(H)
     return {"constraint": float(con[EGO]), "effective_size": float(eff[EGO]), "size": len(ego_ties)}
+
+
+def small_world_words(sw: dict[str, Any]) -> str:
+    """The small-world comparison in words; it says "a small world" only when every random graph of the ensemble does.
+
+    ``sw`` is the ``small_world`` entry of the network summary (sigma, its lowest and
+    highest value over the random graphs, the verdict; Humphries & Gurney 2008).
+    """
+    sigma, low, high = sw.get("sigma"), sw.get("sigma_low"), sw.get("sigma_high")
+    if sigma is None or (isinstance(sigma, float) and math.isnan(sigma)):
+        return "too small or too sparse to compare with random networks"
+    if low is None or (isinstance(low, float) and math.isnan(low)):
+        spread = f"sigma {sigma:.1f}"
+    else:
+        top = "upwards" if high is None or math.isinf(high) else f"to {high:.1f}"
+        spread = (f"sigma {sigma:.1f}, from {low:.1f} {top} over {sw.get('ensemble', 0)} random networks; "
+                  "Watts & Strogatz 1998, Humphries & Gurney 2008")
+    verdict = sw.get("verdict")
+    if verdict == "small world":
+        return f"a small world: far more clustered than a random network, with paths almost as short ({spread})"
+    if verdict == "not a small world":
+        return f"not a small world ({spread})"
+    return f"too close to a random network to call it a small world ({spread})"
 
 
 def _finding(fid: str, title: str, detail: str, numbers: dict, suggestion: str, score: float) -> dict[str, Any]:
@@ -206,11 +229,14 @@ def audit(store, net: Network, analysis: Analysis, *, today: date | None = None)
         f"density {s.get('density', 0):.3f}; {s.get('components', 0)} components, the largest with "
         f"{s.get('largest_component', 0)}; clustering {s.get('average_clustering', 0):.2f} against "
         f"{(sw.get('C_random') or 0):.2f} for a random network of the same size, average path "
-        f"{(s.get('average_path_length') or 0):.2f} against {(sw.get('L_random') or 0):.2f} "
-        f"(small-world sigma {(sw.get('sigma') or 0):.1f}; Watts & Strogatz 1998); E-I index {s.get('ei_index', 0) or 0:.2f} "
+        f"{(s.get('average_path_length') or 0):.2f} against {(sw.get('L_random') or 0):.2f}; "
+        f"{small_world_words(sw)}; E-I index {s.get('ei_index', 0) or 0:.2f} "
         "(-1: all ties inside groups; Krackhardt & Stern 1988).",
         {k: s.get(k) for k in ("nodes", "ties", "density", "components", "largest_component", "average_clustering",
-                               "average_path_length", "ei_index")} | {"sigma": sw.get("sigma"), "modularity": analysis.modularity,
+                               "average_path_length", "ei_index")} | {"sigma": sw.get("sigma"), "sigma_low": sw.get("sigma_low"),
+                                                                       "sigma_high": sw.get("sigma_high"),
+                                                                       "small_world": sw.get("verdict"),
+                                                                       "modularity": analysis.modularity,
                                                                        "homophily": s.get("homophily")},
         "Context for the findings above.",
         0.05,

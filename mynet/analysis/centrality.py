@@ -27,11 +27,13 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.sparse.csgraph import dijkstra
 
-from ._sparse_graph import _from_arrays, _prepare, _Prepared, _sorted_nodes  # noqa: F401  (re-exported)
+from ._sparse_graph import _degrees, _from_arrays, _prepare, _Prepared, _sorted_nodes  # noqa: F401  (re-exported)
+from .estimate import adaptive_pivots
+from .spectral import _eigenvector, _pagerank, eigenvector_centrality, pagerank  # noqa: F401  (re-exported)
 
 __all__ = [
-    "ROLE_THRESHOLDS", "betweenness", "clustering", "constraint", "contact_measures", "contact_role",
-    "degree_strength", "effective_size", "harmonic_closeness", "pagerank", "participation_coefficient",
+    "ROLES", "ROLE_THRESHOLDS", "betweenness", "clustering", "constraint", "contact_measures", "contact_role",
+    "degree_strength", "effective_size", "eigenvector_centrality", "harmonic_closeness", "pagerank", "participation_coefficient",
     "structural_holes", "within_module_degree",
 ]
 
@@ -45,6 +47,16 @@ ROLE_THRESHOLDS: dict[str, float] = {
     "broker_betweenness_quantile": 0.90, "broker_constraint_quantile": 0.50, "peripheral_z": -1.0,  # our own
 }
 
+#: Betweenness and closeness are exact up to this many contacts (see :func:`contact_measures`).
+EXACT_LIMIT = 5000
+#: Most pivot sources of the estimate above :data:`EXACT_LIMIT` (see :mod:`.estimate`). Our graphs needed
+#: about 45% of their contacts as pivots for the target (measured at 5,000 and 10,000), so 8,192 should
+#: reach it up to about 18,000 contacts; above, the estimate stops there and states the agreement it has.
+SAMPLES = 8192
+
+#: Every role :func:`contact_role` gives, in the order of its rules (the README lists the same).
+ROLES = ("isolated", "hub of its group", "hub across groups", "hub", "gateway", "broker", "peripheral", "member")
+
 # Row blocks for the structural-hole products are sized so that one block's
 # two-step neighbourhood holds about this many entries (bounds peak memory).
 _BLOCK_BUDGET = 4_000_000
@@ -52,12 +64,6 @@ _BLOCK_BUDGET = 4_000_000
 
 def _pivots(n: int, k: int, seed) -> np.ndarray:
     return np.sort(np.random.default_rng(seed).choice(n, size=k, replace=False))
-
-
-def _degrees(prep: _Prepared) -> tuple[np.ndarray, np.ndarray]:
-    deg = np.diff(prep.W.indptr).astype(float)
-    strength = np.asarray(prep.W.sum(axis=1)).ravel()
-    return deg, strength
 
 
 def degree_strength(G, weight: str | None = "weight") -> dict[Any, tuple[int, float]]:
@@ -101,11 +107,16 @@ def betweenness(G, weight: str | None = "weight", *, k: int | None = None, seed=
     (n - 1)(n - 2), which equals ``nx.betweenness_centrality(G, weight=d,
     normalized=True)`` with ``d = 1/weight``.
 
+    Note for networkx users: networkx reads ``weight`` as a *length* (a heavier
+    edge is a longer step); here ``weight`` is a tie *strength* and its length is
+    its inverse, so a strong tie is a short step. Passing the same graph to
+    ``nx.betweenness_centrality(G, weight="weight")`` gives different values.
+
     Parameters
     ----------
     G : networkx.Graph
     weight : str or None
-        Tie strength attribute; None makes every tie length 1.
+        Tie strength attribute (length = 1 / strength); None makes every tie length 1.
     k : int or None
         None for the exact value (Brandes 2001); otherwise the number of pivot
         sources drawn uniformly without replacement, and the estimate is the
@@ -185,54 +196,6 @@ def harmonic_closeness(G, weight: str | None = "weight", *, k: int | None = None
     prep = _prepare(G, weight)
     pivots = None if k is None or k >= prep.n else _pivots(prep.n, k, seed)
     return dict(zip(prep.nodes, _harmonic(prep, pivots).tolist()))
-
-
-def _pagerank(prep: _Prepared, alpha: float, tol: float, max_iter: int) -> np.ndarray:
-    n = prep.n
-    if n == 0:
-        return np.zeros(0)
-    _, strength = _degrees(prep)
-    dangling = strength == 0
-    inv = np.zeros(n)
-    inv[~dangling] = 1.0 / strength[~dangling]
-    WT = prep.W.T.tocsr()
-    x = np.full(n, 1.0 / n)
-    for _ in range(max_iter):
-        last = x
-        x = alpha * (WT @ (last * inv)) + (alpha * last[dangling].sum() + (1.0 - alpha)) / n
-        if np.abs(x - last).sum() < n * tol:
-            return x
-    raise nx.PowerIterationFailedConvergence(max_iter)
-
-
-def pagerank(G, alpha: float = 0.85, weight: str | None = "weight", *, tol: float = 1e-10, max_iter: int = 1000) -> dict[Any, float]:
-    """Weighted PageRank by power iteration (same model as ``nx.pagerank``).
-
-    A walker follows a tie with probability proportional to its strength and
-    jumps to a uniformly chosen node with probability 1 - alpha; nodes without
-    ties jump uniformly. Iterates until the L1 change is below ``n * tol``.
-
-    Parameters
-    ----------
-    G : networkx.Graph
-    alpha : float
-        Damping factor.
-    weight : str or None
-    tol : float
-    max_iter : int
-
-    Returns
-    -------
-    dict
-        node -> PageRank (sums to 1).
-
-    References
-    ----------
-    .. [1] Page, L., Brin, S., Motwani, R. & Winograd, T. (1999). The PageRank
-       citation ranking: bringing order to the web. Stanford InfoLab.
-    """
-    prep = _prepare(G, weight)
-    return dict(zip(prep.nodes, _pagerank(prep, alpha, tol, max_iter).tolist()))
 
 
 def _clustering(prep: _Prepared) -> np.ndarray:
@@ -536,18 +499,25 @@ def contact_role(m: Mapping[str, float], *, broker_betweenness: float, broker_co
     return "member"
 
 
-def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: int = 3000, samples: int = 256) -> tuple[dict[Any, dict], dict[str, Any]]:
+def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: int = EXACT_LIMIT, samples: int = SAMPLES) -> tuple[dict[Any, dict], dict[str, Any]]:
     """Every per-contact measure in one pass over a shared sparse representation.
 
     Per node: ``degree``, ``strength`` (sum of tie strengths), ``betweenness``
     and ``closeness`` (harmonic; both on distance = 1/weight), ``pagerank``
-    (weighted), ``clustering`` (unweighted), ``constraint`` and
+    (weighted), ``eigenvector`` (weighted, per connected component, 1 for the
+    most central contact of each; see :func:`eigenvector_centrality`),
+    ``clustering`` (unweighted), ``constraint`` and
     ``effective_size`` (weighted by tie strength; NaN for isolated nodes),
     ``participation`` and ``within_z`` (counting ties, unweighted), ``role``.
 
     Betweenness and closeness are exact when G has at most ``exact_limit``
-    nodes; above it both are estimated from the same ``samples`` pivot sources
-    drawn from ``seed`` (Brandes & Pich 2007; Eppstein & Wang 2004).
+    nodes. Above it both come from the same pivot sources (Brandes & Pich
+    2007; Eppstein & Wang 2004), drawn stratified by group and in rounds until
+    the expected share of the true top 10% by betweenness that the estimate
+    also ranks there reaches 92% (the stated error; see :mod:`.estimate`) or
+    ``samples`` pivots are used; when the target would take more than 70% of
+    the contacts as pivots and 70% of the contacts are at most ``samples``,
+    the exact values are computed instead.
 
     Parameters
     ----------
@@ -557,6 +527,7 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
     seed : int or numpy Generator
     exact_limit : int
     samples : int
+        Most pivots of the estimate.
 
     Returns
     -------
@@ -564,7 +535,8 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
         node -> {measure name: value}.
     info : dict
         ``betweenness_sampled`` (bool), ``betweenness_samples`` (number of
-        source nodes used: n when exact), ``closeness_sampled``, ``distance``
+        source nodes used: n when exact), ``betweenness_agreement`` (the
+        expected share of the true top 10% kept; 1.0 when exact), ``closeness_sampled``, ``distance``
         ("1/weight"), ``clustering`` ("unweighted"), ``broker_betweenness`` and
         ``broker_constraint`` (the cut-offs used for roles), ``role_thresholds``.
 
@@ -580,15 +552,19 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
     """
     prep = _prepare(G, "weight")
     n = prep.n
-    sampled = n > exact_limit and samples < n
-    pivots = _pivots(n, samples, seed) if sampled else None
+    labels = _module_labels(prep.nodes, groups)
+    bet, pivots, agreement = None, None, 1.0
+    if n > exact_limit:
+        bet, pivots, agreement = adaptive_pivots(lambda p: _betweenness(prep, p), labels, seed, max(1, samples))
+    sampled = bet is not None
+    if not sampled:
+        bet, pivots, agreement = _betweenness(prep, None), None, 1.0
     deg, strength = _degrees(prep)
-    bet = _betweenness(prep, pivots)
     clo = _harmonic(prep, pivots)
     pr = _pagerank(prep, 0.85, 1e-10, 1000)
+    eig = _eigenvector(prep)
     clu = _clustering(prep)
     cons, eff = _structural_holes(prep)
-    labels = _module_labels(prep.nodes, groups)
     K = _module_degrees(prep, labels, weighted=False)
     part = _participation(K)
     wz = _within_z(K, labels)
@@ -597,6 +573,7 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
     finite = cons[~np.isnan(cons)]
     broker_c = float(np.quantile(finite, ROLE_THRESHOLDS["broker_constraint_quantile"])) if finite.size else 0.0
     cols = {"degree": deg.astype(int), "strength": strength, "betweenness": bet, "closeness": clo, "pagerank": pr,
+            "eigenvector": eig,
             "clustering": clu, "constraint": cons, "effective_size": eff, "participation": part, "within_z": wz}
     cols = {name: col.tolist() for name, col in cols.items()}
     measures: dict[Any, dict] = {}
@@ -605,6 +582,7 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
         m["role"] = contact_role(m, broker_betweenness=broker_b, broker_constraint=broker_c, grouped=groups is not None)
         measures[v] = m
     info = {"betweenness_sampled": sampled, "betweenness_samples": len(pivots) if sampled else n,
+            "betweenness_agreement": round(agreement, 4),
             "closeness_sampled": sampled, "distance": "1/weight", "clustering": "unweighted",
             "broker_betweenness": broker_b, "broker_constraint": broker_c, "role_thresholds": dict(ROLE_THRESHOLDS)}
     return measures, info

@@ -1,16 +1,17 @@
 """The analysis of a workspace in one object: groups, measures, bridges, shape.
 
 Computes everything the views need from the tie graph, caches it in the
-workspace keyed by a fingerprint of the ties and the settings (so a rating or
-a group name does not trigger a recomputation, a re-import that changes ties
-does), keeps group ids stable across runs and applies the user's group names.
+workspace keyed by a digest of everything it reads (:func:`cache_inputs`: the
+ties, the contacts' attributes, the settings, and whom you have any warmth
+with), keeps group ids stable across runs and applies the user's group names
+(cheap, so applied on every load and never part of the key).
 """
 
 from __future__ import annotations
 
 import hashlib
 import json
-from dataclasses import asdict, dataclass, field, fields
+from dataclasses import asdict, dataclass, field
 from typing import Any, Mapping
 
 import networkx as nx
@@ -19,36 +20,31 @@ import numpy as np
 from ..mailpeople import not_employer_domains
 from ..network import Network, load_network
 from ..normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
+from ..settings import SettingsGroup, setting
 from ..store import Store
 from .bridges import group_bridges, group_links, single_points_of_access
-from .centrality import contact_measures
+from .centrality import EXACT_LIMIT, SAMPLES, contact_measures
 from .groups import detect_groups, match_groups, suggest_label
 from .structure import network_summary
 
-__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "load_analysis", "name_group", "contact_attrs"]
+__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest", "load_analysis", "name_group", "contact_attrs"]
 
 CACHE_KEY = "analysis:v1"
 STATE_KEY = "groups_state"
 
 
 @dataclass
-class AnalysisModel:
+class AnalysisModel(SettingsGroup, group="analysis"):
     """Settings of the analysis (``mynet settings analysis.resolution=1.5``)."""
 
-    resolution: float = 1.0  # above 1: more, smaller groups (networkx's convention)
-    min_group_size: int = 3  # smaller fragments are shown as unclustered
-    seed: int = 0
-    exact_limit: int = 2000  # betweenness is exact up to this many contacts, sampled above
-    samples: int = 256
-    backend: str = "auto"  # "louvain" (python-louvain), "igraph", or "auto": python-louvain up to 20,000 contacts
-
-    @classmethod
-    def from_settings(cls, raw: Mapping | None) -> "AnalysisModel":
-        out = cls()
-        for f in fields(cls):
-            if raw and f.name in raw:
-                setattr(out, f.name, type(getattr(out, f.name))(raw[f.name]))
-        return out
+    resolution: float = setting(1.0, "group size: above 1 finds more, smaller groups", low=0, low_open=True)
+    min_group_size: int = setting(3, "smaller fragments are shown as unclustered", low=1)
+    seed: int = setting(0, "seed of every random choice (the same seed gives the same answer)", low=0)
+    exact_limit: int = setting(EXACT_LIMIT, "betweenness is exact up to this many contacts, estimated above", low=0)
+    samples: int = setting(SAMPLES, "most source contacts of the betweenness estimate above that size (it stops "
+                           "earlier once its top 10% is expected to agree 92% with exact values)", low=64)
+    backend: str = setting("auto", "Louvain implementation: python-louvain, igraph, or auto (python-louvain up to "
+                           "20,000 contacts)", choices=("auto", "louvain", "igraph"))
 
 
 @dataclass
@@ -113,22 +109,49 @@ def contact_attrs(net: Network, extra_webmail: frozenset[str] | set[str] = froze
     """Per contact: organisations (current and past), tags, work mail domains, places."""
     extra = set(extra_webmail)
     orgs, tags, domains, places = {}, {}, {}, {}
+    labels = getattr(net, "labels", {}) or {}
     for c in net.contacts:
         orgs[c.id] = [o for o in c.orgs + c.past_orgs if is_real_org(normalise_org(o))]
-        tags[c.id] = list(c.tags)
+        # only labels that count as evidence name a group (never "follow up" or "VIP")
+        tags[c.id] = [t for t in c.tags if labels.get(fold_text(t), {}).get("counts", True)]
         domains[c.id] = sorted({email_domain(e) for e in c.emails} - {""} - {d for d in map(email_domain, c.emails) if is_webmail(d, extra)})
         places[c.id] = list(c.localities)
     return {"organisation": orgs, "tag": tags, "domain": domains, "place": places}
 
 
-def _fingerprint(net: Network, model: AnalysisModel, webmail: list[str]) -> str:
-    h = hashlib.sha1()
+def cache_inputs(store: Store, net: Network, model: AnalysisModel) -> dict[str, Any]:
+    """Everything the analysis reads, by name: the cache key is a digest of exactly this.
+
+    The computation takes its inputs from here too (see :func:`_compute`), so nothing it
+    reads can be left out of the key. A new input is one more entry.
+    """
     t = net.ties
-    for arr in (t.a, t.b, np.round(t.strength, 9)):
-        h.update(np.ascontiguousarray(arr).tobytes())
-    h.update(json.dumps(asdict(model), sort_keys=True).encode())
-    h.update(json.dumps(sorted(c.id for c in net.contacts)).encode())
-    h.update(json.dumps(sorted(webmail)).encode())
+    return {
+        "ties": (t.a, t.b, np.round(t.strength, 9)),
+        "settings": asdict(model),
+        "contacts": [[c.id, c.orgs, c.past_orgs, c.tags, c.emails, c.localities] for c in sorted(net.contacts, key=lambda c: c.id)],
+        # Webmail, relay and archive domains say nothing of a group (they never name one).
+        "webmail": sorted(not_employer_domains(store)),
+        # Labels that do not count as evidence never name a group.
+        "labels": sorted(k for k, v in (getattr(net, "labels", {}) or {}).items() if not v.get("counts", True)),
+        # Single points of access add you to the graph, tied to everyone you have any warmth with.
+        "warm": sorted(cid for cid, w in net.warmth.items() if w.warmth > 0),
+    }
+
+
+def inputs_digest(inputs: Mapping[str, Any]) -> str:
+    """A digest of :func:`cache_inputs` (arrays by their bytes, the rest as sorted JSON)."""
+    h = hashlib.sha1()
+    for name in sorted(inputs):
+        h.update(name.encode() + b"\0")
+        value = inputs[name]
+        parts = value if isinstance(value, tuple) else (value,)
+        for part in parts:
+            if isinstance(part, np.ndarray):
+                h.update(str(part.dtype).encode() + np.ascontiguousarray(part).tobytes())
+            else:
+                h.update(json.dumps(part, sort_keys=True, default=_default).encode())
+            h.update(b"\1")
     return h.hexdigest()
 
 
@@ -136,7 +159,8 @@ def _first(values: list[str], fold) -> str | None:
     return fold(values[0]) if values else None
 
 
-def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analysis:
+def _compute(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[str, Any]) -> Analysis:
+    fp = inputs_digest(inputs)
     G = tie_graph(net)
     backend = model.backend
     if backend == "auto":
@@ -154,7 +178,7 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     measures = {int(k): {mk: (None if isinstance(mv, float) and not np.isfinite(mv) else mv) for mk, mv in m.items()}
                 for k, m in measures.items()}
     sets = {g: set(m) for g, m in groups.items()}
-    attrs = contact_attrs(net, set(not_employer_domains(store)))  # webmail, relay and archive domains name no group
+    attrs = contact_attrs(net, set(inputs["webmail"]))
     infos = []
     for gid in sorted(groups, key=lambda g: (-len(groups[g]), g)):
         label, share = suggest_label(groups[gid], attrs)
@@ -162,8 +186,12 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     links = [dict(v, a=int(g), b=int(h)) for (g, h), v in sorted(group_links(G, sets).items())]
     links = [{k: (sorted(map(int, v)) if isinstance(v, (set, frozenset)) else v) for k, v in link.items()} for link in links]
     bridges = group_bridges(G, sets, limit=200)
-    ego = {cid: w.warmth for cid, w in net.warmth.items() if w.warmth > 0}
-    access = single_points_of_access(G, sets, ego_ties=ego)
+    observed = net.ties.observed()
+    row = {(int(x), int(y)): i for i, (x, y) in enumerate(zip(net.ties.a, net.ties.b))}
+    for b in bridges:
+        i = row.get((min(b["a"], b["b"]), max(b["a"], b["b"])))
+        b["basis"] = "observed" if i is not None and observed[i] else "assumed"
+    access = single_points_of_access(G, sets, ego_ties={cid: 1.0 for cid in inputs["warm"]})
     flat = {
         "organisation": {v: _first(x, normalise_org) for v, x in attrs["organisation"].items() if x},
         "domain": {v: x[0] for v, x in attrs["domain"].items() if x},
@@ -172,15 +200,28 @@ def _compute(store: Store, net: Network, model: AnalysisModel, fp: str) -> Analy
     summary = network_summary(G, group_of, flat, seed=model.seed)
     new_state = {"groups": {str(g): m for g, m in groups.items()},
                  "next_id": max([int(state.get("next_id", 1)), *[g + 1 for g in groups]])}
-    with store.transaction():
-        store.set_meta(STATE_KEY, json.dumps(new_state))
+    # A look at a past day never renumbers today's groups; a read-only workspace keeps them from the next
+    # writable run on.
+    if not _looking_back(net) and not store.read_only:
+        with store.transaction():
+            store.set_meta(STATE_KEY, json.dumps(new_state))
     return Analysis(fp, float(gr.modularity), model.resolution, infos, group_of, measures, _jsonable(info),
                     _jsonable(bridges), _jsonable(links), _jsonable(access), _jsonable(summary), _jsonable(events))
 
 
 def _jsonable(x: Any) -> Any:
-    """Plain JSON types (numpy scalars, tuples, sets and NaN made safe)."""
-    return json.loads(json.dumps(x, default=_default, allow_nan=True).replace("NaN", "null"))
+    """Plain JSON types (numpy scalars, tuples, sets; NaN and infinities become None)."""
+    return _finite(json.loads(json.dumps(x, default=_default, allow_nan=True)))
+
+
+def _finite(x: Any) -> Any:
+    if isinstance(x, float):
+        return x if np.isfinite(x) else None
+    if isinstance(x, dict):
+        return {k: _finite(v) for k, v in x.items()}
+    if isinstance(x, list):
+        return [_finite(v) for v in x]
+    return x
 
 
 def _default(o: Any) -> Any:
@@ -195,20 +236,33 @@ def _default(o: Any) -> Any:
     raise TypeError(type(o))
 
 
+def _looking_back(net: Network) -> bool:
+    """Whether the network leaves out interactions after a past day (``mynet ... --as-of``)."""
+    as_of = getattr(net, "as_of", None)
+    return bool(as_of is not None and as_of.cut)
+
+
+def cache_key(net: Network) -> str:
+    """The analysis cache entry of this network: one for now, one per past day looked at."""
+    return CACHE_KEY + (f":{net.as_of.day.isoformat()}" if _looking_back(net) else "")
+
+
 def analyse(store: Store, net: Network | None = None, *, force: bool = False) -> Analysis:
-    """The analysis, from the cache when the ties and settings have not changed."""
+    """The analysis, from the cache when nothing it reads has changed (see :func:`cache_inputs`)."""
     net = net or load_network(store)
     model = AnalysisModel.from_settings(store.setting("analysis", {}))
-    fp = _fingerprint(net, model, sorted(not_employer_domains(store)))
-    row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (CACHE_KEY,)).fetchone()
+    inputs = cache_inputs(store, net, model)
+    fp = inputs_digest(inputs)
+    key = cache_key(net)
+    row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (key,)).fetchone()
     result = None
     if row and not force:
         data = json.loads(row[0])
         if data.get("fingerprint") == fp:
             result = Analysis.from_json(data)
     if result is None:
-        result = _compute(store, net, model, fp)
-        store.put_cache(CACHE_KEY, result.to_json())
+        result = _compute(store, net, model, inputs)
+        store.put_cache(key, result.to_json())
     _apply_user(store, net, result)
     return result
 

@@ -7,12 +7,13 @@ becomes one line on stderr and its exit code; nothing is swallowed.
 
 from __future__ import annotations
 
+import io
 import sys
 
 import click
 
 from ..errors import MynetError
-from ._common import Ctx
+from ._common import Ctx, echo
 from .contacts import register as _register_contacts
 from .demo import register as _register_demo
 from .network import register as _register_network
@@ -20,6 +21,7 @@ from .reach import register as _register_reach
 from .analysis import register as _register_analysis
 from .browse import register as _register_browse
 from .report import register as _register_report
+from .tags import register as _register_tags
 
 __all__ = ["main", "cli"]
 
@@ -41,6 +43,7 @@ def cli(ctx: click.Context, workspace: str | None) -> None:
 
 _register_contacts(cli)
 _register_network(cli)
+_register_tags(cli)
 _register_reach(cli)
 _register_analysis(cli)
 _register_browse(cli)
@@ -53,13 +56,16 @@ def main(argv: list[str] | None = None) -> int:
     try:
         cli.main(args=argv, prog_name="mynet", standalone_mode=False)
     except MynetError as exc:
-        click.echo(f"mynet: {exc}", err=True)
+        echo(f"mynet: {exc}", err=True)
         return exc.exit_code
     except click.exceptions.Abort:
-        click.echo("mynet: aborted", err=True)
+        echo("mynet: aborted", err=True)
         return 130
     except click.ClickException as exc:
-        exc.show()
+        # click's own messages quote what was typed (a file name, say): shown safely like the rest.
+        buf = io.StringIO()
+        exc.show(file=buf)
+        echo(buf.getvalue(), nl=False, err=True)
         return exc.exit_code
     except BrokenPipeError:
         return 0

@@ -1,4 +1,11 @@
-"""Helpers shared by the CLI commands: workspace access, JSON, tables, stderr notes."""
+"""Helpers shared by the CLI commands: workspace access, JSON, tables, stderr notes.
+
+Every line the CLI prints goes through :func:`echo` (or :func:`note`,
+:func:`table`, :func:`emit_json`, :func:`confirm`), which pass the text through
+:func:`mynet.safetext.shown`: a name or a file name holding a terminal escape
+sequence is shown, never obeyed. ``tests/test_hostile.py`` checks that no other
+module of the CLI prints by itself.
+"""
 
 from __future__ import annotations
 
@@ -8,6 +15,7 @@ from typing import Any, Iterable, Sequence
 
 import click
 
+from ..safetext import json_escape, shown
 from ..store import Store
 from ..workspace import open_workspace
 
@@ -26,24 +34,34 @@ class Ctx:
         return self._store
 
 
+def echo(text: Any = "", *, nl: bool = True, err: bool = False) -> None:
+    """Print text (stdout, or stderr with ``err``), control characters shown, never obeyed."""
+    click.echo(shown(text), nl=nl, err=err)
+
+
+def confirm(question: str) -> None:
+    """Ask yes/no on the terminal (the question shown safely); "no" aborts."""
+    click.confirm(shown(question, one_line=True), abort=True)
+
+
 def emit_json(data: Any) -> None:
-    """Print one JSON document on stdout."""
-    click.echo(json.dumps(data, ensure_ascii=False, indent=2, sort_keys=False))
+    """Print one JSON document on stdout (controls beyond JSON's own escaped as ``\\uXXXX``)."""
+    click.echo(json_escape(json.dumps(data, ensure_ascii=False, indent=2, sort_keys=False)))
 
 
 def note(text: str) -> None:
     """A diagnostic or progress line on stderr."""
-    click.echo(text, err=True)
+    echo(text, err=True)
 
 
 def clip(text: str, width: int) -> str:
-    text = " ".join(str(text).split())
+    text = " ".join(shown(text, one_line=True).split())
     return text if len(text) <= width else text[: max(0, width - 1)] + "…"
 
 
 def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequence[int] | None = None) -> str:
     """A plain aligned text table that fits the terminal (last column takes the rest)."""
-    rows = [[str(c) if c is not None else "" for c in r] for r in rows]
+    rows = [[" ".join(shown(c, one_line=True).split()) if c is not None else "" for c in r] for r in rows]
     total = shutil.get_terminal_size((100, 24)).columns
     if widths is None:
         widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(headers)]
@@ -57,3 +75,36 @@ def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequenc
 
 
 json_option = click.option("--json", "as_json", is_flag=True, help="Print one JSON document on stdout.")
+def _check_day(ctx, param, value):
+    from datetime import date
+
+    if value is None:
+        return None
+    try:
+        date.fromisoformat(value.strip())
+    except ValueError:
+        raise click.BadParameter(f"{value!r} is not a date written YYYY-MM-DD") from None
+    return value.strip()
+
+
+as_of_option = click.option(
+    "--as-of", "as_of", metavar="YYYY-MM-DD", default=None, callback=_check_day,
+    help="Look from this day: meetings and mail after it are left out and warmth is measured on it "
+         "(default today, or your newest interaction when that is more than a year old).")
+
+
+def when(store: Store, as_of: str | None):
+    """The day to analyse at (see :func:`mynet.network.resolve_as_of`); says so on stderr when mynet chose it."""
+    from ..network import resolve_as_of
+
+    chosen = resolve_as_of(store, as_of)
+    if chosen.note:
+        note(chosen.note)
+    return chosen
+
+
+def load_net(store: Store, as_of: str | None):
+    """The network at the day asked for (or chosen), with the one-line note on stderr."""
+    from ..network import load_network
+
+    return load_network(store, as_of=when(store, as_of))

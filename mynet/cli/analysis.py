@@ -8,12 +8,11 @@ import click
 from ..analysis.audit import audit
 from ..analysis.snapshot import analyse, name_group
 from ..errors import MynetError, NotFoundError
-from ..network import load_network
-from ._common import clip, emit_json, json_option, note, table
+from ._common import as_of_option, clip, echo, emit_json, json_option, load_net, note, table
 
 
-def _load(store):
-    net = load_network(store)
+def _load(store, as_of: str | None = None):
+    net = load_net(store, as_of)
     return net, analyse(store, net)
 
 
@@ -54,14 +53,15 @@ def audit_markdown(net, a, findings) -> str:
 
 def register(cli: click.Group) -> None:
     @cli.group("groups", invoke_without_command=True)
+    @as_of_option
     @json_option
     @click.pass_context
-    def groups_cmd(ctx, as_json):
+    def groups_cmd(ctx, as_of, as_json):
         """The clusters of your network (Louvain), with names you can give them."""
         if ctx.invoked_subcommand:
             return
         store = ctx.obj.store()
-        net, a = _load(store)
+        net, a = _load(store, as_of)
         if as_json:
             emit_json({
                 "modularity": round(a.modularity, 4), "resolution": a.resolution,
@@ -72,18 +72,18 @@ def register(cli: click.Group) -> None:
             })
             return
         if not a.groups:
-            click.echo("No groups yet: groups appear once contacts are tied (mynet ties).")
+            echo("No groups yet: groups appear once contacts are tied (mynet ties).")
             return
-        click.echo(table(["id", "size", "warm", "name"], [
+        echo(table(["id", "size", "warm", "name"], [
             (g.id, g.size, f"{g.warm} ({g.warm_share:.0%})", g.name + ("" if g.user_named else "  [suggested]"))
             for g in a.groups
         ]))
         loose = sum(1 for g in a.group_of.values() if g is None)
-        click.echo(f"\nModularity {a.modularity:.2f}; {loose} contacts unclustered (few or no ties).")
+        echo(f"\nModularity {a.modularity:.2f}; {loose} contacts unclustered (few or no ties).")
         names = {g.id: g.name for g in a.groups}
         for ev in a.events:
             if ev.get("kind") in ("split", "merge"):
-                click.echo("Note: " + describe_event(ev, names))
+                echo("Note: " + describe_event(ev, names))
         note("Name one: mynet groups name ID \"Old team\"   Members: mynet groups show ID")
 
     @groups_cmd.command("name")
@@ -101,16 +101,17 @@ def register(cli: click.Group) -> None:
         if not clear and not (name or "").strip():
             raise MynetError("give a name, or --clear to go back to the suggested label")
         name_group(store, gid, None if clear else name)
-        click.echo(f"Group {gid}: {name if not clear else g.label}")
+        echo(f"Group {gid}: {name if not clear else g.label}")
 
     @groups_cmd.command("show")
     @click.argument("gid", type=int)
+    @as_of_option
     @json_option
     @click.pass_obj
-    def groups_show(obj, gid, as_json):
+    def groups_show(obj, gid, as_of, as_json):
         """List a group's members with their roles."""
         store = obj.store()
-        net, a = _load(store)
+        net, a = _load(store, as_of)
         g = a.group(gid)
         if g is None:
             raise NotFoundError(f"no group {gid} (see: mynet groups)")
@@ -121,22 +122,28 @@ def register(cli: click.Group) -> None:
                  "warmth": round(net.warmth[c].warmth, 4) if c in net.warmth else 0.0, "orgs": net.by_id[c].orgs}
                 for c in rows]})
             return
-        click.echo(f"Group {g.id}: {g.name}  ({g.size} people, {g.warm} warm)")
+        echo(f"Group {g.id}: {g.name}  ({g.size} people, {g.warm} warm)")
         if g.user_named:
-            click.echo(f"  suggested label: {g.label}")
-        click.echo(table(["id", "name", "role", "warmth", "organisation"], [
+            echo(f"  suggested label: {g.label}")
+        echo(table(["id", "name", "role", "warmth", "organisation"], [
             (c, net.name(c), a.measures.get(c, {}).get("role", ""), f"{net.warmth[c].warmth:.2f}" if net.warmth[c].warmth else "-", _org(net, c))
             for c in rows
         ]))
 
     @cli.command("brokers")
     @click.option("--limit", type=int, default=15, show_default=True)
+    @as_of_option
     @json_option
     @click.pass_obj
-    def brokers_cmd(obj, limit, as_json):
-        """Who holds the network together: betweenness, constraint, roles, single points of access."""
+    def brokers_cmd(obj, limit, as_of, as_json):
+        """Who holds the network together: betweenness, constraint, roles, single points of access.
+
+        Betweenness reads a tie's strength w as a distance 1/w (strong ties are short steps): networkx's
+        betweenness_centrality gives the same values with weight=1/w, not with the strength itself.
+        --json adds every measure per person, eigenvector centrality included.
+        """
         store = obj.store()
-        net, a = _load(store)
+        net, a = _load(store, as_of)
         ranked = sorted(a.measures.items(), key=lambda kv: (-(kv[1].get("betweenness") or 0), kv[0]))
         if as_json:
             emit_json({"measures_info": a.measures_info, "contacts": [
@@ -144,39 +151,47 @@ def register(cli: click.Group) -> None:
                 "single_points_of_access": a.access})
             return
         info = a.measures_info
-        click.echo(table(["id", "name", "role", "group", "betweenness", "constraint", "eff. size", "participation"], [
+        echo(table(["id", "name", "role", "group", "betweenness", "constraint", "eff. size", "participation"], [
             (c, net.name(c), m.get("role", ""), a.group_of.get(c) if a.group_of.get(c) is not None else "-",
              f"{m.get('betweenness') or 0:.3f}", f"{m['constraint']:.2f}" if m.get("constraint") is not None else "-",
              f"{m['effective_size']:.1f}" if m.get("effective_size") is not None else "-", f"{m.get('participation') or 0:.2f}")
             for c, m in ranked[:limit]
         ]))
         if info.get("betweenness_sampled"):
-            note(f"betweenness estimated from {info.get('betweenness_samples')} sampled sources (Brandes & Pich 2007)")
+            agree = info.get("betweenness_agreement")
+            note(f"betweenness estimated from {info.get('betweenness_samples')} sampled sources (Brandes & Pich 2007)"
+                 + (f"; about {agree:.0%} of the true top 10% are expected among the top 10% shown" if agree else ""))
         groups = {g.id: g.name for g in a.groups}
         spof = [x for x in a.access if x.get("groups")]
         if spof:
-            click.echo("\nGroups you reach only through one person:")
+            echo("\nGroups you reach only through one person:")
             for x in spof:
-                click.echo(f"  {net.name(x['person'])} -> " + "; ".join(groups.get(g, str(g)) for g in x["groups"])
-                           + f" ({len(x.get('cut_off', []))} people cut off without them)")
+                echo(f"  {net.name(x['person'])} -> " + "; ".join(groups.get(g, str(g)) for g in x["groups"])
+                     + f" ({len(x.get('cut_off', []))} people cut off without them)")
 
     @cli.command("bridges")
     @click.option("--limit", type=int, default=15, show_default=True)
+    @as_of_option
     @json_option
     @click.pass_obj
-    def bridges_cmd(obj, limit, as_json):
-        """The ties between groups that matter most (weak, low-overlap bridges first)."""
+    def bridges_cmd(obj, limit, as_of, as_json):
+        """The ties between groups that matter most (weak, low-overlap bridges first).
+
+        The "seen" column says whether the tie rests on something that happened (a meeting, a thread, your word)
+        or only on something the two share ("may know").
+        """
         store = obj.store()
-        net, a = _load(store)
+        net, a = _load(store, as_of)
         groups = {g.id: g.name for g in a.groups}
         if as_json:
             emit_json({"bridges": a.bridges[: limit or None], "links": a.links})
             return
         if not a.bridges:
-            click.echo("No ties between groups.")
+            echo("No ties between groups.")
             return
-        click.echo(table(["score", "between", "and", "groups", "strength", "overlap", "local bridge"], [
+        echo(table(["score", "between", "and", "seen", "groups", "strength", "overlap", "local bridge"], [
             (f"{b['score']:.2f}", net.name(b["a"]), net.name(b["b"]),
+             "yes" if b.get("basis") == "observed" else "may know",
              " / ".join(clip(groups.get(g, str(g)), 22) for g in b["groups"]), f"{b['strength']:.2f}",
              f"{b['overlap']:.2f}", f"yes (span {b['span']})" if b.get("local_bridge") else "no")
             for b in a.bridges[:limit]
@@ -184,22 +199,23 @@ def register(cli: click.Group) -> None:
 
     @cli.command("audit")
     @click.option("--markdown", is_flag=True, help="Print the audit as Markdown.")
+    @as_of_option
     @json_option
     @click.pass_obj
-    def audit_cmd(obj, markdown, as_json):
+    def audit_cmd(obj, markdown, as_of, as_json):
         """A readable report on the shape of your network, most useful finding first."""
         store = obj.store()
-        net, a = _load(store)
+        net, a = _load(store, as_of)
         if not net.contacts:
             raise NotFoundError("there is nothing to audit yet: import your contacts first (mynet import FILE)")
-        findings = audit(store, net, a)
+        findings = audit(store, net, a, today=net.as_of.day)
         if as_json:
             emit_json({"findings": findings, "summary": a.summary, "modularity": a.modularity})
             return
         if markdown:
-            click.echo(audit_markdown(net, a, findings), nl=False)
+            echo(audit_markdown(net, a, findings), nl=False)
             return
         for i, f in enumerate(findings, 1):
-            click.echo(f"{i}. [{f['severity']}] {f['title']}")
-            click.echo(f"   {f['detail']}")
-            click.echo(f"   -> {f['suggestion']}\n")
+            echo(f"{i}. [{f['severity']}] {f['title']}")
+            echo(f"   {f['detail']}")
+            echo(f"   -> {f['suggestion']}\n")

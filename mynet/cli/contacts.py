@@ -20,7 +20,7 @@ from ..workspace import (
     set_me,
     unmerge_contact,
 )
-from ._common import clip, emit_json, json_option, note, table
+from ._common import as_of_option, clip, confirm, echo, emit_json, json_option, note, table, when
 
 
 def contact_json(c: Contact, extra: dict | None = None) -> dict:
@@ -68,7 +68,7 @@ def confirm_or_refuse(question: str) -> None:
 
     if not sys.stdin.isatty():
         raise MynetError("this changes your workspace for good; run it in a terminal to confirm, or add --yes")
-    click.confirm(question, abort=True)
+    confirm(question)
 
 
 def plural(n: int, word: str) -> str:
@@ -81,23 +81,23 @@ def print_import_report(report, as_json: bool) -> None:
         return
     for f in report.files:
         if f.status == "unchanged":
-            click.echo(f"{f.path}: unchanged since the last import")
+            echo(f"{f.path}: unchanged since the last import")
             continue
         if f.status == "refused":
-            click.echo(f"{f.path}: refused: {f.error}")
+            echo(f"{f.path}: refused: {f.error}")
             continue
         what = plural(f.records, "record") if f.kind in ("vcard", "csv") else plural(f.interactions, "event" if f.kind == "ics" else "message")
         if f.kind in ("maildir", "mailfolder"):
             what += " in a Maildir" if f.kind == "maildir" else " in a folder of saved messages"
-        click.echo(f"{f.path}: {f.status}, {what} ({f.kind}){', ' + str(len(f.skipped)) + ' skipped' if f.skipped else ''}")
+        echo(f"{f.path}: {f.status}, {what} ({f.kind}){', ' + str(len(f.skipped)) + ' skipped' if f.skipped else ''}")
         for w in f.warnings:
             note(f"  note: {w}")
     if report.skipped:
-        click.echo(f"Skipped {len(report.skipped)} record(s):")
+        echo(f"Skipped {len(report.skipped)} record(s):")
         for s in report.skipped[:50]:
-            click.echo(f"  {s.source}:{s.line}: {s.reason}")
+            echo(f"  {s.source}:{s.line}: {s.reason}")
         if len(report.skipped) > 50:
-            click.echo(f"  ... and {len(report.skipped) - 50} more (see --json)")
+            echo(f"  ... and {len(report.skipped) - 50} more (see --json)")
     extra = ""
     if report.you_records:
         extra += f"; {report.you_records} record{'s are' if report.you_records != 1 else ' is'} you"
@@ -106,21 +106,21 @@ def print_import_report(report, as_json: bool) -> None:
     if report.found:
         extra += (f"; {report.found} {'people' if report.found != 1 else 'person'} you corresponded with "
                   "found in mail and calendars")
-    click.echo(
+    echo(
         f"{report.records_total} records in the workspace -> {report.contacts_after} contacts: "
         f"{report.merged_records} duplicate records merged{extra}. "
         f"{report.suggestions} possible duplicates to review (mynet contacts --suggested)"
     )
     if report.national_numbers:
         if report.region:
-            click.echo(f"Phone numbers without a country code ({report.national_numbers}) were read as {report.region} "
+            echo(f"Phone numbers without a country code ({report.national_numbers}) were read as {report.region} "
                        f"numbers ({region_words(report.region_why)}); another country: mynet import --region XX, "
                        "or mynet me --phone +CC...")
         else:
-            click.echo(f"Phone numbers without a country code ({report.national_numbers}) could not be read: nothing says "
+            echo(f"Phone numbers without a country code ({report.national_numbers}) could not be read: nothing says "
                        "which country they are in (mynet me --phone +CC... or mynet import --region XX)")
     if report.who_are_you:
-        click.echo("mynet does not know who you are yet, so it cannot tell whom you corresponded with: "
+        echo("mynet does not know who you are yet, so it cannot tell whom you corresponded with: "
                    f"mynet me --email ADDRESS (most of this mail is to or from {report.who_are_you})")
 
 
@@ -151,16 +151,16 @@ def register(cli: click.Group) -> None:
                        "also_you": seen, "phone_region": region})
             return
         if not raw:
-            click.echo("You have not said who you are yet: mynet me --email you@example.org --name \"Your Name\"")
+            echo("You have not said who you are yet: mynet me --email you@example.org --name \"Your Name\"")
             return
-        click.echo(f"You: {', '.join(raw.get('names', [])) or '(no name)'} <{', '.join(raw.get('emails', []))}>")
+        echo(f"You: {', '.join(raw.get('names', [])) or '(no name)'} <{', '.join(raw.get('emails', []))}>")
         if raw.get("phones"):
-            click.echo(f"Your phone: {', '.join(raw['phones'])}")
+            echo(f"Your phone: {', '.join(raw['phones'])}")
         if seen:
-            click.echo(f"Also you (your name on these addresses in meetings and mail, or archive copies of yours): "
+            echo(f"Also you (your name on these addresses in meetings and mail, or archive copies of yours): "
                        f"{', '.join(seen)}")
         if region.get("region"):
-            click.echo(f"Numbers without a country code are read as {region['region']} numbers "
+            echo(f"Numbers without a country code are read as {region['region']} numbers "
                        f"({region_words(region.get('why', ''))})")
 
     @cli.command("import")
@@ -233,18 +233,18 @@ def register(cli: click.Group) -> None:
             if as_json:
                 emit_json(dict(rep))
                 return
-            click.echo(f"Removed {rep['source']}: {rep['records']} records, {rep['interactions']} events/messages, "
-                       f"{rep['decisions']} decisions about people only it held (your decisions about people still "
-                       f"in other files are kept: {rep['decisions_kept']}); the workspace file was compacted.")
+            echo(f"Removed {rep['source']}: {rep['records']} records, {rep['interactions']} events/messages, "
+                 f"{rep['decisions']} decisions about people only it held (your decisions about people still "
+                 f"in other files are kept: {rep['decisions_kept']}); the workspace file was compacted.")
             return
         rows = obj.store().sources()
         if as_json:
             emit_json([{k: r[k] for k in ("id", "path", "kind", "sha256", "as_of", "imported_at", "n_records", "n_skipped")} for r in rows])
             return
         if not rows:
-            click.echo("No sources yet: mynet import FILE...")
+            echo("No sources yet: mynet import FILE...")
             return
-        click.echo(table(["id", "kind", "records", "skipped", "as of", "file"],
+        echo(table(["id", "kind", "records", "skipped", "as of", "file"],
                          [(r["id"], r["kind"], r["n_records"], r["n_skipped"], r["as_of"] or "", r["path"]) for r in rows]))
 
     @cli.command("contacts")
@@ -253,9 +253,10 @@ def register(cli: click.Group) -> None:
     @click.option("--unlisted", is_flag=True, help="List people you met or wrote with who are not in your address book.")
     @click.option("--sort", type=click.Choice(["id", "name", "warmth", "last"]), default="id", show_default=True)
     @click.option("--limit", type=int, default=0, help="Show at most this many.")
+    @as_of_option
     @json_option
     @click.pass_obj
-    def contacts_cmd(obj, search, suggested, unlisted, sort, limit, as_json):
+    def contacts_cmd(obj, search, suggested, unlisted, sort, limit, as_of, as_json):
         """List the people in your network, with your warmth to each."""
         store = obj.store()
         if unlisted:
@@ -271,9 +272,9 @@ def register(cli: click.Group) -> None:
                 emit_json(people)
                 return
             if not people:
-                click.echo(f"Nobody outside your address book shows up {threshold} or more times.")
+                echo(f"Nobody outside your address book shows up {threshold} or more times.")
                 return
-            click.echo(table(["seen", "last", "name", "e-mail"], [(p["count"], p["last"], p["name"], p["email"]) for p in people]))
+            echo(table(["seen", "last", "name", "e-mail"], [(p["count"], p["last"], p["name"], p["email"]) for p in people]))
             note(f"{total} people met {threshold}+ times who are not in your address book")
             return
         if suggested:
@@ -283,19 +284,19 @@ def register(cli: click.Group) -> None:
                 emit_json([{"a": s.a, "b": s.b, "score": round(s.score, 3), "reason": s.reason} for s in sugg])
                 return
             if not sugg:
-                click.echo("No possible duplicates to review.")
+                echo("No possible duplicates to review.")
                 return
-            click.echo(table(["score", "a", "b", "why"], [
+            echo(table(["score", "a", "b", "why"], [
                 (f"{s.score:.2f}", f"{s.a} {names[s.a].name}", f"{s.b} {names[s.b].name}", s.reason) for s in sugg
             ]))
-            click.echo("\nSame person: mynet merge A B    Different people: mynet apart A B")
+            echo("\nSame person: mynet merge A B    Different people: mynet apart A B")
             return
         contacts = store.contacts()
         if search:
             contacts = search_contacts(contacts, search)
         from ..network import load_warmth
 
-        warmth = load_warmth(store)
+        warmth = load_warmth(store, today=when(store, as_of).day)
         if sort == "name":
             contacts.sort(key=lambda c: (c.name.casefold(), c.id))
         elif sort == "warmth":
@@ -311,9 +312,9 @@ def register(cli: click.Group) -> None:
             emit_json([contact_json(c, extra_fields(c, warmth) | {"group": groups.get(c.id)}) for c in contacts])
             return
         if not contacts:
-            click.echo("No contacts match." if search else "No contacts yet: mynet import FILE...")
+            echo("No contacts match." if search else "No contacts yet: mynet import FILE...")
             return
-        click.echo(table(["id", "name", "organisation", "warmth", "last seen", "e-mail"], [
+        echo(table(["id", "name", "organisation", "warmth", "last seen", "e-mail"], [
             (c.id, c.name, ", ".join(c.orgs) or (f"(was {c.past_orgs[0]})" if c.past_orgs else ""),
              f"{warmth[c.id].warmth:.2f}" if warmth[c.id].warmth else "-", warmth[c.id].last or "-",
              c.emails[0] if c.emails else (c.phones[0] if c.phones else ""))
@@ -339,7 +340,7 @@ def register(cli: click.Group) -> None:
                              "titles": r.titles, "tags": r.tags} for rid, path, r in recs],
             }))
             return
-        click.echo(f"{c.name}  (id {c.id})")
+        echo(f"{c.name}  (id {c.id})")
         fields = [
             ("also known as", ", ".join(c.nicknames)),
             ("works at", ", ".join(c.orgs)),
@@ -353,23 +354,23 @@ def register(cli: click.Group) -> None:
         ]
         for label, value in fields:
             if value:
-                click.echo(f"  {label:<14}{value}")
+                echo(f"  {label:<14}{value}")
         for n in c.notes:
-            click.echo(f"  {'note':<14}{clip(n, 200)}")
+            echo(f"  {'note':<14}{clip(n, 200)}")
         if c.found_in:
-            click.echo(f"\nFound in your {' and '.join(c.found_in)}: in no address book, but you corresponded.")
+            echo(f"\nFound in your {' and '.join(c.found_in)}: in no address book, but you corresponded.")
         if c.address_from:
-            click.echo("\nWhere each address came from:")
+            echo("\nWhere each address came from:")
             for addr, why in c.address_from.items():
-                click.echo(f"  {addr}: {why}")
-            click.echo(f"Not this person's? mynet drop-address {c.id} ADDRESS")
+                echo(f"  {addr}: {why}")
+            echo(f"Not this person's? mynet drop-address {c.id} ADDRESS")
         if recs:
-            click.echo(f"\nRecords behind this person ({len(recs)}):")
+            echo(f"\nRecords behind this person ({len(recs)}):")
         for rid, path, r in recs:
             bits = [r.display_name()] + r.emails[:2] + r.phones[:1] + r.orgs[:1]
-            click.echo(f"  [{rid}] {path}:{r.line}  " + " | ".join(b for b in bits if b))
+            echo(f"  [{rid}] {path}:{r.line}  " + " | ".join(b for b in bits if b))
         if len(recs) > 1:
-            click.echo(f"\nWrongly merged? mynet unmerge {c.id} --record ID")
+            echo(f"\nWrongly merged? mynet unmerge {c.id} --record ID")
 
     @cli.command("merge")
     @click.argument("who", nargs=-1, required=True)
@@ -389,7 +390,7 @@ def register(cli: click.Group) -> None:
         if as_json:
             emit_json(contact_json(c))
             return
-        click.echo(f"Merged into {c.name} (id {c.id}), {len(c.record_ids)} records.")
+        echo(f"Merged into {c.name} (id {c.id}), {len(c.record_ids)} records.")
 
     @cli.command("unmerge")
     @click.argument("who")
@@ -404,7 +405,7 @@ def register(cli: click.Group) -> None:
         if as_json:
             emit_json([contact_json(p) for p in parts])
             return
-        click.echo("Now separate: " + "; ".join(f"{p.id} {p.name}" for p in parts))
+        echo("Now separate: " + "; ".join(f"{p.id} {p.name}" for p in parts))
 
     @cli.command("drop-address")
     @click.argument("who")
@@ -431,18 +432,18 @@ def register(cli: click.Group) -> None:
             if as_json:
                 emit_json(contact_json(after) if after else {})
                 return
-            click.echo(f"{address} counts again" + (f": {after.name} (id {after.id})." if after else "."))
+            echo(f"{address} counts again" + (f": {after.name} (id {after.id})." if after else "."))
             return
         after = detach_address(store, c.id, address, undo=undo)
         if as_json:
             emit_json(contact_json(after) if after else {"id": c.id, "removed": True})
             return
         if after is None:
-            click.echo(f"{c.name} ({c.id}) was known only through {address}; they are no longer a contact.")
+            echo(f"{c.name} ({c.id}) was known only through {address}; they are no longer a contact.")
         elif undo:
-            click.echo(f"{address} counts as {after.name}'s again (id {after.id}).")
+            echo(f"{address} counts as {after.name}'s again (id {after.id}).")
         else:
-            click.echo(f"{address} is no longer {after.name}'s (id {after.id}); kept across re-imports "
+            echo(f"{address} is no longer {after.name}'s (id {after.id}); kept across re-imports "
                        f"(mynet drop-address {after.id} {address} --undo takes it back).")
 
     @cli.command("forget")
@@ -455,15 +456,24 @@ def register(cli: click.Group) -> None:
         Later imports of the same files leave them out (mynet keeps only salted
         hashes of their addresses, numbers and names, never the values).
         """
-        from ..privacy import forget_contact
+        from ..privacy import forget_contact, written_files
 
         store = obj.store()
         c = find_contact(store, who)
         if not yes:
             confirm_or_refuse(f"Forget {c.name} (id {c.id}) completely? This cannot be undone")
+        files = written_files(store)
         rep = forget_contact(store, c.id)
-        click.echo(f"Forgotten: {plural(rep['records'], 'record')} removed, {rep['interactions_scrubbed']} meetings/messages "
-                   f"cleaned, {rep['decisions']} decisions dropped; the workspace file was compacted.")
+        echo(f"Forgotten: {plural(rep['records'], 'record')} removed, {rep['interactions_scrubbed']} meetings/messages "
+             f"cleaned, {rep['decisions']} decisions dropped; the workspace file was compacted.")
+        if files:
+            note(f"Files written earlier from this workspace may still name {c.name}; mynet does not change them. "
+                 "Delete them or write them again:")
+            for f in files:
+                note(f"  {f}")
+        else:
+            note(f"Reports and exports written earlier (mynet report, mynet export) are separate files: any that name "
+                 f"{c.name} still do until you delete them or write them again.")
 
     @cli.command("apart")
     @click.argument("a")
@@ -474,4 +484,4 @@ def register(cli: click.Group) -> None:
         store = obj.store()
         ca, cb = find_contact(store, a), find_contact(store, b)
         reject_suggestion(store, ca.id, cb.id)
-        click.echo(f"Kept apart: {ca.id} {ca.name} / {cb.id} {cb.name}")
+        echo(f"Kept apart: {ca.id} {ca.name} / {cb.id} {cb.name}")

@@ -11,11 +11,11 @@ import click
 from ..errors import MynetError
 from ..analysis.audit import audit
 from ..analysis.snapshot import analyse
-from ..network import describe, evidence_summary, explain_tie, load_network
+from ..network import describe, evidence_summary, explain_tie, load_network, tie_words
 from ..reach import reach, resolve_targets
 from ..workspace import import_paths, merge_suggestions, open_workspace, set_me
 from ..workspace_ties import update_list_setting
-from ._common import note, table
+from ._common import echo, note, table
 from .contacts import region_words
 
 
@@ -33,7 +33,7 @@ SOURCE_FILES = ("phone.vcf", "phone-recent.vcf", "old-work.vcf", "conference.csv
 
 
 def heading(text: str) -> None:
-    click.echo(f"\n== {text}")
+    echo(f"\n== {text}")
 
 
 def register(cli: click.Group) -> None:
@@ -48,16 +48,16 @@ def register(cli: click.Group) -> None:
         folder.mkdir(parents=True, exist_ok=True)
         ws = folder / "demo.sqlite"
         note(f"Demo workspace: {ws} (your own workspace is not touched)")
-        click.echo("mynet demo: an invented person's exports, turned into their network. Everyone here is made up.")
+        echo("mynet demo: an invented person's exports, turned into their network. Everyone here is made up.")
         with open_workspace(ws) as store:
             heading("1. Who you are")
             set_me(store, you.get("emails", []), [you.get("name", "")] if you.get("name") else [])
-            click.echo(f"   You are {you.get('name')} <{', '.join(you.get('emails', []))}>")
+            echo(f"   You are {you.get('name')} <{', '.join(you.get('emails', []))}>")
             personal = truth.get("personal_email_domains", [])
             if personal:
                 update_list_setting(store, "webmail_domains", ",".join(d for d in personal if d != "example.org"))
-                click.echo("   This invented world's private mail domains are declared as webmail (they say nothing about "
-                           f"an employer): mynet settings webmail_domains={','.join(d for d in personal if d != 'example.org')}")
+                echo("   This invented world's private mail domains are declared as webmail (they say nothing about "
+                     f"an employer): mynet settings webmail_domains={','.join(d for d in personal if d != 'example.org')}")
 
             heading("2. Import the exports")
             files = [src / f for f in SOURCE_FILES if (src / f).exists()]
@@ -65,34 +65,34 @@ def register(cli: click.Group) -> None:
             for f in report.files:
                 what = f"{f.records} records" if f.kind in ("vcard", "csv") else f"{f.interactions} {'events' if f.kind == 'ics' else 'messages'}"
                 skipped = f", {len(f.skipped)} skipped" if f.skipped else ""
-                click.echo(f"   {Path(f.path).name:<18} {what:>14} ({f.kind}){skipped}")
+                echo(f"   {Path(f.path).name:<18} {what:>14} ({f.kind}){skipped}")
             found = f", {report.found} found in mail and calendars (people you corresponded with)" if report.found else ""
-            click.echo(
+            echo(
                 f"   {report.records_total} records -> {report.contacts_after} contacts: "
                 f"{report.merged_records} duplicate records merged, {report.you_records} were you{found}"
             )
             if report.national_numbers and report.region:
-                click.echo(f"   Phone numbers without a country code ({report.national_numbers}) were read as "
+                echo(f"   Phone numbers without a country code ({report.national_numbers}) were read as "
                            f"{report.region} numbers ({region_words(report.region_why)})")
             contacts = store.contacts()
             names = {c.id: c.name for c in contacts}
             multi = sorted(contacts, key=lambda c: (-len(c.sources), c.id))[:4]
             heading("3. People found in several exports (mynet show ID lists every record behind one)")
-            click.echo(table(["id", "name", "works at", "worked at", "files"], [
+            echo(table(["id", "name", "works at", "worked at", "files"], [
                 (c.id, c.name, ", ".join(c.orgs), ", ".join(c.past_orgs), len(c.sources)) for c in multi
             ]))
             sugg = merge_suggestions(store)
             heading(f"4. Possible duplicates, for you to decide ({len(sugg)}; mynet merge A B / mynet apart A B)")
             for s in sugg[:5]:
-                click.echo(f"   {s.score:.2f}  {s.a} {names[s.a]}  /  {s.b} {names[s.b]}: {s.reason}")
+                echo(f"   {s.score:.2f}  {s.a} {names[s.a]}  /  {s.b} {names[s.b]}: {s.reason}")
 
             net = load_network(store)
             heading(f"5. Who knows whom: {len(net.ties)} ties (mynet ties)")
             t = net.ties
             order = t.order()
-            click.echo(table(["strength", "between", "and", "why"], [
+            echo(table(["strength", "between", "and", "why"], [
                 (f"{t.strength[i]:.2f}", net.name(int(t.a[i])), net.name(int(t.b[i])),
-                 "; ".join(describe(e) for e in evidence_summary(net, int(i), t)))
+                 tie_words(evidence_summary(net, int(i), t)))
                 for i in order[:6]
             ]))
             multiplex = next((int(i) for i in order if len({e["kind"] for e in evidence_summary(net, int(i), t)}) >= 3),
@@ -101,21 +101,21 @@ def register(cli: click.Group) -> None:
                 a, b = int(t.a[multiplex]), int(t.b[multiplex])
                 ex = explain_tie(store, net, a, b)
                 heading(f"6. Why? (mynet why {a} {b})")
-                click.echo(f"   {ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}")
+                echo(f"   {ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}")
                 for ev in ex["evidence"]:
                     prov = ev.get("provenance")
                     where = f" per {', '.join(prov[:3])}" if isinstance(prov, list) and prov else ""
-                    click.echo(f"   - {describe(ev)}{where}")
+                    echo(f"   - {describe(ev)}{where}")
 
             warm = sorted(net.warmth.values(), key=lambda w: (-w.warmth, w.contact_id))[:5]
             heading("7. Your warmest contacts (mynet contacts --sort warmth)")
-            click.echo(table(["warmth", "tier", "name", "meetings", "mails", "last"], [
+            echo(table(["warmth", "tier", "name", "meetings", "mails", "last"], [
                 (f"{w.warmth:.2f}", w.tier, names[w.contact_id], w.meetings, w.messages_from + w.messages_to, w.last or "-")
                 for w in warm
             ]))
             analysis = analyse(store, net)
             heading(f"8. The groups of your network (mynet groups; modularity {analysis.modularity:.2f})")
-            click.echo(table(["id", "size", "warm", "suggested name"], [
+            echo(table(["id", "size", "warm", "suggested name"], [
                 (g.id, g.size, g.warm, g.name) for g in analysis.groups
             ]))
             gnames = {g.id: g.name for g in analysis.groups}
@@ -124,26 +124,26 @@ def register(cli: click.Group) -> None:
                 heading("9. A bridge between groups (mynet bridges)")
                 pair = " and ".join(f"group {g} ({gnames.get(g, '?')})" for g in b["groups"])
                 only = "the only tie" if b.get("ties_between") == 1 else "a tie"
-                click.echo(f"   {net.name(b['a'])} - {net.name(b['b'])}: {only} between {pair}")
+                echo(f"   {net.name(b['a'])} - {net.name(b['b'])}: {only} between {pair}")
             findings = audit(store, net, analysis)
             heading("10. The audit, most useful findings first (mynet audit)")
             for i, f in enumerate(findings[:3], 1):
-                click.echo(f"   {i}. {f['title']}")
-                click.echo(f"      -> {f['suggestion']}")
+                echo(f"   {i}. {f['title']}")
+                echo(f"      -> {f['suggestion']}")
             target = _demo_target(truth, net, analysis)
             if target:
                 org, result = target
                 heading(f"11. Who can introduce you to someone at {org}? (mynet reach --org \"{org}\")")
                 for rank, p in enumerate(result.paths[:3], 1):
                     crossing = " [crosses groups]" if p.get("crosses_groups") else ""
-                    click.echo(f"   {rank}. {' -> '.join(['you', *p['names']])}  score {p['score']:.2f}{crossing}")
-                    click.echo(f"      {p['ask']}")
+                    echo(f"   {rank}. {' -> '.join(['you', *p['names']])}  score {p['score']:.2f}{crossing}")
+                    echo(f"      {p['ask']}")
             from ..report import write_report
 
             report = write_report(store, folder / "network.html")
             heading("12. A report to keep (mynet report -o network.html; --redact for one to share)")
-            click.echo(f"   Written to {report}")
-        click.echo(f"\nTry it yourself: mynet --workspace {ws} browse   (or: groups, reach --org NAME, audit)")
+            echo(f"   Written to {report}")
+        echo(f"\nTry it yourself: mynet --workspace {ws} browse   (or: groups, reach --org NAME, audit)")
 
 
 def _demo_target(truth: dict, net, analysis):

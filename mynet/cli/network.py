@@ -5,11 +5,11 @@ from __future__ import annotations
 import click
 
 from ..errors import MynetError
-from ..network import describe, evidence_summary, explain_tie, load_network
+from ..network import basis, describe, evidence_summary, explain_tie, tie_words
 from ..workspace import find_contact
-from ..workspace_ties import (DOMAIN_LISTS, LIST_SETTINGS, SETTING_GROUPS, add_tie, rate_contact, remove_tie,
-                             update_list_setting, update_settings)
-from ._common import emit_json, json_option, note, table
+from .. import settings as settings_schema
+from ..workspace_ties import add_tie, rate_contact, remove_tie, update_setting
+from ._common import as_of_option, echo, emit_json, json_option, load_net, note, table
 
 
 def register(cli: click.Group) -> None:
@@ -17,12 +17,17 @@ def register(cli: click.Group) -> None:
     @click.option("--all", "show_all", is_flag=True, help="Every pair with any evidence, however weak (no threshold, no backbone filter).")
     @click.option("--of", "of", metavar="WHO", help="Only the ties of this person.")
     @click.option("--limit", type=int, default=30, show_default=True, help="Show at most this many (0: all).")
+    @as_of_option
     @json_option
     @click.pass_obj
-    def ties_cmd(obj, show_all, of, limit, as_json):
-        """List inferred ties between your contacts, strongest first."""
+    def ties_cmd(obj, show_all, of, limit, as_of, as_json):
+        """List inferred ties between your contacts, strongest first.
+
+        A tie that rests only on something the two share (an organisation, a mail domain, a label) and on nothing
+        that happened (a meeting, a thread, a card naming the other, your own word) reads "may know (...)".
+        """
         store = obj.store()
-        net = load_network(store)
+        net = load_net(store, as_of)
         t = net.all_ties if show_all else net.ties
         order = t.order()
         if of:
@@ -32,18 +37,19 @@ def register(cli: click.Group) -> None:
         if limit and not as_json:
             order = order[:limit]
         if as_json:
-            emit_json([
-                {"a": int(t.a[i]), "b": int(t.b[i]), "strength": round(float(t.strength[i]), 4),
-                 "evidence": evidence_summary(net, int(i), t)}
-                for i in order
-            ])
+            out = []
+            for i in order:
+                ev = evidence_summary(net, int(i), t)
+                out.append({"a": int(t.a[i]), "b": int(t.b[i]), "strength": round(float(t.strength[i]), 4),
+                            "basis": basis(ev), "evidence": ev})
+            emit_json(out)
             return
         if not total:
-            click.echo("No ties yet: import exports that share organisations, tags, meetings or mail threads.")
+            echo("No ties yet: import exports that share organisations, tags, meetings or mail threads.")
             return
-        click.echo(table(["strength", "between", "and", "why"], [
+        echo(table(["strength", "between", "and", "why"], [
             (f"{t.strength[i]:.2f}", f"{net.name(int(t.a[i]))} ({t.a[i]})", f"{net.name(int(t.b[i]))} ({t.b[i]})",
-             "; ".join(describe(e) for e in evidence_summary(net, int(i), t)))
+             tie_words(evidence_summary(net, int(i), t)))
             for i in order
         ]))
         note(f"{len(order)} of {total} ties shown" + ("" if show_all else f" (strength >= {net.model.min_strength}; --all for every pair)"))
@@ -51,37 +57,42 @@ def register(cli: click.Group) -> None:
     @cli.command("why")
     @click.argument("a")
     @click.argument("b")
+    @as_of_option
     @json_option
     @click.pass_obj
-    def why_cmd(obj, a, b, as_json):
+    def why_cmd(obj, a, b, as_of, as_json):
         """Explain why mynet thinks two people know each other, evidence by evidence."""
         store = obj.store()
         ca, cb = find_contact(store, a), find_contact(store, b)
         if ca.id == cb.id:
             raise MynetError(f"{a!r} and {b!r} are the same person ({ca.name})")
-        net = load_network(store)
+        net = load_net(store, as_of)
         ex = explain_tie(store, net, ca.id, cb.id)
         if as_json:
             emit_json(ex)
             return
-        click.echo(f"{ca.name} ({ca.id}) and {cb.name} ({cb.id}): strength {ex['strength']:.2f}"
-                   + ("" if ex["in_graph"] or not ex["strength"] else " (below the threshold, not in the graph)"))
-        if not ex["evidence"]:
-            click.echo("  No evidence that they know each other.")
-            click.echo(f"  If they do: mynet tie {ca.id} {cb.id} --note \"how they know each other\"")
+        echo(f"{ca.name} ({ca.id}) and {cb.name} ({cb.id}): strength {ex['strength']:.2f}"
+             + ("" if ex["in_graph"] or not ex["strength"] else " (below the threshold, not in the graph)"))
+        if ex["basis"] == "assumed":
+            echo("  They may know each other: they share something, but nothing shows they have met or written.")
+        if not any(e.get("counted", True) for e in ex["evidence"]):
+            for ev in ex["evidence"]:
+                echo(f"  - {describe(ev)}")
+            echo("  No evidence that they know each other.")
+            echo(f"  If they do: mynet tie {ca.id} {cb.id} --note \"how they know each other\"")
             return
         for ev in ex["evidence"]:
             line = describe(ev)
             if ev.get("provenance") and isinstance(ev["provenance"], list):
                 line += " per " + ", ".join(ev["provenance"][:6]) + ("..." if len(ev["provenance"]) > 6 else "")
-            click.echo(f"  - {line}")
+            echo(f"  - {line}")
             for r in ev.get("recent", []):
-                click.echo(f"      {r['date']}  {r.get('title') or r.get('subject') or ''}  ({r['provenance']})")
+                echo(f"      {r['date']}  {r.get('title') or r.get('subject') or ''}  ({r['provenance']})")
         if ex["contributions"]:
             parts = ", ".join(f"{k} {v:.2f}" for k, v in ex["contributions"].items())
-            click.echo(f"  How the strength adds up: {parts}; combined as 1 - product of (1 - each) = {ex['strength']:.2f}")
+            echo(f"  How the strength adds up: {parts}; combined as 1 - product of (1 - each) = {ex['strength']:.2f}")
         if ex["suppressed"]:
-            click.echo(f"  You suppressed this tie; to say they do know each other: mynet tie {ca.id} {cb.id}")
+            echo(f"  You suppressed this tie; to say they do know each other: mynet tie {ca.id} {cb.id}")
 
     @cli.command("tie")
     @click.argument("a")
@@ -94,7 +105,7 @@ def register(cli: click.Group) -> None:
         store = obj.store()
         ca, cb = find_contact(store, a), find_contact(store, b)
         add_tie(store, ca.id, cb.id, note, strength)
-        click.echo(f"Tie added: {ca.name} - {cb.name}")
+        echo(f"Tie added: {ca.name} - {cb.name}")
 
     @cli.command("untie")
     @click.argument("a")
@@ -105,7 +116,7 @@ def register(cli: click.Group) -> None:
         store = obj.store()
         ca, cb = find_contact(store, a), find_contact(store, b)
         remove_tie(store, ca.id, cb.id)
-        click.echo(f"Tie suppressed: {ca.name} - {cb.name}")
+        echo(f"Tie suppressed: {ca.name} - {cb.name}")
 
     @cli.command("rate")
     @click.argument("who")
@@ -118,7 +129,7 @@ def register(cli: click.Group) -> None:
         c = find_contact(store, who)
         if clear:
             rate_contact(store, c.id, None)
-            click.echo(f"Rating cleared for {c.name}")
+            echo(f"Rating cleared for {c.name}")
             return
         if closeness is None:
             raise MynetError("give a warmth between 0 (not close) and 1 (closest), or --clear")
@@ -127,46 +138,52 @@ def register(cli: click.Group) -> None:
         except ValueError as exc:
             raise MynetError(f"warmth must be a number between 0 and 1, got {closeness!r}") from exc
         rate_contact(store, c.id, value)
-        click.echo(f"{c.name}: warmth {value:.2f} (your rating)")
+        echo(f"{c.name}: warmth {value:.2f} (your rating)")
 
     @cli.command("settings")
     @click.argument("assignment", required=False, metavar="[NAME=VALUE]")
     @json_option
     @click.pass_obj
     def settings_cmd(obj, assignment, as_json):
-        """Show or change settings: tie_model.broadcast_cap=40, webmail_domains=+mail.example,
-        mail_relay_domains=+lists.example, org_aliases=+QL=Quillon Labs."""
+        """Show or change settings: tie_model.broadcast_cap=40, webmail_domains=+mail.example, org_aliases=+QL=Quillon Labs.
+
+        Each setting is checked before it is stored; the listing says what each one means
+        and which values it takes.
+        """
         store = obj.store()
         if assignment:
             if "=" not in assignment:
                 raise MynetError("write the change as NAME=VALUE, e.g. warmth_model.half_life_days=90")
-            lhs, value = assignment.split("=", 1)
-            lhs = lhs.strip()
-            if lhs in LIST_SETTINGS:
-                update_list_setting(store, lhs, value.strip())
-            elif "." in lhs:
-                group, key = lhs.split(".", 1)
-                update_settings(store, group, key.strip(), value.strip())
-            else:
-                raise MynetError(f"unknown setting {lhs!r}; see mynet settings")
+            name, text = assignment.split("=", 1)
+            value = update_setting(store, name.strip(), text)
             if not as_json:
-                shown = store.setting(lhs) if lhs in LIST_SETTINGS else (store.setting(lhs.split(".")[0], {}) or {}).get(lhs.split(".", 1)[1])
-                click.echo(f"{lhs} = {shown}")
+                echo(f"{name.strip()} = {_shown(value)}")
                 return
-        data = {}
-        for group, cls in SETTING_GROUPS.items():
-            data[group] = cls().__dict__ | (store.setting(group, {}) or {})
-        for name in LIST_SETTINGS:
-            empty = [] if name in DOMAIN_LISTS else {}
-            data[name] = store.setting(name, empty) or empty
+        stored = store.settings()
+        specs = settings_schema.schema()
+        data: dict = {}
+        for name, spec in specs.items():
+            value = settings_schema.stored_value(stored, name)
+            if "." in name:
+                group, key = name.split(".", 1)
+                data.setdefault(group, {})[key] = value
+            else:
+                data[name] = value
         if as_json:
             emit_json(data)
             return
-        for group, values in data.items():
-            if isinstance(values, dict) and group in SETTING_GROUPS:
-                for k, v in values.items():
-                    click.echo(f"{group}.{k} = {v}")
-            elif isinstance(values, dict):
-                click.echo(f"{group} = " + (", ".join(f"{k}={v}" for k, v in values.items()) or "(none)"))
-            else:
-                click.echo(f"{group} = " + (", ".join(values) or "(none)"))
+        for name, spec in specs.items():
+            value = settings_schema.stored_value(stored, name)
+            changed = "" if value == spec.default else f"   (default {_shown(spec.default)})"
+            echo(f"{name} = {_shown(value)}{changed}")
+            echo(f"    {spec.meaning}; {spec.accepts()}")
+
+
+def _shown(value) -> str:
+    if isinstance(value, dict):
+        return ", ".join(f"{k}={v}" for k, v in value.items()) or "(none)"
+    if isinstance(value, list):
+        return ", ".join(value) or "(none)"
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    return str(value)

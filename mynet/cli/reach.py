@@ -4,20 +4,23 @@ from __future__ import annotations
 
 import click
 
-from ..network import load_network
-from ..reach import reach, resolve_targets
+from ..reach import distinct_names, reach, resolve_targets
 from ..workspace import find_contact
-from ._common import emit_json, json_option, note
+from ._common import as_of_option, echo, emit_json, json_option, load_net, note
 
 
 def print_path(rank: int, p: dict) -> None:
     chain = " -> ".join(["you", *p["names"]])
-    click.echo(f"{rank}. {chain}   score {p['score']:.3f}")
+    echo(f"{rank}. {chain}   score {p['score']:.3f}")
     for step in p["steps"]:
         frm = "you" if step["from"] == "you" else p["names"][p["path"].index(step["from"])]
         mark = "  <- weakest" if step is p["steps"][p["weakest_step"]["index"]] else ""
-        click.echo(f"     {frm} -> {step['to_name']} ({step['strength']:.2f}): {step['why'] or 'linked'}{mark}")
-    click.echo(f"     ask: {p['ask']}")
+        echo(f"     {frm} -> {step['to_name']} ({step['strength']:.2f}): {step['why'] or 'linked'}{mark}")
+    if p.get("assumed_steps"):
+        n = p["assumed_steps"]
+        echo(f"     note: {'one step' if n == 1 else f'{n} steps'} of this path {'rests' if n == 1 else 'rest'} only "
+             "on something the two share; nothing shows they have met or written")
+    echo(f"     ask: {p['ask']}")
 
 
 def register(cli: click.Group) -> None:
@@ -30,12 +33,17 @@ def register(cli: click.Group) -> None:
     @click.option("--max-intermediaries", type=int, default=2, show_default=True, help="People between you and the target, at most.")
     @click.option("--avoid", multiple=True, metavar="WHO", help="Never go through this person (repeatable).")
     @click.option("--min-strength", type=float, default=0.0, show_default=True, help="Use only steps at least this strong.")
+    @as_of_option
     @json_option
     @click.pass_obj
-    def reach_cmd(obj, to, org, tag, domain, k, max_intermediaries, avoid, min_strength, as_json):
-        """Find who can introduce you, step by step, with a suggested ask."""
+    def reach_cmd(obj, to, org, tag, domain, k, max_intermediaries, avoid, min_strength, as_of, as_json):
+        """Find who can introduce you, step by step, with a suggested ask.
+
+        At an equal score, a path whose steps rest on meetings, mail or your own word comes before one resting on
+        a shared organisation, domain or label; such steps are marked, and the ask says so.
+        """
         store = obj.store()
-        net = load_network(store)
+        net = load_net(store, as_of)
         targets = resolve_targets(net, to=to, org=org, tag=tag, domain=domain, find_contact=lambda q: find_contact(store, q))
         avoid_ids = {find_contact(store, a).id for a in avoid}
         from ..cli.groups_support import group_of  # noqa: F401  (groups mark paths that cross groups)
@@ -47,30 +55,38 @@ def register(cli: click.Group) -> None:
             return
         what = {"person": "", "organisation": "at ", "tag": "tagged ", "domain": "@"}[targets.kind]
         matched = ", ".join(targets.matched)
-        click.echo(f"Reaching {what}{matched}: {len(targets.members)} {'person' if len(targets.members) == 1 else 'people'}")
+        echo(f"Reaching {what}{matched}: {len(targets.members)} {'person' if len(targets.members) == 1 else 'people'}")
         if targets.kind == "organisation" and targets.query.strip().lower() != matched.lower():
             note(f"'{targets.query}' matched: {matched}")
-        known = [d for d in result.direct if not d.get("insider") and not d["weak"] and not d["dormant"]]
-        for d in known:
-            click.echo(f"You already know {d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'}): "
-                       "you can ask them yourself; the paths below are other ways in.")
+        d = result.known
+        if d:
+            echo(f"You already know {d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'}): "
+                 "ask them yourself, that is your best way in.")
+            if result.paths:
+                echo("Alternatives, each through someone else and so less sure than asking them yourself:")
         insiders = [d for d in result.direct if d.get("insider")]
         if insiders:
-            click.echo("You already know: " + "; ".join(f"{d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'})" for d in insiders))
+            echo("You already know: " + "; ".join(f"{d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'})" for d in insiders))
         if not result.paths:
-            click.echo("No intro path found" + (f" within {max_intermediaries} intermediaries" if max_intermediaries else "")
-                       + ". Try --max-intermediaries 3, fewer --avoid, or add ties you know of (mynet tie A B).")
+            echo("No intro path found" + (f" within {max_intermediaries} intermediaries" if max_intermediaries else "")
+                 + ". " + (result.why_none or "Try --max-intermediaries 3, fewer --avoid, or add ties you know of "
+                                               "(mynet tie A B)."))
         for rank, p in enumerate(result.paths, 1):
-            click.echo("")
+            echo("")
             print_path(rank, p)
         cold = [d for d in result.direct if not d.get("insider") and (d["weak"] or d["dormant"])]
         for d in cold:
             state = "dormant" if d["dormant"] else "weak"
-            click.echo(f"\nDirect route for comparison: you -> {d['name']} (warmth {d['warmth']:.2f}, {state}, last {d['last'] or '-'})")
+            echo(f"\nDirect route for comparison: you -> {d['name']} (warmth {d['warmth']:.2f}, {state}, last {d['last'] or '-'})")
         if len(result.per_target) > 1:
-            click.echo("\nBest way to each person there:")
-            for e in result.per_target:
+            echo("\nBest way to each person there:")
+            labels = distinct_names(net, [e["target"] for e in result.per_target])
+            for e, label in zip(result.per_target, labels):
                 b = e["best"]
-                click.echo(f"  {e['name']}{' (past)' if e['past'] else ''}: {' -> '.join(['you', *b['names']])}  score {b['score']:.3f}")
+                echo(f"  {label}{' (past)' if e['past'] else ''}: {' -> '.join(['you', *b['names']])}  score {b['score']:.3f}")
         if result.unreachable:
-            click.echo(f"No path to: {', '.join(net.name(m) for m in result.unreachable)}")
+            labels = distinct_names(net, result.unreachable)
+            echo(f"No path to: {', '.join(labels)}")
+            if any(label != net.name(m) for label, m in zip(labels, result.unreachable)):
+                note("Names shown with an id are separate contacts with the same name; if one person has two entries, "
+                     "merge them (mynet contacts --suggested)")

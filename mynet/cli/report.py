@@ -9,7 +9,7 @@ import click
 
 from ..export import FORMATS, export_network
 from ..report import MAX_CONTACTS_DRAWN, STEPS, write_report
-from ._common import note
+from ._common import as_of_option, echo, note, when
 
 
 @contextmanager
@@ -43,15 +43,20 @@ def register(cli: click.Group) -> None:
     @click.option("--seed", type=int, default=0, show_default=True, help="Seed of the picture's layout.")
     @click.option("--max-contacts", type=int, default=MAX_CONTACTS_DRAWN, show_default=True,
                   help="Above this many contacts the picture shows the map of groups.")
+    @as_of_option
     @click.pass_obj
-    def report_cmd(obj, output, markdown, redact, seed, max_contacts):
+    def report_cmd(obj, output, markdown, redact, seed, max_contacts, as_of):
         """Write a self-contained report on your network (opens offline, prints in grey)."""
         out = Path(output or ("network.md" if markdown else "network.html"))
         store = obj.store()
+        chosen = when(store, as_of)
         with _progress("report", STEPS) as step:
             path = write_report(store, out, markdown=markdown, redact=redact, seed=seed, max_contacts=max_contacts,
-                                progress=step)
-        click.echo(str(path))
+                                progress=step, as_of=chosen)
+        echo(str(path))
+        from ..privacy import remember_written
+
+        remember_written(store, [str(path.resolve())] + ([str(path.with_name(path.stem + "_files").resolve())] if markdown else []))
         if markdown:
             note(f"Pictures in {path.with_name(path.stem + '_files')}/")
         note("Redacted: names and addresses are pseudonyms." if redact
@@ -63,12 +68,17 @@ def register(cli: click.Group) -> None:
     @click.option("-o", "--output", type=click.Path(dir_okay=False), required=True,
                   help="File to write; for csv, FILE.csv gives FILE-contacts.csv and FILE-ties.csv.")
     @click.option("--redact", is_flag=True, help="Replace names, organisations, addresses, tags and places by pseudonyms.")
+    @as_of_option
     @click.pass_obj
-    def export_cmd(obj, fmt, output, redact):
+    def export_cmd(obj, fmt, output, redact, as_of):
         """Write the network with every computed attribute as GraphML, CSV or JSON (node-link)."""
         store = obj.store()
+        chosen = when(store, as_of)
         with _progress("export", ("export",)) as step:
             step("export")
-            paths = export_network(store, output, fmt, redact=redact)
+            paths = export_network(store, output, fmt, redact=redact, as_of=chosen)
         for p in paths:
-            click.echo(str(p))
+            echo(str(p))
+        from ..privacy import remember_written
+
+        remember_written(store, [str(Path(p).resolve()) for p in paths])

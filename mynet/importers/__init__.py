@@ -14,6 +14,7 @@ from typing import Iterable, Iterator
 
 from ..errors import InputError, UnknownFormatError
 from ..model import ParseResult
+from ..safetext import clean_result
 
 __all__ = ["detect_kind", "parse_file", "iter_input_files", "source_digest", "MAX_FILE_BYTES", "KNOWN_SUFFIXES",
            "READERS"]
@@ -213,6 +214,9 @@ def parse_file(
         instead of skipping it.
     mapping : dict, optional
         CSV only: field name -> column header overrides (``--map``).
+
+    Every text the importer returns is cleaned of control characters here
+    (:func:`mynet.safetext.clean_result`), with a warning per changed record.
     """
     path = Path(path)
     if path.is_dir():
@@ -224,6 +228,12 @@ def parse_file(
     if not data.strip():
         raise InputError(str(path), "is empty")
     kind = detect_kind(path, data[:8192])
+    result = _parse_kind(kind, path, data, strict=strict, mapping=mapping)
+    clean_result(result)
+    return result
+
+
+def _parse_kind(kind: str, path: Path, data: bytes, *, strict: bool, mapping: dict[str, str] | None) -> ParseResult:
     if kind == "vcard":
         from .vcard import parse_vcard
 

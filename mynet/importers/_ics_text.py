@@ -48,18 +48,21 @@ def decode_bytes(data: bytes, path: str) -> bytes:
     return data
 
 
+_LINE_END = re.compile(rb"\r*\n|\r")
+
+
 def logical_lines(data: bytes) -> tuple[list[tuple[int, str]], int]:
-    """Unfold physical lines (CRLF, LF, CR CR LF) into (first line number, text).
+    """Unfold physical lines (CRLF, LF, CR CR LF, CR; mixed in one file too) into (first line number, text).
+
+    RFC 5545 (section 3.1) ends lines with CR LF and allows no other control
+    character in a content line but tab, so a lone CR ends a line as well.
 
     Folding is undone on bytes, before decoding, so a fold inside a multi-byte
     UTF-8 character is mended. Each logical line is read as UTF-8 when valid and
     as Windows-1252 otherwise; the count of the latter is returned.
     """
-    if b"\n" not in data and b"\r" in data:
-        data = data.replace(b"\r", b"\n")
     joined: list[tuple[int, bytearray]] = []
-    for number, raw in enumerate(data.split(b"\n"), start=1):
-        raw = raw.rstrip(b"\r")
+    for number, raw in enumerate(_LINE_END.split(data) if b"\r" in data else data.split(b"\n"), start=1):
         if not raw:
             continue
         if raw[:1] in (b" ", b"\t") and joined:

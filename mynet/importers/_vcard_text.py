@@ -6,7 +6,8 @@ vobject 0.9.9 loses text on many real exports:
 
 * the file is read as bytes; a UTF-8 byte-order mark is dropped, UTF-16 is
   decoded, ``\\r+\\n`` (CR CR LF from some phones) and classic CR-only line ends
-  are understood;
+  are understood, also mixed within one file (once a lone CR ends a BEGIN, END or
+  VERSION line, every lone CR ends a line, as in a CR-only file);
 * physical lines are joined into logical lines on bytes: folding (a line that
   starts with a space or tab), quoted-printable soft breaks (a line that ends
   with ``=``, whose continuation need not start with whitespace, even when it
@@ -51,6 +52,8 @@ NOT_TYPES = frozenset({"QUOTED-PRINTABLE", "BASE64", "B", "8BIT", "7BIT", "INLIN
 MAX_NESTING = 32
 
 _BEGIN_END = re.compile(rb"^(BEGIN|END)[ \t]*:[ \t]*([A-Za-z0-9_-]+)[ \t]*$", re.IGNORECASE)
+# A lone CR before a BEGIN, END or VERSION line: the file ends some of its lines with CR alone.
+_CR_LINE_ENDS = re.compile(rb"\r[ \t]*(?:BEGIN|END|VERSION)[ \t]*:", re.IGNORECASE)
 _NAME_START = re.compile(rb"^(?:[A-Za-z0-9_-]+\.)?([A-Za-z0-9_-]+)")
 _PROPERTY_START = re.compile(rb"^(?:[A-Za-z0-9_-]+\.)?[A-Za-z0-9_-]+(?:;[^:\n]*)?:")
 _B64_LINE = re.compile(rb"^[A-Za-z0-9+/=]+$")
@@ -284,6 +287,9 @@ def physical_lines(data: bytes, warnings: list[str]) -> list[bytes]:
     # An export with CR CR LF ends every line of a card that way, its BEGIN line
     # included, so the BEGIN line of each card sets how many CRs end a line: a
     # value may itself end with a CR, which must then be kept.
+    # Mixed line ends: where some lines end with CR alone (a CR-only card among CR LF ones, or single
+    # lines), every lone CR ends a line, as in a file written with CR only.
+    mixed = b"\r" in data and bool(_CR_LINE_ENDS.search(data))
     crcr = False
     out = []
     for ln in lines:
@@ -291,6 +297,9 @@ def physical_lines(data: bytes, warnings: list[str]) -> list[bytes]:
             if _BEGIN_END.match(ln.strip()):
                 crcr = ln.endswith(b"\r\r")
             ln = ln.rstrip(b"\r") if crcr else ln[:-1]
+        if mixed and b"\r" in ln:
+            out.extend(ln.split(b"\r"))
+            continue
         out.append(ln)
     return out
 

@@ -28,11 +28,21 @@ company", "former employer") are deliberately left unmapped and reported.
 Multi-valued cells are split: tags on ``;``, ``,``, ``|`` and `` ::: ``;
 e-mails on ``;``, ``,`` and `` ::: ``; phones on ``;`` and `` ::: ``; URLs on
 `` ::: ``. Other cells are kept whole.
+
+Broken files
+------------
+Bytes are decoded and rows read by :mod:`mynet.importers._csv_text` (bad bytes
+become U+FFFD with a warning naming their lines; a cell too large for the
+reader skips its row only). A quoted field may hold line breaks (RFC 4180
+section 2, rule 6); but a row whose quote is never closed, or closes on a
+later line after swallowing what reads as whole rows (the row then does not
+fit the header, or a line break sits in a one-line column such as a name),
+is read again line by line, with a warning naming the lines, so no row it
+swallowed is lost.
 """
 
 from __future__ import annotations
 
-import codecs
 import csv as _csv
 import json
 import re
@@ -50,6 +60,7 @@ from ._csv_headers import BLOCK as _BLOCK
 from ._csv_headers import QUALIFIERS as _QUALIFIERS
 from ._csv_headers import SUFFIX_OK as _SUFFIX_OK
 from ._csv_headers import SYNONYM_TEXT as _SYNONYM_TEXT
+from ._csv_text import NEWLINE, Lines, RawRow, decode_table, read_rows
 
 __all__ = ["parse_csv", "load_mapping_file", "classify_header", "MAPPABLE_FIELDS"]
 
@@ -67,82 +78,6 @@ _NOT_MAPPABLE = ("kind", "source", "index", "line", "addresses", "card_kind", "m
 _IDENTIFYING = {"full_name", "given", "family", "additional", "nicknames", "emails", "phones"}
 
 _CHUNK_ROWS = 2000
-
-
-_NEWLINE = re.compile(r"\r\n|\r|\n")
-
-
-class _Lines:
-    """Lazily iterate the lines of ``text`` from ``start``, ends kept; ``pos`` is the next line's offset."""
-
-    def __init__(self, text: str, start: int = 0):
-        self.text = text
-        self.pos = start
-
-    def __iter__(self) -> "_Lines":
-        return self
-
-    def __next__(self) -> str:
-        text, pos = self.text, self.pos
-        if pos >= len(text):
-            raise StopIteration
-        match = _NEWLINE.search(text, pos)
-        self.pos = match.end() if match else len(text)
-        return text[pos:self.pos]
-
-
-def _looks_utf16(head: bytes) -> str | None:
-    """Name a BOM-less UTF-16 byte order when every other byte is mostly NUL."""
-    if len(head) < 4:
-        return None
-    even, odd = head[0::2], head[1::2]
-    if head[0] and not head[1] and odd.count(0) >= 0.3 * len(odd) and even.count(0) <= 0.05 * len(even):
-        return "utf-16-le"
-    if head[1] and not head[0] and even.count(0) >= 0.3 * len(even) and odd.count(0) <= 0.05 * len(odd):
-        return "utf-16-be"
-    return None
-
-
-def decode_table(data: bytes, path: str) -> tuple[str, str, str]:
-    """Decode a table file's bytes.
-
-    A byte-order mark decides first (UTF-8, UTF-16, UTF-32); then a BOM-less
-    UTF-16 pattern; then valid UTF-8; then cp1252 when every byte decodes, else
-    latin-1 (which always does).
-
-    Returns
-    -------
-    tuple of (str, str, str)
-        The text (without BOM), the encoding used, and a note for the user when
-        the encoding was a guess ("" otherwise).
-    """
-    boms = (
-        (codecs.BOM_UTF32_LE, "utf-32-le"), (codecs.BOM_UTF32_BE, "utf-32-be"), (codecs.BOM_UTF8, "utf-8"),
-        (codecs.BOM_UTF16_LE, "utf-16-le"), (codecs.BOM_UTF16_BE, "utf-16-be"),
-    )
-    encoding, body, note = "", data, ""
-    for bom, name in boms:
-        if data.startswith(bom):
-            encoding, body = name, data[len(bom):]
-            break
-    if not encoding:
-        encoding = _looks_utf16(data[:4096]) or ""
-        if encoding:
-            note = f"no byte-order mark; read as {encoding.upper()}"
-    if encoding:
-        try:
-            return body.decode(encoding), encoding, note
-        except UnicodeDecodeError as exc:
-            raise InputError(path, f"is not valid {encoding.upper()} text (bad bytes at offset {exc.start})") from exc
-    try:
-        return data.decode("utf-8"), "utf-8", ""
-    except UnicodeDecodeError:
-        pass
-    try:
-        text, encoding = data.decode("cp1252"), "cp1252"
-    except UnicodeDecodeError:
-        text, encoding = data.decode("latin-1"), "latin-1"  # decodes every byte
-    return text, encoding, f"not UTF-8; read as {encoding} (if names look wrong, export the file again as UTF-8)"
 
 
 def detect_delimiter(text: str) -> tuple[str, int, int]:
@@ -167,7 +102,7 @@ def detect_delimiter(text: str) -> tuple[str, int, int]:
     for order, delimiter in enumerate(",;\t|"):
         widths: list[int] = []
         try:
-            for cells in _csv.reader(_Lines(sample), delimiter=delimiter, skipinitialspace=True):
+            for cells in _csv.reader(Lines(sample), delimiter=delimiter, skipinitialspace=True):
                 if any(c.strip() for c in cells):
                     widths.append(len(cells))
                 if len(widths) >= 40:
@@ -417,41 +352,6 @@ def _has_identity(rec: Record) -> bool:
     return any(getattr(rec, slot) for slot in _IDENTIFYING)
 
 
-_Row = tuple[int, list[str], int]  # (physical start line, cells, unclosed)
-
-
-def _read_rows(text: str, start: int, delimiter: str, first_line: int, path: str) -> Iterator[_Row]:
-    """Yield (physical start line, cells, unclosed) per row; blank lines give [].
-
-    ``unclosed`` is 0, or the last line of the file when the row opens a quote
-    that is never closed (it then swallowed the rest of the file).
-    """
-    lines = _Lines(text, start)
-    reader = _csv.reader(lines, delimiter=delimiter, quotechar='"', doublequote=True, skipinitialspace=True)
-    offset = first_line - 1
-    while True:
-        before, row_start = reader.line_num, lines.pos
-        try:
-            cells = next(reader)
-        except StopIteration:
-            return
-        except _csv.Error as exc:
-            raise InputError(path, f"cannot be read as CSV ({exc})", offset + reader.line_num) from exc
-        unclosed = 0
-        if lines.pos >= len(text) and text.find('"', row_start) >= 0 and _quote_left_open(text[row_start:], delimiter):
-            unclosed = offset + reader.line_num
-        yield offset + before + 1, cells, unclosed
-
-
-def _quote_left_open(row_text: str, delimiter: str) -> bool:
-    """True when the last row of a file opens a quoted cell it never closes."""
-    try:
-        list(_csv.reader(_Lines(row_text), delimiter=delimiter, skipinitialspace=True, strict=True))
-    except _csv.Error as exc:
-        return "unexpected end of data" in str(exc)
-    return False
-
-
 def parse_csv(data: bytes, path: str, *, strict: bool = False, mapping: dict[str, str] | None = None) -> ParseResult:
     """Parse a CSV contact export into records.
 
@@ -483,17 +383,19 @@ def parse_csv(data: bytes, path: str, *, strict: bool = False, mapping: dict[str
         unknown field or column, or no column gives a name, e-mail or phone.
     """
     result = ParseResult(path=path, kind="csv")
-    text, _encoding, note = decode_table(data, path)
-    if note:
-        result.warnings.append(note)
+    text, _encoding, notes = decode_table(data, path)
+    result.warnings.extend(notes)
     delimiter, start, first_line = detect_delimiter(text)
-    rows = _read_rows(text, start, delimiter, first_line, path)
+    rows = read_rows(text, start, delimiter, first_line, path)
     header_line, header = 0, []
-    for header_line, cells, unclosed in rows:
-        if unclosed:
+    for row in rows:
+        header_line = row.line
+        if row.problem:
+            raise InputError(path, f"the header row cannot be read: {row.problem}", row.line)
+        if row.unclosed:
             raise InputError(path, "a quote opened in the header row is never closed", header_line)
-        if any(c.strip() for c in cells):
-            header = [c.strip() for c in cells]
+        if any(c.strip() for c in row.cells):
+            header = [c.strip() for c in row.cells]
             break
     if not header:
         raise InputError(path, "has no header row (the first non-empty row must name the columns)")
@@ -512,20 +414,29 @@ def parse_csv(data: bytes, path: str, *, strict: bool = False, mapping: dict[str
     if unused:
         names = ", ".join(repr(h) for h in unused)
         result.warnings.append(f"columns not used: {names} (use --map FIELD=COLUMN to import one)")
-    rows_out = _Rows(header, plan, path, strict, result)
+    rows_out = _Rows(header, plan, path, strict, result, delimiter)
     while chunk := list(islice(rows, _CHUNK_ROWS)):
         rows_out.add_chunk(chunk)
     return result
 
 
-class _Rows:
-    """Turns chunks of (line, cells, unclosed) rows into records and skips, in file order."""
+#: Slots whose cells may hold line breaks (RFC 4180 allows them in any quoted field; these are where
+#: exports put them). A line break in any other column hints at a quote that swallowed rows.
+_MULTILINE_SLOTS = frozenset({"notes", "street"})
 
-    def __init__(self, header: list[str], plan: list[_Column], path: str, strict: bool, result: ParseResult):
+
+class _Rows:
+    """Turns chunks of rows (:class:`~mynet.importers._csv_text.RawRow`) into records and skips, in file order."""
+
+    def __init__(self, header: list[str], plan: list[_Column], path: str, strict: bool, result: ParseResult,
+                 delimiter: str = ","):
         self.width = len(header)
         self.named_width = max(i for i, h in enumerate(header) if h) + 1
         self.plan, self.path, self.strict, self.result = plan, path, strict, result
+        self.delimiter = delimiter
         self.splitters = {c.slot: _splitter(c.slot) for c in plan}
+        self.single_line = {c.pos for c in plan if c.slot not in _MULTILINE_SLOTS}
+        self.identifying = [c.pos for c in plan if c.slot in _IDENTIFYING]
         self.index = 0
 
     def skip(self, line: int, reason: str) -> None:
@@ -534,22 +445,96 @@ class _Rows:
         self.result.skipped.append(Skipped(self.path, line, reason, self.index))
         self.index += 1
 
-    def add_chunk(self, chunk: list[_Row]) -> None:
-        # Ragged and unclosed rows are decided here; rows of the header's width go to one
+    def fit(self, cells: list[str]) -> list[str] | None:
+        """The cells padded or trimmed to the header's width, or None when the row does not fit it."""
+        width = self.width
+        if len(cells) > width and not any(c.strip() for c in cells[width:]):
+            cells = cells[:width]
+        elif self.named_width <= len(cells) < width:
+            cells = cells + [""] * (width - len(cells))
+        return cells if len(cells) == width else None
+
+    # -- a quote that swallows rows -------------------------------------------------
+    def _swallowing(self, row: RawRow) -> bool:
+        """Whether a row spanning several lines looks like rows merged by a stray quote.
+
+        RFC 4180 (section 2, rule 6) lets a quoted field hold line breaks, so a
+        multi-line row alone is fine. It is suspect when its quote is never
+        closed, when it does not fit the header, or when a line break sits in
+        a column that holds one line (a name, an address, a number).
+        """
+        if row.unclosed:
+            return True
+        fitted = self.fit(row.cells)
+        if fitted is None:
+            return True
+        return any(("\n" in c or "\r" in c) for pos, c in enumerate(fitted) if pos in self.single_line)
+
+    def _alone(self, text: str) -> list[str] | None:
+        """One physical line read as a row of its own; the quote that does not pair up is read as a stray mark."""
+        if text.count('"') % 2:
+            return self.fit([c.strip().strip('"') for c in text.split(self.delimiter)])
+        cells = next(_csv.reader([text], delimiter=self.delimiter, skipinitialspace=True), [])
+        return self.fit(cells) if cells else []
+
+    def split_swallowed(self, row: RawRow) -> list[tuple[int, list[str] | None]] | None:
+        """The physical lines of a swallowing row as rows of their own, or None when they do not look like rows.
+
+        Every non-blank line must read alone as a row of the header's width,
+        and a line after the first must give a name, e-mail or phone;
+        otherwise the row is left as the reader gave it (a quoted field whose
+        lines happen to hold delimiters is not torn apart).
+        """
+        physical = NEWLINE.split(row.raw)
+        if physical and physical[-1] == "":
+            physical.pop()
+        parts = [(row.line + k, self._alone(text)) for k, text in enumerate(physical)]
+        if any(cells is None for _ln, cells in parts):
+            return None
+        if not any(cells and any(cells[p].strip() for p in self.identifying) for _ln, cells in parts[1:] or parts):
+            return None
+        return parts
+
+    def _expand(self, chunk: list[RawRow]) -> list[tuple[int, list[str] | None, str]]:
+        """(line, cells or None, reason) per row, swallowing rows split back into their lines."""
+        out: list[tuple[int, list[str] | None, str]] = []
+        for row in chunk:
+            if row.problem:
+                out.append((row.line, None, row.problem))
+                continue
+            if row.raw and self._swallowing(row):
+                parts = self.split_swallowed(row)
+                how = "is never closed" if row.unclosed else f"closes only on line {row.end}"
+                if parts is not None:
+                    if len(parts) == 1:
+                        reason = f"line {row.line}: a quote opened in this row is never closed; it was read as text"
+                    else:
+                        reason = (f"lines {row.line}-{row.end}: a quote opened on line {row.line} {how}, which would "
+                                  f"have merged {len(parts)} lines into one row; each line was read as a row of its own")
+                    if self.strict:
+                        raise RecordError(self.path, reason.split(": ", 1)[1], row.line)
+                    self.result.warnings.append(reason)
+                    out.extend((line, cells, "") for line, cells in parts)
+                    continue
+                if row.unclosed:
+                    out.append((row.line, None, f"a quote opened in this row is never closed, so lines {row.line}-{row.end} "
+                                                "were read as one row"))
+                    continue
+            out.append((row.line, row.cells, ""))
+        return out
+
+    def add_chunk(self, chunk: list[RawRow]) -> None:
+        # Ragged, unreadable and unclosed rows are decided here; rows of the header's width go to one
         # frame for the column-wise work (strip, blank rows), then become records.
         width, verdicts, framed = self.width, [], []
-        for line, cells, unclosed in chunk:
-            if unclosed:
-                reason = f"a quote opened in this row is never closed, so lines {line}-{unclosed} were read as one row"
-                verdicts.append((line, reason))
+        for line, cells, problem in self._expand(chunk):
+            if cells is None:
+                verdicts.append((line, problem))
                 continue
-            if len(cells) > width and not any(c.strip() for c in cells[width:]):
-                cells = cells[:width]
-            elif self.named_width <= len(cells) < width:
-                cells = cells + [""] * (width - len(cells))
-            if len(cells) == width:
+            fitted = self.fit(cells)
+            if fitted is not None:
                 verdicts.append((line, None))
-                framed.append(cells)
+                framed.append(fitted)
             elif any(c.strip() for c in cells):
                 verdicts.append((line, f"row has {len(cells)} cells but the header has {self.named_width}"))
         if not verdicts:

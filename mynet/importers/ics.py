@@ -74,7 +74,11 @@ class _Moment:
 
 
 def _to_utc(local: dt.datetime, tz: dt.tzinfo | None) -> dt.datetime:
-    return local.replace(tzinfo=tz or UTC).astimezone(UTC)
+    try:
+        return local.replace(tzinfo=tz or UTC).astimezone(UTC)
+    except (ValueError, OverflowError, TypeError, IndexError) as exc:
+        # A VTIMEZONE whose own rules are broken fails only when asked for an offset.
+        raise _EventError(f"its time zone cannot be used ({exc})") from exc
 
 
 def _stamp(local: dt.datetime, tz: dt.tzinfo | None, all_day: bool) -> str:
@@ -111,38 +115,37 @@ class _Event:
 
 
 class _GuardedZone(dt.tzinfo):
-    """A VTIMEZONE read by dateutil, read as UTC from the first time its rules cannot be computed.
+    """A VTIMEZONE read by dateutil that is never asked again once its rules could not be computed.
 
     dateutil raises from inside ``utcoffset`` on some broken RRULEs of a
-    VTIMEZONE, and then keeps an internal lock taken: asking that zone again
-    would wait for ever. So the zone is never asked again; a warning says so.
+    VTIMEZONE and then keeps an internal lock taken: asking that zone again
+    would wait for ever. After the first failure every question raises at
+    once, so each event in that zone is skipped with its reason (see
+    :func:`_to_utc`) and the import goes on.
     """
 
-    def __init__(self, inner: dt.tzinfo, tzid: str, warnings_out: list[str]):
-        self.inner, self.tzid, self.warnings, self.broken = inner, tzid, warnings_out, False
+    def __init__(self, inner: dt.tzinfo, tzid: str):
+        self.inner, self.tzid, self.failure = inner, tzid, ""
 
-    def _ask(self, method: str, when: dt.datetime | None, default):
-        if not self.broken:
+    def _ask(self, method: str, when: dt.datetime | None):
+        if not self.failure:
             try:
                 return getattr(self.inner, method)(when.replace(tzinfo=self.inner) if when is not None else None)
             except (ValueError, TypeError, IndexError, OverflowError, KeyError, AttributeError) as exc:
-                self.broken = True
-                self.warnings.append(f"VTIMEZONE {self.tzid!r}: its rules cannot be computed ({exc}); its times "
-                                     "were read as UTC from there on")
-        return default
+                self.failure = str(exc) or type(exc).__name__
+        raise ValueError(f"the rules of time zone {self.tzid!r} cannot be computed: {self.failure}")
 
     def utcoffset(self, when):
-        return self._ask("utcoffset", when, dt.timedelta(0))
+        return self._ask("utcoffset", when)
 
     def dst(self, when):
-        return self._ask("dst", when, dt.timedelta(0))
+        return self._ask("dst", when)
 
     def tzname(self, when):
-        return self._ask("tzname", when, "UTC")
+        return self._ask("tzname", when)
 
     def fromutc(self, when):
-        local = self._ask("fromutc", when, None)
-        return when.replace(tzinfo=self) if local is None else local.replace(tzinfo=self)
+        return self._ask("fromutc", when).replace(tzinfo=self)
 
 
 class _Zones:
@@ -172,7 +175,7 @@ class _Zones:
         except Exception as exc:  # noqa: BLE001 - dateutil's parser raises many kinds on bad input
             self.warnings.append(f"line {block.line}: VTIMEZONE {tzid!r} cannot be read ({exc}); its TZID is looked up by name instead")
             return
-        self.defined[tzid] = _GuardedZone(info, tzid, self.warnings)
+        self.defined[tzid] = _GuardedZone(info, tzid)
 
     def get(self, tzid: str) -> dt.tzinfo | None:
         """The zone for a TZID; None means UTC (an unknown TZID is warned about once)."""
@@ -443,6 +446,36 @@ def _is_past(stamp: str, today: dt.date) -> bool:
     return dt.date.fromisoformat(stamp[:10]) <= today
 
 
+def _occurrences(ev: _Event, overrides: dict[str, list[_Event]], cutoff: dt.datetime, today: dt.date,
+                 max_occurrences: int) -> tuple[list[tuple[str, str, _Event]], int, bool]:
+    """``(when, original start, event)`` of an event's past occurrences, how many moved ones were cancelled,
+    and whether the expansion was cut at MAX_GENERATED.
+
+    Raises :class:`_EventError` when the recurrence or the time zone cannot be used.
+    """
+    tz, all_day = ev.start.tz, ev.start.all_day
+    starts, truncated = _local_starts(ev, cutoff) if ev.recurrence_id is None else ([ev.start.value], False)
+    moved = {} if ev.recurrence_id is not None else {
+        o.recurrence_id.local_in(tz): o for o in overrides.get(ev.uid, [])
+    }
+    occurrences: list[tuple[str, str, _Event]] = []
+    for local in reversed(starts):  # latest first; one more than the cap tells that it bites
+        if len(occurrences) > max_occurrences:
+            break
+        when = _stamp(local, tz, all_day)
+        if local not in moved and _is_past(when, today):
+            original = ev.recurrence_id.stamp() if ev.recurrence_id is not None else when
+            occurrences.append((when, original, ev))
+    cancelled = 0
+    for original, o in moved.items():
+        when = o.start.stamp()
+        if o.status == "CANCELLED":
+            cancelled += 1
+        elif _is_past(when, today):
+            occurrences.append((when, _stamp(original, tz, all_day), o))
+    return occurrences, cancelled, truncated
+
+
 def parse_ics(
     data: bytes,
     path: str,
@@ -558,31 +591,14 @@ def parse_ics(
         if ev.status == "CANCELLED":
             cancelled += 1
             continue
-        tz, all_day = ev.start.tz, ev.start.all_day
         try:
-            starts, truncated = _local_starts(ev, cutoff) if ev.recurrence_id is None else ([ev.start.value], False)
+            occurrences, moved_cancelled, truncated = _occurrences(ev, overrides, cutoff, today, max_occurrences)
+            upcoming = not occurrences and not _is_past(ev.start.stamp(), today)
         except _EventError as exc:
             skip(ev.block, str(exc))
             continue
-        moved = {} if ev.recurrence_id is not None else {
-            o.recurrence_id.local_in(tz): o for o in overrides.get(ev.uid, [])
-        }
-        occurrences: list[tuple[str, str, _Event]] = []  # (when, original start, event)
-        for local in reversed(starts):  # latest first; one more than the cap tells that it bites
-            if len(occurrences) > max_occurrences:
-                break
-            when = _stamp(local, tz, all_day)
-            if local not in moved and _is_past(when, today):
-                original = ev.recurrence_id.stamp() if ev.recurrence_id is not None else when
-                occurrences.append((when, original, ev))
-        for original, o in moved.items():
-            when = o.start.stamp()
-            if o.status == "CANCELLED":
-                cancelled += 1
-            elif _is_past(when, today):
-                occurrences.append((when, _stamp(original, tz, all_day), o))
-        if not occurrences and not _is_past(ev.start.stamp(), today):
-            future += 1
+        cancelled += moved_cancelled
+        future += upcoming
         occurrences.sort(key=lambda item: item[0])
         if len(occurrences) > max_occurrences:
             occurrences = occurrences[-max_occurrences:]

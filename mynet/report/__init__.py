@@ -56,6 +56,7 @@ def write_report(
     seed: int = 0,
     max_contacts: int = MAX_CONTACTS_DRAWN,
     progress: Callable[[str], None] | None = None,
+    as_of: date | str | None = None,
 ) -> Path:
     """Write the report on the workspace to ``path`` and return the path.
 
@@ -77,6 +78,8 @@ def write_report(
         Above this many contacts the picture is the map of groups (the report says so).
     progress : callable, optional
         Called with each step's name (``STEPS``) as it starts.
+    as_of : date or str, optional
+        See the network from this day (see :func:`mynet.network.resolve_as_of`).
 
     Raises
     ------
@@ -89,7 +92,7 @@ def write_report(
     out = Path(path)
     if out.parent and not out.parent.is_dir():
         raise MynetError(f"cannot write {out}: the folder {out.parent} does not exist")
-    d = collect(store, redact=redact, today=today, max_contacts=max_contacts, progress=step)
+    d = collect(store, redact=redact, today=today, max_contacts=max_contacts, progress=step, as_of=as_of)
     step("picture")
     from . import charts
 

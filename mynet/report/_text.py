@@ -2,8 +2,9 @@
 
 from __future__ import annotations
 
-import re
 from typing import Any
+
+from ..safetext import shown
 
 __all__ = ["SECTIONS", "READING_NOTES", "xml_safe", "num", "pct", "path_chain", "group_roles", "plural", "headline"]
 
@@ -46,12 +47,9 @@ READING_NOTES = (
                     "evidence says."),
 )
 
-_CONTROL = re.compile(r"[\x00-\x08\x0b\x0c\x0e-\x1f\x7f\ufffe\uffff]")
-
-
 def xml_safe(text: Any) -> str:
-    """``text`` as a string without the characters XML 1.0 forbids (control characters)."""
-    return _CONTROL.sub("", str(text))
+    """``text`` as a string safe in XML 1.0 and on a terminal (see :func:`mynet.safetext.shown`)."""
+    return shown(text)
 
 
 def num(x: Any, digits: int = 2) -> str:

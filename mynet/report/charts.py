@@ -46,7 +46,9 @@ MAX_EDGES_DRAWN = 4000
 #: Groups named one by one in the legend (the rest are counted).
 LEGEND_GROUPS = 14
 _RC = {"svg.fonttype": "path", "font.family": "DejaVu Sans", "hatch.linewidth": 0.6, "axes.spines.top": False,
-       "axes.spines.right": False, "figure.facecolor": "white", "axes.facecolor": "white"}
+       "axes.spines.right": False, "figure.facecolor": "white", "axes.facecolor": "white",
+       # Names are text, never formulas: a "$" in a name must not start matplotlib's math mode.
+       "text.parse_math": False}
 
 
 def group_style(index: int) -> tuple[str, str, str]:
@@ -54,9 +56,13 @@ def group_style(index: int) -> tuple[str, str, str]:
     return PALETTE[index % len(PALETTE)], MARKERS[index % len(MARKERS)], HATCHES[(index // len(PALETTE) + index) % len(HATCHES)]
 
 
+#: The chart font has no Control Pictures (U+2400-U+2426): in a picture a control character shows as U+FFFD.
+_NO_GLYPH = {c: 0xFFFD for c in range(0x2400, 0x2427)}
+
+
 def clip(text: str, width: int) -> str:
-    """One line of at most ``width`` characters, without characters XML forbids."""
-    text = " ".join(xml_safe(text).split())
+    """One line of at most ``width`` characters, control characters shown as U+FFFD (see :func:`xml_safe`)."""
+    text = " ".join(xml_safe(text).translate(_NO_GLYPH).split())
     return text if len(text) <= width else text[: width - 1] + "…"
 
 

@@ -18,7 +18,7 @@ from typing import Any, Callable
 
 from ..analysis.audit import WARM, audit
 from ..analysis.snapshot import Analysis, analyse, tie_graph
-from ..network import Network, describe, evidence_summary, load_network
+from ..network import AsOf, Network, basis, evidence_summary, load_network, tie_words
 from ..normalise import normalise_email
 from ..reach import Targets, path_index, reach
 from ..store import Store
@@ -98,8 +98,9 @@ def _bridges(net: Network, a: Analysis, limit: int) -> list[dict[str, Any]]:
     out = []
     for b in a.bridges[:limit]:
         i = rows.get((min(b["a"], b["b"]), max(b["a"], b["b"])))
-        why = "; ".join(describe(e) for e in evidence_summary(net, i)) if i is not None else ""
-        out.append(dict(b, a_name=net.name(b["a"]), b_name=net.name(b["b"]), why=why))
+        ev = evidence_summary(net, i) if i is not None else []
+        out.append(dict(b, a_name=net.name(b["a"]), b_name=net.name(b["b"]), why=tie_words(ev) if ev else "",
+                        basis=basis(ev) if ev else b.get("basis", "assumed")))
     return out
 
 
@@ -167,6 +168,7 @@ def collect(
     max_contacts: int = MAX_CONTACTS_DRAWN,
     limit: int = 10,
     progress: Callable[[str], None] | None = None,
+    as_of: AsOf | date | str | None = None,
 ) -> ReportData:
     """Gather the report's content from the workspace.
 
@@ -183,11 +185,13 @@ def collect(
         Rows in the brokers and bridges tables.
     progress : callable, optional
         Called with the name of each step (see ``STEPS``) as it starts.
+    as_of : AsOf, date or str, optional
+        See the network from this day (see :func:`mynet.network.resolve_as_of`).
     """
     step = progress or _noop
     today = today or date.today()
     step("load network")
-    net = load_network(store, today=today)
+    net = load_network(store, today=today, as_of=as_of)
     step("analyse")
     analysis = analyse(store, net)
     ps = None
@@ -197,7 +201,7 @@ def collect(
     else:
         net_r, analysis_r = net, analysis
     step("audit")
-    findings = audit(store, net_r, analysis_r, today=today)
+    findings = audit(store, net_r, analysis_r, today=net.as_of.day)
     step("intro paths")
     intros = _intros(net_r, analysis_r, limit=5, k=3)
     step("timeline")
@@ -209,6 +213,10 @@ def collect(
     unclustered = sum(1 for v in analysis_r.group_of.values() if v is None)
     picture = "contacts" if len(net.contacts) <= max_contacts else "groups"
     remarks = []
+    if net.as_of.note or net.as_of.explicit:
+        remarks.append(f"Seen from {net.as_of.day.isoformat()}: warmth is measured on that day"
+                       + (" (your newest meeting or message; more than a year old)." if net.as_of.note
+                          else "; meetings and mail after it are left out."))
     if picture == "groups":
         remarks.append(f"With {len(net.contacts):,} contacts (more than {max_contacts:,}) the picture shows the map of "
                        "groups: one circle per group, sized by its members, and lines sized by the ties between them.")

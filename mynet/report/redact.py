@@ -172,12 +172,23 @@ def redact_network(net: Network, webmail: Iterable[str] = ()) -> tuple[Network, 
     contacts = [ps.contact(c) for c in sorted(net.contacts, key=lambda c: c.id)]
     ps._remember(*net.me_emails, *net.notes.values())
     ps.identifiers.update(net.me_emails)
+    labels: dict[str, dict] = {}
+    for key, v in sorted((getattr(net, "labels", {}) or {}).items()):
+        shown = ps.tag(v.get("label") or key)
+        red_key = fold_text(shown)
+        if red_key in labels:  # several labels under one pseudonym ("other"): it counts if any of them does
+            labels[red_key]["counts"] = labels[red_key]["counts"] or v.get("counts", True)
+            continue
+        labels[red_key] = dict(v, label=shown, key=red_key)
     red = replace(
         net,
         contacts=contacts,
         by_id={c.id: c for c in contacts},
         me_emails=set(),
         notes={pair: "" for pair in net.notes},
+        labels=labels,
+        all_ties=replace(net.all_ties, labels=list(labels.values())),
+        ties=replace(net.ties, labels=list(labels.values())),
     )
     return red, ps
 

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import sqlite3
 import time
+from urllib.parse import quote
 from datetime import date
 from pathlib import Path
 from typing import Any, Callable
@@ -21,13 +22,14 @@ from textual.binding import Binding
 from textual.containers import Horizontal
 from textual.reactive import reactive
 from textual.screen import Screen
-from textual.widgets import ContentSwitcher, Footer, Input, Static
+from textual.widgets import ContentSwitcher, Footer, Input
 
 from ..errors import MynetError
 from ..locations import resolve_workspace_path
+from ..safetext import shown
 from ..store import Store
 from .data import Extras, Snapshot, load_extras, load_snapshot, peek_snapshot, with_store
-from .look import THEME, plural
+from .look import THEME, Static, plural
 
 __all__ = ["MynetApp", "create_app", "VIEWS"]
 
@@ -36,6 +38,8 @@ VIEWS = (("groups", "Groups"), ("map", "Map"), ("people", "People"), ("reach", "
          ("duplicates", "Duplicates"), ("findings", "Findings"))
 
 SPINNER = "◐◓◑◒"
+#: What the status line says when another process (an import, a merge on the command line) changed the workspace.
+CHANGED_ELSEWHERE = "Another mynet command changed the workspace (an import?); what you see is now up to date."
 #: Seconds before a running job shows its spinner ("more than a moment").
 MOMENT = 0.25
 
@@ -195,10 +199,12 @@ class MynetApp(App):
     snapshot_version: reactive[int] = reactive(0)
     status_text: reactive[str] = reactive("")
 
-    def __init__(self, path: Path, *, today: date | None = None, watch_interval: float = 1.5) -> None:
+    def __init__(self, path: Path, *, today: date | None = None, watch_interval: float = 1.5,
+                 as_of: date | str | None = None) -> None:
         super().__init__()
         self.path = path
         self.today = today
+        self.as_of = as_of
         self.snapshot: Snapshot | None = None
         self.busy_label = ""
         self.busy_since = 0.0
@@ -272,10 +278,10 @@ class MynetApp(App):
         def work() -> None:
             try:
                 if peek:
-                    early = peek_snapshot(self.path, self.today)
+                    early = peek_snapshot(self.path, self.today, self.as_of)
                     if early is not None:
                         self._from_thread(self._apply_preview, seq, early)
-                snap = load_snapshot(self.path, self.today, status=say)
+                snap = load_snapshot(self.path, self.today, status=say, as_of=self.as_of)
                 self._from_thread(self._apply, seq, snap, job)
                 extras = load_extras(self.path, snap, status=say)
                 self._from_thread(self._apply_extras, seq, extras)
@@ -308,6 +314,8 @@ class MynetApp(App):
             done(result)
         if reload:
             self.reload("Updating the network after your change…")
+        else:  # the change is shown already: it is not one made elsewhere
+            self._rebaseline()
 
     def _apply_preview(self, seq: int, snap: Snapshot) -> None:
         if self.snapshot is None and seq >= self._applied_seq:
@@ -323,8 +331,8 @@ class MynetApp(App):
         old_extras = self.snapshot.extras if self.snapshot and not self.snapshot.preview else None
         snap.extras = old_extras
         self.snapshot = snap
-        self._rebaseline()
         self.redraw()
+        self._rebaseline(snap)
         if not self.status_text or self.status_text.startswith("The workspace is busy"):
             self.status_text = self.greeting(snap)
 
@@ -339,13 +347,18 @@ class MynetApp(App):
         text = str(exc) if isinstance(exc, MynetError) else f"Something went wrong: {type(exc).__name__}: {exc}"
         self.error = text
         self.status_text = text
-        self.notify(text, severity="error", timeout=8)
+        self.notify(shown(text), severity="error", timeout=8, markup=False)
         if self.snapshot is None:
             self.main.query_one("#groups").loading = False
 
     def greeting(self, snap: Snapshot) -> str:
         if not snap.contacts:
             return "This workspace has no contacts yet. Import your exports first: mynet import FILE"
+        when = snap.net.as_of
+        if when.note:
+            return f"Seen from {when.day.isoformat()}, your newest meeting or mail (mynet browse --as-of to change)"
+        if when.explicit:
+            return f"Seen from {when.day.isoformat()}: later meetings and mail are left out"
         named = sum(1 for g in snap.analysis.groups if g.user_named)
         if snap.analysis.groups and not named:
             return "Enter opens · n names the group · ~ marks a suggested label · ? all keys"
@@ -366,14 +379,27 @@ class MynetApp(App):
         last = conn.execute("SELECT COALESCE(MAX(id), 0) FROM decisions").fetchone()
         return int(version[0]) if version else 0, int(last[0])
 
-    def _rebaseline(self) -> None:
+    def _rebaseline(self, snap: Snapshot | None = None) -> None:
+        """Remember the workspace's state; with ``snap``, reload at once if it changed while ``snap`` was read.
+
+        An import by another process while the network was loading (the first
+        seconds after opening, say) would otherwise be taken as already shown.
+        """
         try:
             if self._watch_conn is None:
-                self._watch_conn = sqlite3.connect(f"file:{self.path}?mode=ro", uri=True, timeout=0.1)
+                self._watch_conn = sqlite3.connect(f"file:{quote(str(self.path.absolute()))}?mode=ro", uri=True,
+                                                   timeout=0.1)
             self._watch_value = self._watch_conn.execute("PRAGMA data_version").fetchone()[0]
             self._mark = self._decisions_mark(self._watch_conn)
         except sqlite3.Error:
             self._watch_value = None
+            return
+        if snap is not None and self._mark != (snap.data_version, snap.decisions_seen):
+            self._changed_elsewhere()
+
+    def _changed_elsewhere(self) -> None:
+        self.status_text = CHANGED_ELSEWHERE
+        self.reload("Loading changes made elsewhere…")
 
     def _watch_tick(self) -> None:
         """Reload when another process changed the network or the decisions (cheap when nothing did)."""
@@ -389,8 +415,7 @@ class MynetApp(App):
             return
         if mark != getattr(self, "_mark", None):
             self._mark = mark
-            self.status_text = "The workspace was changed elsewhere; shown as it is now."
-            self.reload("Loading changes made elsewhere…")
+            self._changed_elsewhere()
 
     # -- actions -------------------------------------------------------------------------
     def ready(self) -> bool:
@@ -479,7 +504,7 @@ class MynetApp(App):
 
 
 def create_app(workspace_path: str | Path | None = None, *, today: date | None = None,
-               watch_interval: float = 1.5) -> MynetApp:
+               watch_interval: float = 1.5, as_of: date | str | None = None) -> MynetApp:
     """The browser for a workspace (``None``: ``$MYNET_WORKSPACE`` or the default place).
 
     Parameters
@@ -490,7 +515,16 @@ def create_app(workspace_path: str | Path | None = None, *, today: date | None =
         The day warmth is measured on (tests freeze it; default: today).
     watch_interval : float
         Seconds between checks for changes made by another process (0: never).
+    as_of : datetime.date or str, optional
+        See the network from this day (see :func:`mynet.network.resolve_as_of`).
     """
     path = resolve_workspace_path(workspace_path)
-    Store(path, create=False).close()  # a clear error now, rather than inside the app
-    return MynetApp(path, today=today, watch_interval=watch_interval)
+    store = Store(path, create=False)  # a clear error now, rather than inside the app
+    try:
+        if as_of is not None:
+            from ..network import resolve_as_of
+
+            resolve_as_of(store, as_of)  # a bad date is refused before the screen opens
+    finally:
+        store.close()
+    return MynetApp(path, today=today, watch_interval=watch_interval, as_of=as_of)

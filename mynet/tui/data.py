@@ -24,7 +24,7 @@ from ..analysis.snapshot import Analysis, GroupInfo, analyse
 from ..errors import WorkspaceError
 from ..identity import Suggestion
 from ..model import Contact
-from ..network import Network, describe, evidence_summary, explain_tie, load_network
+from ..network import Network, evidence_summary, explain_tie, load_network, tie_words
 from ..normalise import fold_text
 from ..reach import org_catalogue, tag_catalogue
 from ..store import Store
@@ -109,6 +109,8 @@ class Snapshot:
     data_version: int
     extras: Extras | None = None
     preview: bool = False
+    #: The newest decision when the snapshot was read (group names change no data version).
+    decisions_seen: int = 0
     _hay: list[str] | None = None
     _choices: list[Choice] | None = None
     _internal: dict[int, tuple[int, float]] | None = None
@@ -174,7 +176,7 @@ class Snapshot:
         return out
 
     def why(self, row: int) -> str:
-        return "; ".join(describe(e) for e in evidence_summary(self.net, row)) or "linked"
+        return tie_words(evidence_summary(self.net, row))
 
     def internal(self, gid: int) -> tuple[int, float]:
         """(ties inside the group, density inside it); (-1, 0) in a preview."""
@@ -278,7 +280,7 @@ def choices(net: Network) -> list[Choice]:
     return out
 
 
-def peek_snapshot(path: Path, today: date | None = None) -> Snapshot | None:
+def peek_snapshot(path: Path, today: date | None = None, as_of: date | str | None = None) -> Snapshot | None:
     """The groups as last analysed, read straight from the workspace cache, for a first screen at once.
 
     ``None`` when there is no cached analysis or no warmth for ``today`` yet. The
@@ -287,19 +289,22 @@ def peek_snapshot(path: Path, today: date | None = None) -> Snapshot | None:
     """
     from types import SimpleNamespace
 
-    from ..analysis.snapshot import CACHE_KEY, _apply_user
+    from ..analysis.snapshot import _apply_user, cache_key
+    from ..network import resolve_as_of
 
     today = today or date.today()
 
     def run(store: Store) -> Snapshot | None:
-        row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (CACHE_KEY,)).fetchone()
-        warmth = store.cached(f"warmth:v1:{today.isoformat()}")
+        when = resolve_as_of(store, as_of, today=today)
+        row = store.conn.execute("SELECT data FROM cache WHERE key = ?",
+                                 (cache_key(SimpleNamespace(as_of=when)),)).fetchone()  # type: ignore[arg-type]
+        warmth = store.cached(f"warmth:v1:{when.day.isoformat()}")
         if row is None or warmth is None:
             return None
         analysis = Analysis.from_json(json.loads(row[0]))
         light = SimpleNamespace(warmth={int(k): SimpleNamespace(warmth=v.get("warmth", 0.0)) for k, v in warmth.items()})
         _apply_user(store, light, analysis)  # the user's names and the warm counts, as analyse() applies them
-        return Snapshot(path, today, None, analysis, store.data_version, preview=True)  # type: ignore[arg-type]
+        return Snapshot(path, when.day, None, analysis, store.data_version, preview=True)  # type: ignore[arg-type]
 
     try:
         return with_store(path, run, patience=0)
@@ -307,18 +312,27 @@ def peek_snapshot(path: Path, today: date | None = None) -> Snapshot | None:
         return None
 
 
-def load_snapshot(path: Path, today: date | None = None, status: Status | None = None) -> Snapshot:
-    """The network and its analysis (from the workspace cache when current)."""
+def load_snapshot(path: Path, today: date | None = None, status: Status | None = None,
+                  as_of: date | str | None = None) -> Snapshot:
+    """The network and its analysis (from the workspace cache when current).
+
+    The snapshot's ``today`` is the day the network is seen from: ``as_of``
+    when given, else today, else your newest interaction when it is over a
+    year old (see :func:`mynet.network.resolve_as_of`).
+    """
+    from ..analysis.snapshot import cache_key
+
     today = today or date.today()
 
     def run(store: Store) -> Snapshot:
         version = store.data_version
-        net = load_network(store, today=today)
-        cached = store.conn.execute("SELECT 1 FROM cache WHERE key = 'analysis:v1'").fetchone()
+        decisions = int(store.conn.execute("SELECT COALESCE(MAX(id), 0) FROM decisions").fetchone()[0])
+        net = load_network(store, today=today, as_of=as_of)
+        cached = store.conn.execute("SELECT 1 FROM cache WHERE key = ?", (cache_key(net),)).fetchone()
         if status and not cached:
             status("Finding groups and measuring the network (first time after an import)…")
         analysis = analyse(store, net)
-        return Snapshot(path, today, net, analysis, version)
+        return Snapshot(path, net.as_of.day, net, analysis, version, decisions_seen=decisions)
 
     return with_store(path, run, status)
 

@@ -4,15 +4,29 @@ Every meaning shown in colour is also shown by a glyph or a word, so a
 monochrome terminal (or ``NO_COLOR``) loses nothing. The palette pairs a blue
 ramp with an amber accent, which stay apart for the common kinds of colour
 blindness; the ramp changes in lightness, not only in hue.
+
+
+Every text the browser shows from the workspace passes through
+:func:`mynet.safetext.shown` on its way to the screen: :func:`safe` for a
+string or a rich ``Text``, :func:`clip` for a short label, and the
+:class:`Static` and :class:`Label` here, which every view uses instead of
+Textual's own. Theirs read a string as markup, so a name such as
+``[@click=app.quit]x`` would be a link and ``[/]`` an error; ours show text as
+it is, and a control character (``ESC``...) as a visible picture.
 """
 
 from __future__ import annotations
 
+from typing import Any
+
 from rich.text import Text
+from textual import widgets
 from textual.theme import Theme
 
+from ..safetext import shown
+
 __all__ = ["THEME", "RAMP", "SHADES", "density_class", "density_cell", "warmth_bar", "clip", "severity_tag",
-           "plural", "SUGGESTED"]
+           "plural", "SUGGESTED", "safe", "Static", "Label"]
 
 THEME = Theme(
     name="mynet-dusk",
@@ -43,9 +57,44 @@ def plural(n: int, word: str, many: str | None = None) -> str:
     return f"{n:,} {word if n == 1 else (many or word + 's')}"
 
 
+def safe(content: Any, *, one_line: bool = False) -> Text:
+    """A rich ``Text`` to show ``content`` (a string, never read as markup, or a ``Text``) with its controls shown.
+
+    A ``Text`` keeps its styles: :func:`~mynet.safetext.shown` replaces one
+    character by one (a CR LF pair aside), so the spans still fit.
+    """
+    if isinstance(content, Text):
+        plain = shown(content.plain, one_line=one_line)
+        if plain == content.plain:
+            return content
+        out = content.copy()
+        out.plain = plain
+        return out
+    return Text(shown("" if content is None else content, one_line=one_line))
+
+
+class _SafeText:
+    """Text from the workspace: no markup, controls shown (see :func:`safe`); mixed into Textual's widgets."""
+
+    def __init__(self, content: Any = "", **kw: Any) -> None:
+        kw.setdefault("markup", False)
+        super().__init__(safe(content), **kw)  # type: ignore[call-arg]
+
+    def update(self, content: Any = "", *, layout: bool = True) -> None:
+        super().update(safe(content), layout=layout)  # type: ignore[misc]
+
+
+class Static(_SafeText, widgets.Static):
+    """Textual's ``Static`` for text from the workspace."""
+
+
+class Label(_SafeText, widgets.Label):
+    """Textual's ``Label`` for text from the workspace."""
+
+
 def clip(text: str, width: int) -> str:
-    """Text cut to ``width`` cells with an ellipsis; a trailing "(…)" aside goes first."""
-    text = " ".join(str(text).split())
+    """Text cut to ``width`` cells with an ellipsis; a trailing "(…)" aside goes first; controls shown."""
+    text = " ".join(shown(text, one_line=True).split())
     if len(text) > width and text.endswith(")") and " (" in text:
         text = text[: text.rindex(" (")]
     return text if len(text) <= width else text[: max(0, width - 1)] + "…"

@@ -9,20 +9,20 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
-from textual.widgets import Label, Static
 from textual.worker import WorkerState
 
-from ..network import describe, evidence_summary
+from ..network import basis, describe, evidence_summary
+from ..safetext import shown
 from ..workspace import contact_records
 from ..workspace_ties import add_tie, rate_contact, remove_tie
 from .app import Page
 from .data import Snapshot, tier_of, with_store
-from .look import clip, plural, warmth_bar
+from .look import Label, Static, clip, plural, warmth_bar
 from .rowlist import Col, Row, RowList
 from .screens import AskScreen
 from .views_main import group_title
 
-__all__ = ["PersonScreen", "ConfirmScreen", "card_text", "evidence_text"]
+__all__ = ["PersonScreen", "ConfirmScreen", "card_text", "evidence_text", "standing_words"]
 
 
 def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
@@ -31,15 +31,15 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
     c = net.by_id[cid]
     w = net.warmth.get(cid)
     out = Text()
-    out.append(c.name, style="bold")
+    out.append(shown(c.name), style="bold")
     out.append(f"  #{c.id}", style="italic")
     if c.nicknames:
-        out.append(f"  also {', '.join(c.nicknames)}")
+        out.append(shown(f"  also {', '.join(c.nicknames)}"))
 
     def line(label: str, value: Any) -> None:
         if value:
             out.append(f"\n{label:<10}", style="bold")
-            out.append_text(value if isinstance(value, Text) else Text(str(value)))
+            out.append_text(value if isinstance(value, Text) else Text(shown(str(value))))
 
     warmth, tier, last = tier_of(net, cid)
     bits = warmth_bar(warmth, 5) + Text(f" {tier}")
@@ -56,6 +56,7 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
     m = snap.analysis.measures.get(cid) or {}
     line("Group", group_title(snap, snap.group_of(cid)) + Text(" · ") + Text(m.get("role") or "isolated", style="bold")
          + Text(f" · {plural(int(m.get('degree') or 0), 'tie')}"))
+    line("Standing", standing_words(m.get("eigenvector")))
     titles = f" ({', '.join(c.titles)})" if c.titles else ""
     line("Works at", ", ".join(c.orgs) + titles if c.orgs else (titles.strip(" ()") or ""))
     line("Worked at", ", ".join(c.past_orgs))
@@ -73,19 +74,34 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
     return out
 
 
+def standing_words(eigenvector: float | None) -> Text:
+    """Eigenvector centrality in plain words first, the number after (1: the best tied of their part of the network)."""
+    if not eigenvector:
+        return Text("no ties to anyone well tied")
+    if eigenvector >= 0.7:
+        words = "among the best tied to well-tied people"
+    elif eigenvector >= 0.3:
+        words = "tied to well-tied people"
+    else:
+        words = "further from the best-tied circle"
+    return Text(words) + Text(f" · eigenvector {eigenvector:.2f} of 1", style="italic")
+
+
 def evidence_text(ex: dict[str, Any]) -> Text:
     """The full explanation of one tie: each piece of evidence with the files and lines behind it."""
     out = Text()
-    out.append(f"{ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}", style="bold")
+    out.append(shown(f"{ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}"), style="bold")
+    if ex.get("basis") == "assumed":
+        out.append("\nThey may know each other: they share something, but nothing shows they have met or written.")
     if not ex["evidence"]:
         out.append("\nNo evidence on record.")
     for ev in ex["evidence"]:
-        out.append("\n• " + describe(ev))
+        out.append(shown("\n• " + describe(ev)))
         prov = ev.get("provenance")
         if isinstance(prov, list) and prov:
-            out.append(f"  per {', '.join(prov[:4])}{'…' if len(prov) > 4 else ''}", style="italic")
+            out.append(shown(f"  per {', '.join(prov[:4])}{'…' if len(prov) > 4 else ''}"), style="italic")
         for r in ev.get("recent", [])[:2]:
-            out.append(f"\n    {r['date']}  {clip(r.get('title') or r.get('subject') or '', 40)}  ({r['provenance']})",
+            out.append(shown(f"\n    {r['date']}  {clip(r.get('title') or r.get('subject') or '', 40)}  ({r['provenance']})"),
                        style="italic")
     if ex.get("contributions"):
         parts = ", ".join(f"{k} {v:.2f}" for k, v in ex["contributions"].items())
@@ -216,9 +232,12 @@ class PersonScreen(Page):
             box.update("")
             return
         row = next((r for o, _s, r in snap.ties_of(self.cid) if o == other), None)
-        quick = Text(f"{snap.net.name(self.cid)} and {snap.net.name(other)}", style="bold")
+        quick = Text(shown(f"{snap.net.name(self.cid)} and {snap.net.name(other)}", one_line=True), style="bold")
         if row is not None:
-            for ev in evidence_summary(snap.net, row):
+            items = evidence_summary(snap.net, row)
+            if basis(items) == "assumed":
+                quick.append("\nmay know:")
+            for ev in items:
                 quick.append("\n• " + describe(ev))
         done = self._explained.get(other)
         if done is not None:
@@ -285,7 +304,9 @@ class PersonScreen(Page):
         def who(text: str | None) -> None:
             if not text or not text.strip():
                 return
-            exact = [c for c in snap.contacts if c.name.casefold() == text.strip().casefold() and c.id != self.cid]
+            typed = text.strip().casefold()
+            exact = [c for c in snap.contacts if c.id != self.cid
+                     and typed in (c.name.casefold(), shown(c.name, one_line=True).casefold())]
             hits = exact or [c for c in snap.search(text) if c.id != self.cid]
             if len(hits) != 1:
                 self.app.status_text = (f"Nobody matches {text!r}." if not hits else  # type: ignore[attr-defined]

@@ -21,6 +21,8 @@ from textual.reactive import reactive
 from textual.scroll_view import ScrollView
 from textual.strip import Strip
 
+from .look import safe
+
 __all__ = ["Col", "Row", "RowList"]
 
 CURSOR_MARK = "▸"
@@ -221,7 +223,7 @@ class RowList(ScrollView, can_focus=True):
             line.append(mark if n == 0 else " ")
             if w <= 0:
                 continue
-            t = cell.copy() if isinstance(cell, Text) else Text("" if cell is None else str(cell))
+            t = safe(cell, one_line=True).copy()
             t.no_wrap = True
             if t.cell_len > w:
                 t.truncate(w, overflow="ellipsis")
@@ -246,7 +248,7 @@ class RowList(ScrollView, can_focus=True):
         index = int(self.scroll_offset.y) + y - self._top
         if not self.rows:
             if y == self._top:
-                return self._strip(Text(" " + self.empty), width, base + self.get_component_rich_style("rowlist--empty"))
+                return self._strip(Text(" ") + safe(self.empty, one_line=True), width, base + self.get_component_rich_style("rowlist--empty"))
             return Strip.blank(width, base)
         if index >= len(self.rows):
             return Strip.blank(width, base)
@@ -263,7 +265,7 @@ class RowList(ScrollView, can_focus=True):
     def _draw(self, row: Row, at_cursor: bool, width: int, widths: list[int], base: Style) -> Strip:
         if row.heading:
             first = row.values()[0]
-            text = Text(" ") + (first if isinstance(first, Text) else Text(str(first)))
+            text = Text(" ") + safe(first, one_line=True)
             return self._strip(text, width, base + self.get_component_rich_style("rowlist--heading"))
         text = self._line(row.values(), widths, CURSOR_MARK if at_cursor else " ")
         if at_cursor:

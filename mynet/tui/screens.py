@@ -10,11 +10,12 @@ from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.suggester import SuggestFromList
-from textual.widgets import Input, Label, Static
+from textual.widgets import Input
 
+from ..safetext import shown
 from .app import Page
 from .data import Snapshot, tier_of
-from .look import SUGGESTED, clip, density_cell, plural, warmth_bar
+from .look import SUGGESTED, Label, Static, clip, density_cell, plural, warmth_bar
 from .rowlist import Col, Row, RowList
 from .views_main import NameEditor, group_facts, group_title
 
@@ -269,8 +270,9 @@ class AskScreen(ModalScreen):
     def __init__(self, question: str, *, value: str = "", placeholder: str = "", suggestions: list[str] | None = None,
                  on_answer: Callable[[str], None] | None = None) -> None:
         super().__init__()
-        self.question, self.value, self.placeholder = question, value, placeholder
-        self.suggestions = suggestions
+        self.question = question
+        self.value, self.placeholder = shown(value, one_line=True), shown(placeholder, one_line=True)
+        self.suggestions = [shown(x, one_line=True) for x in suggestions] if suggestions else suggestions
         self.on_answer = on_answer
 
     def compose(self) -> ComposeResult:

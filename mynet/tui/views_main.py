@@ -8,11 +8,12 @@ from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
-from textual.widgets import Input, Label, Static
+from textual.widgets import Input
 
+from ..safetext import shown
 from .data import Snapshot, tier_of
 from .groupmap import GroupMap, legend
-from .look import SUGGESTED, clip, plural, warmth_bar
+from .look import SUGGESTED, Label, Static, clip, plural, warmth_bar
 from .rowlist import Col, Row, RowList
 
 __all__ = ["GroupsView", "MapView", "PeopleView", "NameEditor", "group_title", "share_bar", "UNGROUPED"]
@@ -31,8 +32,8 @@ def group_title(snap: Snapshot, gid: int | None) -> Text:
     if g is None:
         return Text("not in a group", style="italic")
     if g.user_named:
-        return Text(g.name)
-    return Text(SUGGESTED + g.name, style="italic")
+        return Text(shown(g.name, one_line=True))
+    return Text(shown(SUGGESTED + g.name, one_line=True), style="italic")
 
 
 def group_facts(snap: Snapshot, gid: int) -> str:
@@ -79,8 +80,8 @@ class NameEditor(Horizontal):
         if row_y is not None:
             self.styles.offset = (0, max(0, row_y - 1))
         inp = self.query_one(Input)
-        inp.value = g.name if g.user_named else ""
-        inp.placeholder = f"{g.label}  (Enter keeps it; Escape cancels)"
+        inp.value = shown(g.name, one_line=True) if g.user_named else ""
+        inp.placeholder = shown(f"{g.label}  (Enter keeps it; Escape cancels)", one_line=True)
         self.display = True
         inp.focus()
 

@@ -8,14 +8,15 @@ from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
-from textual.widgets import Input, OptionList, Static
+from textual.widgets import Input, OptionList
 from textual.widgets.option_list import Option
 from textual.worker import WorkerState
 
 from ..errors import MynetError
 from ..reach import reach, resolve_targets
+from ..safetext import shown
 from .data import Choice, Snapshot, tier_of
-from .look import clip, plural, severity_tag
+from .look import Static, clip, plural, safe, severity_tag
 from .rowlist import Col, Row, RowList
 
 __all__ = ["ReachView", "DuplicatesView", "FindingsView", "match_choices", "path_text"]
@@ -47,13 +48,13 @@ def path_text(p: dict[str, Any]) -> Text:
     names = ["you", *p["names"]]
     weakest = p["weakest_step"]["index"]
     for i, step in enumerate(p["steps"]):
-        out.append(f"{names[i]} → {step['to_name']}", style="bold")
+        out.append(shown(f"{names[i]} → {step['to_name']}", one_line=True), style="bold")
         out.append(f"  {step['strength']:.2f}")
         if i == weakest and len(p["steps"]) > 1:
             out.append("  ◂ weakest step", style="bold #e3a33b")
-        out.append(f"\n    {step['why'] or 'linked'}\n")
+        out.append(f"\n    {shown(step['why'] or 'linked', one_line=True)}\n")
     out.append("Ask: ", style="bold")
-    out.append(p["ask"])
+    out.append(shown(p["ask"]))
     return out
 
 
@@ -110,7 +111,8 @@ class ReachView(Vertical):
         options.clear_options()
         for ch in self.choices:
             extra = f"  {plural(ch.count, 'person', 'people')}" if ch.kind != "person" else ""
-            options.add_option(Option(Text.assemble((f"{KIND_WORD[ch.kind]:<7}", "bold"), ch.label, (extra, "italic"))))
+            options.add_option(Option(safe(Text.assemble((f"{KIND_WORD[ch.kind]:<7}", "bold"), ch.label, (extra, "italic")),
+                                           one_line=True)))
         options.display = bool(self.choices)
         if self.choices:
             options.highlighted = 0
@@ -142,7 +144,7 @@ class ReachView(Vertical):
         self.query_one(OptionList).display = False
         inp = self.query_one(Input)
         with inp.prevent(Input.Changed):
-            inp.value = ch.label if ch.kind != "person" else ch.label.split(" (")[0]
+            inp.value = shown(ch.label if ch.kind != "person" else ch.label.split(" (")[0], one_line=True)
         self.run_query(ch.kind, ch.value, ch.label)
 
     # -- the query -----------------------------------------------------------------------
@@ -152,9 +154,9 @@ class ReachView(Vertical):
         if snap is None:
             return
         inp = self.query_one(Input)
-        if inp.value != (label.split(" (")[0] if kind == "person" else label):
+        if inp.value != shown(label.split(" (")[0] if kind == "person" else label, one_line=True):
             with inp.prevent(Input.Changed):
-                inp.value = label.split(" (")[0] if kind == "person" else label
+                inp.value = shown(label.split(" (")[0] if kind == "person" else label, one_line=True)
         self.query_one(OptionList).display = False
         self.query_one("#reach-head", Static).update(f"Looking for the warmest ways to {label}…")
         self.query_one(RowList).set_rows([])
@@ -183,7 +185,7 @@ class ReachView(Vertical):
                         return snap, None, f"Nobody matches {value!r} as an organisation, a tag or a single person."
                 else:
                     return snap, None, str(exc)
-            return snap, reach(net, targets, k=5, groups=snap.analysis.group_of), ""
+            return snap, reach(net, targets, k=5, groups=snap.analysis.group_of, today=snap.today), ""
 
         self.run_worker(work, thread=True, exclusive=True, group="reach", exit_on_error=False)
 
@@ -209,9 +211,13 @@ class ReachView(Vertical):
         insiders = [d for d in result.direct if d.get("insider")]
         if insiders:
             head += "; you already know " + ", ".join(f"{d['name']} ({d['warmth']:.2f})" for d in insiders[:3])
+        elif result.known:
+            d = result.known
+            head += (f". You already know them (warmth {d['warmth']:.2f}, last {d['last'] or '–'}): ask them yourself"
+                     + ("; below, alternatives through someone else, less sure" if result.paths else ""))
         elif result.direct and t.kind == "person":
             d = result.direct[0]
-            head += f"; you know them directly (warmth {d['warmth']:.2f}, last {d['last'] or '–'})"
+            head += f"; your own tie is weak or quiet (warmth {d['warmth']:.2f}, last {d['last'] or '–'})"
         if not result.paths:
             head += ". No intro path within 2 intermediaries; add ties you know of from a person's page (t)."
         self.query_one("#reach-head", Static).update(head)
@@ -234,12 +240,12 @@ def _side(snap: Snapshot, cid: int) -> Text:
     if c is None:
         return Text("(gone)")
     w, tier, last = tier_of(snap.net, cid)
-    lines = [Text(f"{c.name}  #{c.id}", style="bold")]
+    lines = [Text(shown(f"{c.name}  #{c.id}", one_line=True), style="bold")]
     for label, values in (("works at", c.orgs), ("worked at", c.past_orgs), ("e-mail", c.emails), ("phone", c.phones),
                           ("tags", c.tags), ("place", c.localities),
                           ("files", sorted({s.rsplit('/', 1)[-1] for s in c.sources}))):
         if values:
-            lines.append(Text(f"{label:<9} {', '.join(values)}"))
+            lines.append(Text(shown(f"{label:<9} {', '.join(values)}", one_line=True)))
     lines.append(Text(f"{'warmth':<9} {w:.2f} {tier}, last {last or '–'}"))
     return Text("\n").join(lines)
 
@@ -374,19 +380,19 @@ class FindingsView(Vertical):
             return
         f = findings[key]
         out = Text()
-        out.append(f.get("title", ""), style="bold")
-        out.append("\n" + str(f.get("detail", "")))
+        out.append(shown(f.get("title", "")), style="bold")
+        out.append("\n" + shown(f.get("detail", "")))
         numbers = f.get("numbers") or {}
         snap = self.app.snapshot  # type: ignore[attr-defined]
-        shown = {k: v for k, v in numbers.items() if not isinstance(v, (list, tuple, dict))}
-        if shown:
-            out.append("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in shown.items()), style="italic")
+        plain = {k: v for k, v in numbers.items() if not isinstance(v, (list, tuple, dict))}
+        if plain:
+            out.append(shown("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in plain.items())), style="italic")
         people = numbers.get("people")
         if snap is not None and isinstance(people, list) and people and all(isinstance(p, int) for p in people):
-            out.append("\nPeople: " + ", ".join(snap.net.name(p) for p in people[:12]) + ("…" if len(people) > 12 else ""))
+            out.append(shown("\nPeople: " + ", ".join(snap.net.name(p) for p in people[:12]) + ("…" if len(people) > 12 else "")))
         if f.get("suggestion"):
             out.append("\nWhat to do: ", style="bold")
-            out.append(str(f["suggestion"]))
+            out.append(shown(f["suggestion"]))
         box.update(out)
 
     def on_row_list_highlighted(self, event: RowList.Highlighted) -> None:
