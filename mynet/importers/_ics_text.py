@@ -1,10 +1,12 @@
-"""The text layer of the iCalendar importer: bytes to unfolded lines, blocks, people.
+"""The text layer of the iCalendar importer: bytes to unfolded lines, blocks, people (and a guard on broken zones).
 
 Kept apart from :mod:`mynet.importers.ics` (dates, zones, recurrences) so each
 file stays small. Nothing here is public API.
 """
 
 from __future__ import annotations
+
+import datetime as dt
 
 import re
 import urllib.parse
@@ -241,3 +243,37 @@ def event_people(organizers: list[ContentLine], attendees: list[ContentLine]) ->
         if cn and email not in names:
             names[email] = cn
     return organizer, sorted(people), names
+
+
+class GuardedZone(dt.tzinfo):
+    """A VTIMEZONE read by dateutil that is never asked again once its rules could not be computed.
+
+    dateutil raises from inside ``utcoffset`` on some broken RRULEs of a
+    VTIMEZONE and then keeps an internal lock taken: asking that zone again
+    would wait for ever. After the first failure every question raises at
+    once, so each event in that zone is skipped with its reason (see
+    :func:`_to_utc`) and the import goes on.
+    """
+
+    def __init__(self, inner: dt.tzinfo, tzid: str):
+        self.inner, self.tzid, self.failure = inner, tzid, ""
+
+    def _ask(self, method: str, when: dt.datetime | None):
+        if not self.failure:
+            try:
+                return getattr(self.inner, method)(when.replace(tzinfo=self.inner) if when is not None else None)
+            except (ValueError, TypeError, IndexError, OverflowError, KeyError, AttributeError) as exc:
+                self.failure = str(exc) or type(exc).__name__
+        raise ValueError(f"the rules of time zone {self.tzid!r} cannot be computed: {self.failure}")
+
+    def utcoffset(self, when):
+        return self._ask("utcoffset", when)
+
+    def dst(self, when):
+        return self._ask("dst", when)
+
+    def tzname(self, when):
+        return self._ask("tzname", when)
+
+    def fromutc(self, when):
+        return self._ask("fromutc", when).replace(tzinfo=self)

@@ -24,8 +24,8 @@ from vobject.base import ContentLine, VObjectError, textLineToContentLine
 
 from ..errors import InputError, RecordError
 from ..model import Interaction, ParseResult, Skipped
-from ._ics_text import (BEGIN_END, Block, decode_bytes, decode_param, event_people, event_resources, logical_lines,
-                        scan_blocks, unescape_text)
+from ._ics_text import (BEGIN_END, Block, GuardedZone, decode_bytes, decode_param, event_people, event_resources,
+                        logical_lines, scan_blocks, unescape_text)
 
 __all__ = ["parse_ics"]
 
@@ -114,40 +114,6 @@ class _Event:
 # ------------------------------------------------------------- dates and zones
 
 
-class _GuardedZone(dt.tzinfo):
-    """A VTIMEZONE read by dateutil that is never asked again once its rules could not be computed.
-
-    dateutil raises from inside ``utcoffset`` on some broken RRULEs of a
-    VTIMEZONE and then keeps an internal lock taken: asking that zone again
-    would wait for ever. After the first failure every question raises at
-    once, so each event in that zone is skipped with its reason (see
-    :func:`_to_utc`) and the import goes on.
-    """
-
-    def __init__(self, inner: dt.tzinfo, tzid: str):
-        self.inner, self.tzid, self.failure = inner, tzid, ""
-
-    def _ask(self, method: str, when: dt.datetime | None):
-        if not self.failure:
-            try:
-                return getattr(self.inner, method)(when.replace(tzinfo=self.inner) if when is not None else None)
-            except (ValueError, TypeError, IndexError, OverflowError, KeyError, AttributeError) as exc:
-                self.failure = str(exc) or type(exc).__name__
-        raise ValueError(f"the rules of time zone {self.tzid!r} cannot be computed: {self.failure}")
-
-    def utcoffset(self, when):
-        return self._ask("utcoffset", when)
-
-    def dst(self, when):
-        return self._ask("dst", when)
-
-    def tzname(self, when):
-        return self._ask("tzname", when)
-
-    def fromutc(self, when):
-        return self._ask("fromutc", when).replace(tzinfo=self)
-
-
 class _Zones:
     """TZID -> tzinfo: the file's VTIMEZONEs first, then Olson names (zoneinfo)."""
 
@@ -175,7 +141,7 @@ class _Zones:
         except Exception as exc:  # noqa: BLE001 - dateutil's parser raises many kinds on bad input
             self.warnings.append(f"line {block.line}: VTIMEZONE {tzid!r} cannot be read ({exc}); its TZID is looked up by name instead")
             return
-        self.defined[tzid] = _GuardedZone(info, tzid)
+        self.defined[tzid] = GuardedZone(info, tzid)
 
     def get(self, tzid: str) -> dt.tzinfo | None:
         """The zone for a TZID; None means UTC (an unknown TZID is warned about once)."""
