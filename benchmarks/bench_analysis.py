@@ -26,7 +26,7 @@ from mynet.analysis.bridges import group_bridges, group_links  # noqa: E402
 from mynet.analysis.centrality import contact_measures  # noqa: E402
 from mynet.analysis.groups import detect_groups  # noqa: E402
 from mynet.model import Contact, Interaction  # noqa: E402
-from mynet.ties import TieModel, infer_ties  # noqa: E402
+from mynet.evidence.ties import TieModel, infer_ties  # noqa: E402
 
 
 def graph(n: int, e: int) -> nx.Graph:

@@ -83,7 +83,7 @@ def bare_pandas(path: str) -> dict:
 
 
 def mynet_import(*paths: str) -> dict:
-    from mynet.workspace import import_paths, open_workspace
+    from mynet.workspace.importing import import_paths, open_workspace
 
     ws = Path(tempfile.mkdtemp()) / "ws.sqlite"
     t = time.perf_counter()

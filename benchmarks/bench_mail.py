@@ -152,7 +152,7 @@ def stdlib_maildir(path: str) -> dict:
 
 
 def reader(path: str, label: str) -> dict:
-    from mynet.importers.mbox import parse_mail
+    from mynet.sources.mbox import parse_mail
 
     data = Path(path).read_bytes()
     t = time.perf_counter()
@@ -162,7 +162,7 @@ def reader(path: str, label: str) -> dict:
 
 
 def full_import(path: str, label: str) -> dict:
-    from mynet.workspace import import_paths, open_workspace, set_me
+    from mynet.workspace.importing import import_paths, open_workspace, set_me
 
     ws = Path(tempfile.mkdtemp()) / "ws.sqlite"
     t = time.perf_counter()

@@ -22,7 +22,7 @@ import time
 import networkx as nx
 import numpy as np
 
-from mynet.paths import build_index, find_paths
+from mynet.analysis.intro_search import build_index, find_paths
 
 YOU = -1
 

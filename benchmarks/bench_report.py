@@ -30,10 +30,10 @@ import numpy as np
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 from mynet.analysis.snapshot import analyse  # noqa: E402
-from mynet.export import export_network  # noqa: E402
-from mynet.network import load_network  # noqa: E402
+from mynet.report.export import export_network  # noqa: E402
+from mynet.evidence.network import load_network  # noqa: E402
 from mynet.report import write_report  # noqa: E402
-from mynet.workspace import import_paths, open_workspace, set_me  # noqa: E402
+from mynet.workspace.importing import import_paths, open_workspace, set_me  # noqa: E402
 
 SYLLABLES = "ka lo mi ra ten vo sel dun mar is bel cor fen gal hol jun lin nor pel quin ros tal ul ver wyn yar zed".split()
 YOU = "you@example.org"
@@ -79,7 +79,7 @@ def generate(folder: Path, n: int, seed: int = 11) -> list[Path]:
 
 def sample_workspace(folder: Path):
     from mynet.cli.demo import SOURCE_FILES, sample_dir
-    from mynet.workspace_ties import update_list_setting
+    from mynet.workspace.decisions import update_list_setting
 
     src = sample_dir()
     truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))

@@ -46,7 +46,7 @@ def make_events(n_contacts: int, n_events: int, seed: int = 7):
 
 def run_mynet(n_contacts: int, n_events: int) -> dict:
     from mynet.model import Contact, Interaction
-    from mynet.ties import TieModel, infer_ties
+    from mynet.evidence.ties import TieModel, infer_ties
 
     events = make_events(n_contacts, n_events)
     t0 = time.perf_counter()

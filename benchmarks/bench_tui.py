@@ -34,9 +34,9 @@ from pathlib import Path
 from textual import events
 
 from mynet.analysis.snapshot import analyse
-from mynet.network import load_network
+from mynet.evidence.network import load_network
 from mynet.tui import create_app
-from mynet.workspace import import_paths, open_workspace, set_me
+from mynet.workspace.importing import import_paths, open_workspace, set_me
 
 TODAY = date(2026, 12, 1)
 SYLLABLES = ["ka", "lo", "mi", "ren", "sa", "tor", "vel", "yu", "bri", "dan", "fen", "gor", "hal", "is", "jun",

@@ -9,7 +9,7 @@ from __future__ import annotations
 from .errors import AmbiguousError, InputError, MynetError, NotFoundError, RecordError, UnknownFormatError, WorkspaceError
 from .model import Contact, Evidence, Interaction, ParseResult, Record, Skipped, Tie
 from .store import Store
-from .workspace import (
+from .workspace.importing import (
     ImportReport,
     find_contact,
     import_paths,

@@ -260,7 +260,7 @@ declare("org_aliases", "aliases", "other names of an organisation (ALIAS=NAME), 
 
 def groups() -> dict[str, type]:
     """Group name -> its model dataclass (``tie_model``, ``warmth_model``, ``analysis``)."""
-    from . import ties, warmth  # noqa: F401  (their classes register themselves)
+    from .evidence import ties, warmth  # noqa: F401  (their classes register themselves)
     from .analysis import snapshot  # noqa: F401
 
     return dict(_GROUPS)

@@ -46,8 +46,8 @@ def import_sample(ws_path: Path):
     import json
 
     from mynet.cli.demo import SOURCE_FILES, sample_dir
-    from mynet.workspace import import_paths, open_workspace, set_me
-    from mynet.workspace_ties import update_list_setting
+    from mynet.workspace.importing import import_paths, open_workspace, set_me
+    from mynet.workspace.decisions import update_list_setting
 
     src = sample_dir()
     truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))

@@ -77,7 +77,7 @@ def davis_expected() -> dict[str, set[str]]:
 
 def davis_workspace(folder):
     """A workspace holding the women (a CSV of names and addresses) and the events (this file), imported."""
-    from mynet.workspace import import_paths, open_workspace
+    from mynet.workspace.importing import import_paths, open_workspace
 
     women = sorted(davis_graph().graph["top"])
     people = folder / "women.csv"

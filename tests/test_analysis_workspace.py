@@ -11,9 +11,9 @@ from mynet.analysis.audit import audit, blau_index, shannon_evenness
 from mynet.analysis.groups import normalised_mutual_information
 from mynet.analysis.snapshot import analyse, name_group
 from mynet.cli import main
-from mynet.network import load_network
-from mynet.reach import reach, resolve_targets
-from mynet.workspace import import_paths, open_workspace
+from mynet.evidence.network import load_network
+from mynet.analysis.intro_routes import reach, resolve_targets
+from mynet.workspace.importing import import_paths, open_workspace
 
 
 def run(capsys, *args):
@@ -88,7 +88,7 @@ def _fresh(store):
 @pytest.mark.parametrize("change", ["rate", "unrate", "resolution", "webmail", "alias"])
 def test_cached_analysis_is_never_stale(tmp_path, change):
     # Whatever the analysis reads, a change to it gives the answer a fresh computation gives.
-    from mynet.workspace_ties import rate_contact, update_setting
+    from mynet.workspace.decisions import rate_contact, update_setting
 
     teams = {"alder": TEAMS["alder"], "birch": TEAMS["birch"], "cedar": ["Kim Xu", "Lu Yi", "Mo Zed"]}
     f = team_csv(tmp_path / "people.csv", teams)
@@ -151,7 +151,7 @@ def test_sample_merging_precision_recall(sample_ws):
     print(f"merging on the sample scenario: precision {precision:.3f}, recall {recall:.3f} (pairs {tp}/{fp}/{fn})")
     assert precision == 1.0 and recall >= 0.9
     # The duplicates that share no e-mail, phone or UID are all offered as suggestions.
-    from mynet.workspace import merge_suggestions
+    from mynet.workspace.importing import merge_suggestions
 
     person = _person_of(store, truth)
     offered = {frozenset((person.get(s.a), person.get(s.b))) for s in merge_suggestions(store)}
@@ -257,7 +257,7 @@ def test_audit_finds_dormant_ties_as_of_today(tmp_path):
     # warmth_model.dormant_days (365 by default) on the day of the audit.
     from datetime import date
 
-    from mynet.warmth import Warmth
+    from mynet.evidence.warmth import Warmth
 
     f = team_csv(tmp_path / "people.csv", TEAMS)
     store = open_workspace(tmp_path / "ws.sqlite")

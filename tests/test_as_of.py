@@ -9,8 +9,8 @@ from datetime import date
 import pytest
 
 from mynet.cli import main
-from mynet.network import load_network, resolve_as_of
-from mynet.workspace import import_paths, open_workspace, set_me
+from mynet.evidence.network import load_network, resolve_as_of
+from mynet.workspace.importing import import_paths, open_workspace, set_me
 
 ME = "you@example.org"
 

@@ -16,8 +16,8 @@ from conftest import import_sample, person_of
 from mynet.analysis.groups import normalised_mutual_information
 from mynet.analysis.snapshot import analyse, tie_graph
 from mynet.model import Contact, Interaction
-from mynet.network import load_network
-from mynet.ties import TieModel, infer_ties
+from mynet.evidence.network import load_network
+from mynet.evidence.ties import TieModel, infer_ties
 
 ME = "you@example.org"
 
@@ -91,7 +91,7 @@ def test_remedies_measured_on_the_sample_and_the_default_breaks_every_clique(sam
 def test_the_workflow_labels_of_the_sample_never_count(sample):
     store, truth = sample
     net = load_network(store)
-    from mynet.normalise import fold_text
+    from mynet.people.normalise import fold_text
 
     judged = {k: v for k, v in net.labels.items()}
     assert truth["workflow_labels"]

@@ -22,7 +22,7 @@ def core_modules() -> list[str]:
 
 def test_core_modules_found():
     mods = core_modules()
-    assert "mynet.store" in mods and "mynet.identity" in mods and "mynet.importers.vcard" in mods
+    assert "mynet.store" in mods and "mynet.people.identity" in mods and "mynet.sources.vcard" in mods
 
 
 def test_core_never_imports_ui_or_cli():

@@ -19,7 +19,7 @@ import pytest
 from conftest import CORPUS
 
 from mynet.errors import InputError
-from mynet.importers.ics import parse_ics
+from mynet.sources.ics import parse_ics
 
 pytestmark = pytest.mark.corpus
 TODAY = dt.date(2025, 6, 30)

@@ -15,9 +15,9 @@ from pathlib import Path
 import pytest
 
 from mynet.errors import InputError
-from mynet.importers import iter_input_files, parse_file
-from mynet.mailpeople import evidence_interactions, mail_facts
-from mynet.workspace import import_paths, open_workspace, set_me
+from mynet.sources import iter_input_files, parse_file
+from mynet.people.mailpeople import evidence_interactions, mail_facts
+from mynet.workspace.importing import import_paths, open_workspace, set_me
 
 pytestmark = pytest.mark.corpus
 

@@ -16,9 +16,9 @@ import pytest
 from conftest import CORPUS
 
 from mynet.errors import InputError, RecordError
-from mynet.importers import parse_file
-from mynet.importers._vcard_text import read_cards
-from mynet.importers.vcard import parse_vcard, unescape
+from mynet.sources import parse_file
+from mynet.sources._vcard_text import read_cards
+from mynet.sources.vcard import parse_vcard, unescape
 from mynet.model import ParseResult
 
 pytestmark = pytest.mark.corpus

@@ -13,11 +13,11 @@ from networkx.algorithms import bipartite
 from davis_ics import davis_email, davis_graph, davis_workspace
 from mynet.cli import main
 from mynet.model import Contact, Interaction
-from mynet.network import Network, evidence_summary, explain_tie, load_network, tie_words
-from mynet.reach import Targets, reach
-from mynet.ties import EventIndex, TieModel, evidence_events, infer_ties
-from mynet.warmth import Warmth, WarmthModel
-from mynet.workspace import import_paths, open_workspace, set_me
+from mynet.evidence.network import Network, evidence_summary, explain_tie, load_network, tie_words
+from mynet.analysis.intro_routes import Targets, reach
+from mynet.evidence.ties import EventIndex, TieModel, evidence_events, infer_ties
+from mynet.evidence.warmth import Warmth, WarmthModel
+from mynet.workspace.importing import import_paths, open_workspace, set_me
 
 ME = "you@example.org"
 

@@ -16,9 +16,9 @@ from hypothesis import strategies as st
 
 from mynet.analysis.snapshot import analyse, tie_graph
 from mynet.errors import MynetError
-from mynet.export import CONTACT_COLUMNS, TIE_COLUMNS, csv_paths, export_network, network_graph, neutralise
-from mynet.network import load_network
-from mynet.workspace import import_paths, open_workspace
+from mynet.report.export import CONTACT_COLUMNS, TIE_COLUMNS, csv_paths, export_network, network_graph, neutralise
+from mynet.evidence.network import load_network
+from mynet.workspace.importing import import_paths, open_workspace
 
 TODAY = date(2026, 9, 1)
 RISKY = ("=", "+", "-", "@", "\t", "\r")

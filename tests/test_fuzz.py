@@ -30,9 +30,9 @@ from hypothesis import strategies as st
 
 from mynet.cli import main
 from mynet.errors import InputError
-from mynet.importers import parse_file
+from mynet.sources import parse_file
 from mynet.safetext import BIDI_CONTROLS
-from mynet.workspace import import_paths, open_workspace, refresh_contacts
+from mynet.workspace.importing import import_paths, open_workspace, refresh_contacts
 
 RAW = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f\ud800-\udfff" + BIDI_CONTROLS + "]")
 PIECES = ["\x1b[2J", "\x1b]0;pwned\x07", "\x1b", "\x00", "\x07", "\x08", "\x7f", "\x9b", "\x9d0;x\x9c", "\x85",

@@ -19,9 +19,9 @@ import networkx as nx
 import pytest
 
 from mynet.cli import main
-from mynet.importers import parse_file
+from mynet.sources import parse_file
 from mynet.safetext import BIDI_CONTROLS, clean_imported, json_escape, shown
-from mynet.workspace import import_paths, open_workspace, refresh_contacts
+from mynet.workspace.importing import import_paths, open_workspace, refresh_contacts
 
 ROOT = Path(__file__).resolve().parents[1]
 ESC_SEQ = "\x1b[2J\x1b]0;pwned\x07"
@@ -165,7 +165,7 @@ def hostile(tmp_path):
             store.bump_data_version()
         refresh_contacts(store)
         from mynet.analysis.snapshot import analyse, name_group
-        from mynet.network import load_network
+        from mynet.evidence.network import load_network
 
         a = analyse(store, load_network(store))
         name_group(store, a.groups[0].id, "\x1b[2J[b]Team[/b] \u202eexcept")

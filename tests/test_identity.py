@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from mynet.identity import Decisions, Me, StoredRecord, names_compatible, record_keys, resolve, suggest_merges
+from mynet.people.identity import Decisions, Me, StoredRecord, names_compatible, record_keys, resolve, suggest_merges
 from mynet.model import Record
 
 
@@ -112,7 +112,7 @@ def test_record_keys_stable_under_edits():
 
 
 def test_canonical_orgs_short_forms_and_aliases():
-    from mynet.identity import canonical_orgs
+    from mynet.people.identity import canonical_orgs
 
     m = canonical_orgs(["Quillon Labs", "Quillon Labs Ltd", "Quillon", "QUILLON LABS", "Corrimont Labs", "Corrimont Bank",
                         "Corrimont", "Velvane Robotics GmbH"])
@@ -133,9 +133,9 @@ def test_organisation_and_group_cards_are_not_contacts():
 
 
 def test_calendar_addresses_link_to_the_one_contact_with_that_name():
-    from mynet.correspondence import MailFacts
-    from mynet.identity import Me
-    from mynet.mailpeople import attach_by_name
+    from mynet.people.correspondence import MailFacts
+    from mynet.people.identity import Me
+    from mynet.people.mailpeople import attach_by_name
     from mynet.model import Contact, Interaction
 
     ana = Contact(id=1, name="Ana Lind", emails=["ana@home.example"], record_ids=[1])
@@ -151,9 +151,9 @@ def test_calendar_addresses_link_to_the_one_contact_with_that_name():
 
 
 def test_role_and_list_addresses_are_never_linked_by_name():
-    from mynet.correspondence import MailFacts
-    from mynet.identity import Me
-    from mynet.mailpeople import attach_by_name
+    from mynet.people.correspondence import MailFacts
+    from mynet.people.identity import Me
+    from mynet.people.mailpeople import attach_by_name
     from mynet.model import Contact, Interaction
 
     ana = Contact(id=1, name="Ana Lind", emails=["ana@home.example"], record_ids=[1])
@@ -197,7 +197,7 @@ def test_the_same_full_name_under_different_addresses_is_suggested():
     ("", [], [], "C", ("", "nothing says which country")),
 ])
 def test_phone_region_is_inferred_in_order(monkeypatch, setting, mine, phones, env, expected):
-    from mynet.mailpeople import infer_region
+    from mynet.people.mailpeople import infer_region
 
     for var in ("LC_ALL", "LC_CTYPE"):
         monkeypatch.delenv(var, raising=False)

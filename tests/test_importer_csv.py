@@ -11,8 +11,8 @@ from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 from mynet.errors import InputError, RecordError
-from mynet.importers import parse_file
-from mynet.importers.csv import MAPPABLE_FIELDS, classify_header, load_mapping_file, parse_csv
+from mynet.sources import parse_file
+from mynet.sources.csv import MAPPABLE_FIELDS, classify_header, load_mapping_file, parse_csv
 
 
 def table(rows: list[list[str]], delimiter: str = ",", lineterminator: str = "\r\n") -> str:
@@ -97,8 +97,8 @@ def test_each_delimiter(delimiter):
 def test_rfc4180_section_2_examples():
     # RFC 4180 section 2, rules 1-7 with their examples (CRLF line breaks; an optional header line;
     # fields in double quotes may hold commas, line breaks and doubled double quotes).
-    from mynet.importers._csv_text import read_rows
-    from mynet.importers.csv import detect_delimiter
+    from mynet.sources._csv_text import read_rows
+    from mynet.sources.csv import detect_delimiter
 
     def cells(text):
         delimiter, start, first = detect_delimiter(text)
@@ -123,7 +123,7 @@ def test_delimiter_is_the_one_rows_agree_with_not_the_widest_header():
     data = ("Name, full;Email;Notes, remarks, more\r\n"
             "Lind, Ana;ana@example.org;tea\r\n"
             "Ek, Bo;bo@example.org;coffee\r\n").encode()
-    from mynet.importers.csv import detect_delimiter
+    from mynet.sources.csv import detect_delimiter
 
     assert detect_delimiter(data.decode())[0] == ";"
     result = parse_csv(data, "semi.csv", mapping={"full_name": "Name, full", "emails": "Email", "notes": "Notes, remarks, more"})

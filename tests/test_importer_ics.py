@@ -18,8 +18,8 @@ from hypothesis import strategies as st
 
 from davis_ics import davis_email, davis_expected, davis_graph, davis_ics_bytes
 from mynet.errors import InputError, RecordError
-from mynet.importers import parse_file
-from mynet.importers.ics import parse_ics
+from mynet.sources import parse_file
+from mynet.sources.ics import parse_ics
 
 TODAY = dt.date(2025, 6, 30)
 

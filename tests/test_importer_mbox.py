@@ -14,8 +14,8 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from mynet.errors import InputError, RecordError
-from mynet.importers import iter_input_files, parse_file
-from mynet.importers.mbox import FIELD_CAP, MAX_KEPT, bulk_reason, decode_words, iter_mbox_messages, parse_mail
+from mynet.sources import iter_input_files, parse_file
+from mynet.sources.mbox import FIELD_CAP, MAX_KEPT, bulk_reason, decode_words, iter_mbox_messages, parse_mail
 
 
 

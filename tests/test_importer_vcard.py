@@ -17,9 +17,9 @@ from hypothesis import HealthCheck, example, given, settings
 from hypothesis import strategies as st
 
 from mynet.errors import InputError, RecordError
-from mynet.importers import parse_file
-from mynet.importers._vcard_text import read_cards
-from mynet.importers.vcard import parse_vcard, split_value, unescape
+from mynet.sources import parse_file
+from mynet.sources._vcard_text import read_cards
+from mynet.sources.vcard import parse_vcard, split_value, unescape
 
 PATH = "test.vcf"
 
@@ -401,7 +401,7 @@ def test_dispatcher_reaches_the_importer(tmp_path):
 
 def test_nothing_printed_by_vobject_logging():
     code = (
-        "import logging, mynet.importers.vcard as v\n"
+        "import logging, mynet.sources.vcard as v\n"
         "logging.getLogger('vobject.base').error('this must not show')\n"
         "v.parse_vcard(b'BEGIN:VCARD\\r\\nFN:A\\r\\nbad line\\r\\nEND:VCARD\\r\\n', 'x.vcf')\n"
     )

@@ -15,11 +15,11 @@ import pytest
 from mailfixtures import LIST, YOU, archive_mbox, list_mbox, message, post
 
 from mynet.cli import main
-from mynet.correspondence import address_facts, clean, correspondents, thread_members
-from mynet.importers.mbox import parse_mail
-from mynet.mailaddr import KIND_WORDS, archive_parts, machine_kind, reverse_relay, via_name
-from mynet.network import explain_tie, load_network
-from mynet.workspace import find_contact, import_paths, open_workspace, set_me
+from mynet.people.correspondence import address_facts, clean, correspondents, thread_members
+from mynet.sources.mbox import parse_mail
+from mynet.sources.mailaddr import KIND_WORDS, archive_parts, machine_kind, reverse_relay, via_name
+from mynet.evidence.network import explain_tie, load_network
+from mynet.workspace.importing import find_contact, import_paths, open_workspace, set_me
 
 
 def one(*headers: str):
@@ -199,7 +199,7 @@ def test_shared_alias_and_desk_names_are_not_people():
 
 
 def test_rooms_in_calendars_are_not_people():
-    from mynet.importers.ics import parse_ics
+    from mynet.sources.ics import parse_ics
 
     ics = ("BEGIN:VCALENDAR\r\nVERSION:2.0\r\nBEGIN:VEVENT\r\nUID:u1\r\nDTSTART:20100302T100000Z\r\n"
            "ORGANIZER;CN=Ana Lind:mailto:ana@quillon.example\r\n"
@@ -276,7 +276,7 @@ def test_drop_address_is_kept_across_reimport(ws, capsys):
 
 
 def test_forgotten_person_found_in_mail_stays_forgotten(ws):
-    from mynet.privacy import forget_contact
+    from mynet.workspace.privacy import forget_contact
 
     store, tmp_path = ws
     forget_contact(store, find_contact(store, "Fay Ro").id)
@@ -304,7 +304,7 @@ def test_import_without_me_says_how_to_say_who_you_are(tmp_path, capsys):
 
 def test_relay_and_archive_domains_are_no_employer_nor_group_name(tmp_path):
     from mynet.analysis.snapshot import analyse
-    from mynet.workspace_ties import update_list_setting
+    from mynet.workspace.decisions import update_list_setting
 
     rows = ["Name,Email,Tags"] + [f"{n},{n.split()[0].lower()}@lists.harbour.example,rowing"
                                   for n in ("Ana Lind", "Bo Ek", "Cy Moss", "Di Park")]
@@ -321,8 +321,8 @@ def test_relay_and_archive_domains_are_no_employer_nor_group_name(tmp_path):
 
 
 def test_decisions_about_found_people_survive_removing_another_file_and_go_with_them(ws):
-    from mynet.privacy import forget_contact, remove_source
-    from mynet.workspace_ties import rate_contact
+    from mynet.workspace.privacy import forget_contact, remove_source
+    from mynet.workspace.decisions import rate_contact
 
     store, tmp_path = ws
     ana = find_contact(store, "Ana Lind")
@@ -335,7 +335,7 @@ def test_decisions_about_found_people_survive_removing_another_file_and_go_with_
 
 
 def test_dropping_a_found_persons_only_address_does_not_spend_new_ids(ws):
-    from mynet.workspace import detach_address, refresh_contacts
+    from mynet.workspace.importing import detach_address, refresh_contacts
 
     store, _ = ws
     bo = find_contact(store, "Bo Ek")

@@ -15,10 +15,10 @@ from mailfixtures import YOU
 
 from mynet.cli import main
 from mynet.errors import InputError
-from mynet.importers import iter_input_files, parse_file
-from mynet.importers.maildir import is_maildir, message_files
+from mynet.sources import iter_input_files, parse_file
+from mynet.sources.maildir import is_maildir, message_files
 from mynet.store import SCHEMA_VERSION, Store
-from mynet.workspace import import_paths, open_workspace, set_me
+from mynet.workspace.importing import import_paths, open_workspace, set_me
 
 
 def note(sender: tuple[str, str], to: tuple[str, str], mid: str, *, reply: str = "", day: int = 2) -> bytes:

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from mynet.normalise import (
+from mynet.people.normalise import (
     email_domain,
     fold_text,
     is_webmail,

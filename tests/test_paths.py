@@ -1,4 +1,4 @@
-"""Intro paths (mynet.paths) checked against networkx and against brute force.
+"""Intro paths (mynet.analysis.intro_search) checked against networkx and against brute force.
 
 References used below:
 - networkx ``shortest_path`` (Dijkstra 1959) on step costs -ln(strength): the best path.
@@ -16,7 +16,7 @@ import random
 import networkx as nx
 import pytest
 
-from mynet.paths import IntroPath, PathIndex, best_per_target, build_index, direct_route, find_paths
+from mynet.analysis.intro_search import IntroPath, PathIndex, best_per_target, build_index, direct_route, find_paths
 
 YOU = -1  # the ego node in the reference graphs (never a contact id)
 

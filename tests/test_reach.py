@@ -1,4 +1,4 @@
-"""Reach (mynet.reach): the whole ranked list checked against brute force on random graphs.
+"""Reach (mynet.analysis.intro_routes): the whole ranked list checked against brute force on random graphs.
 
 Reference: every intro path with at most two intermediaries enumerated by networkx
 ``all_simple_paths(cutoff=3)`` on the graph with you added, then the documented rules
@@ -19,10 +19,10 @@ import pytest
 from test_paths import greedy_distinct_second  # the documented distinct-second rule, by brute force
 
 from mynet.model import Contact
-from mynet.network import Network
-from mynet.reach import WARM_ENOUGH, Targets, reach
-from mynet.ties import KINDS, TieModel, TieTable
-from mynet.warmth import Warmth, WarmthModel
+from mynet.evidence.network import Network
+from mynet.analysis.intro_routes import WARM_ENOUGH, Targets, reach
+from mynet.evidence.ties import KINDS, TieModel, TieTable
+from mynet.evidence.warmth import Warmth, WarmthModel
 
 YOU = -1
 

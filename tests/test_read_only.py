@@ -18,7 +18,7 @@ import mynet.store as store_module
 from mynet.cli import main
 from mynet.errors import WorkspaceError
 from mynet.store import Store
-from mynet.workspace import import_paths, open_workspace
+from mynet.workspace.importing import import_paths, open_workspace
 
 ROOT_USER = hasattr(os, "geteuid") and os.geteuid() == 0
 

@@ -21,14 +21,14 @@ from mynet.analysis.snapshot import analyse
 from mynet.cli._common import Ctx
 from mynet.cli.report import register
 from mynet.errors import MynetError
-from mynet.export import export_network
-from mynet.network import load_network
-from mynet.normalise import normalise_org
+from mynet.report.export import export_network
+from mynet.evidence.network import load_network
+from mynet.people.normalise import normalise_org
 from mynet.report import RedactionError, check_redacted, collect, write_report
 from mynet.report.charts import clean_svg, group_style
 from mynet.report.layout import group_layout, place_discs
 from mynet.report.redact import Pseudonyms, find_leaks, redact_network
-from mynet.workspace import import_paths, open_workspace
+from mynet.workspace.importing import import_paths, open_workspace
 
 TODAY = date(2026, 9, 1)
 XHTML = "{http://www.w3.org/1999/xhtml}"

@@ -11,9 +11,9 @@ from mynet import settings
 from mynet.analysis.snapshot import AnalysisModel
 from mynet.cli import main
 from mynet.settings import SettingError, SettingsGroup
-from mynet.ties import TieModel
-from mynet.warmth import WarmthModel
-from mynet.workspace import open_workspace
+from mynet.evidence.ties import TieModel
+from mynet.evidence.warmth import WarmthModel
+from mynet.workspace.importing import open_workspace
 
 
 def run(capsys, *args):

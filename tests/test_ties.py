@@ -10,7 +10,7 @@ import pytest
 from networkx.algorithms import bipartite
 
 from mynet.model import Contact, Interaction
-from mynet.ties import TieModel, cooccurrence, disparity_filter, incidence, infer_ties
+from mynet.evidence.ties import TieModel, cooccurrence, disparity_filter, incidence, infer_ties
 
 ME = {"you@example.org"}
 
@@ -139,7 +139,7 @@ def test_disparity_filter_keeps_dominant_ties():
     # p_heavy = 0.9/1.15, alpha = (1 - p)^(k-1) = (0.25/1.15)^5 ~ 4.8e-4 < 0.05: kept;
     # p_light = 0.05/1.15, alpha = (1 - 0.0435)^5 ~ 0.80: dropped for node 0, but each light
     # tie is the only tie of its leaf (k = 1), and such ties are kept (Serrano et al. 2009).
-    from mynet.ties import TieTable
+    from mynet.evidence.ties import TieTable
 
     a = np.zeros(6, dtype=np.int64)
     b = np.arange(1, 7, dtype=np.int64)
@@ -159,7 +159,7 @@ def test_disparity_filter_serrano_worked_by_hand():
     # = (1 - p_ij)^(k - 1), with p_ij = w_ij / s_i. Worked by hand for node 0 with k = 3 ties of
     # 0.5, 0.25, 0.25 (s = 1): alpha = 0.5^2 = 0.25 for the 0.5 tie and 0.75^2 = 0.5625 for the others.
     # Node 1 has k = 2 ties of 0.5 each: alpha = 0.5^1 = 0.5 for both. Node 11 has one tie: kept.
-    from mynet.ties import TieTable
+    from mynet.evidence.ties import TieTable
 
     a = np.array([0, 0, 0, 1, 2, 3], dtype=np.int64)
     b = np.array([1, 2, 3, 11, 12, 13], dtype=np.int64)

@@ -9,9 +9,9 @@ from networkx.algorithms import bipartite
 
 from davis_ics import davis_email, davis_graph, davis_workspace
 from mynet.cli import main
-from mynet.network import explain_tie, load_network
-from mynet.workspace import import_paths, open_workspace, set_me
-from mynet.workspace_ties import add_tie, rate_contact, remove_tie
+from mynet.evidence.network import explain_tie, load_network
+from mynet.workspace.importing import import_paths, open_workspace, set_me
+from mynet.workspace.decisions import add_tie, rate_contact, remove_tie
 
 
 def run(capsys, *args):

@@ -17,12 +17,12 @@ import pytest
 pytest.importorskip("textual")
 
 from mynet.analysis.snapshot import analyse  # noqa: E402
-from mynet.network import load_network  # noqa: E402
-from mynet.reach import reach, resolve_targets  # noqa: E402
+from mynet.evidence.network import load_network  # noqa: E402
+from mynet.analysis.intro_routes import reach, resolve_targets  # noqa: E402
 from mynet.tui import create_app  # noqa: E402
 from mynet.tui.data import load_extras, load_snapshot  # noqa: E402
 from mynet.tui.rowlist import RowList  # noqa: E402
-from mynet.workspace import merge_suggestions, open_workspace, search_contacts  # noqa: E402
+from mynet.workspace.importing import merge_suggestions, open_workspace, search_contacts  # noqa: E402
 from conftest import import_sample  # noqa: E402
 
 #: The day after the scenario's last day (sample_contacts/_activity.py ends it on 2026-11-30).
@@ -424,7 +424,7 @@ def test_an_import_while_the_network_loads_is_noticed(workspace, tmp_path, monke
     # Another process imports right after the browser has read the workspace but before it shows it:
     # the browser must not take that import as already shown (no polling here: watch_interval=0).
     import mynet.tui.app as tui_app
-    from mynet.workspace import import_paths
+    from mynet.workspace.importing import import_paths
 
     extra = tmp_path / "late.vcf"
     extra.write_text("BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Late Arrival\r\nEMAIL:late@arrival.example\r\nEND:VCARD\r\n")

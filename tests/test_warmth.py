@@ -8,7 +8,7 @@ from datetime import date
 import pytest
 
 from mynet.model import Contact, Interaction
-from mynet.warmth import WarmthModel, assign_tiers, compute_warmth, unlisted_people, Warmth
+from mynet.evidence.warmth import WarmthModel, assign_tiers, compute_warmth, unlisted_people, Warmth
 
 ME = {"you@example.org"}
 TODAY = date(2026, 11, 30)
@@ -97,7 +97,7 @@ def _msg(k, sender, to, when, *, thread, reply=""):
 
 
 def test_your_message_in_a_list_thread_counts_with_those_who_wrote_in_it():
-    # A list thread as evidence sees it: each message keeps only its author (mynet.correspondence.clean).
+    # A list thread as evidence sees it: each message keeps only its author (mynet.people.correspondence.clean).
     when = "2026-11-30T10:00:00+00:00"
     items = [_msg(0, "p1@x.example", [], when, thread="t"), _msg(1, "p2@x.example", [], when, thread="t"),
              _msg(2, "you@example.org", [], when, thread="t"), _msg(3, "p3@x.example", [], when, thread="other")]

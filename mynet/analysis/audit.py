@@ -22,8 +22,8 @@ from typing import Any, Iterable
 
 import networkx as nx
 
-from ..network import Network
-from ..normalise import is_real_org, normalise_org
+from ..evidence.network import Network
+from ..people.normalise import is_real_org, normalise_org
 from .bridges import EGO
 from .centrality import structural_holes
 from .snapshot import Analysis, tie_graph

@@ -37,7 +37,7 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.optimize import linear_sum_assignment
 
-from ..normalise import GENERIC_TAGS, fold_text, is_real_org, is_webmail, normalise_org
+from ..people.normalise import GENERIC_TAGS, fold_text, is_real_org, is_webmail, normalise_org
 
 __all__ = [
     "GroupResult",

@@ -17,9 +17,9 @@ from typing import Any, Mapping
 import networkx as nx
 import numpy as np
 
-from ..mailpeople import not_employer_domains
-from ..network import Network, load_network
-from ..normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
+from ..people.mailpeople import not_employer_domains
+from ..evidence.network import Network, load_network
+from ..people.normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
 from ..settings import SettingsGroup, setting
 from ..store import Store
 from .bridges import group_bridges, group_links, single_points_of_access

@@ -17,7 +17,7 @@ import click
 
 from ..safetext import json_escape, shown
 from ..store import Store
-from ..workspace import open_workspace
+from ..workspace.importing import open_workspace
 
 
 class Ctx:
@@ -95,7 +95,7 @@ as_of_option = click.option(
 
 def when(store: Store, as_of: str | None):
     """The day to analyse at (see :func:`mynet.network.resolve_as_of`); says so on stderr when mynet chose it."""
-    from ..network import resolve_as_of
+    from ..evidence.network import resolve_as_of
 
     chosen = resolve_as_of(store, as_of)
     if chosen.note:
@@ -105,6 +105,6 @@ def when(store: Store, as_of: str | None):
 
 def load_net(store: Store, as_of: str | None):
     """The network at the day asked for (or chosen), with the one-line note on stderr."""
-    from ..network import load_network
+    from ..evidence.network import load_network
 
     return load_network(store, as_of=when(store, as_of))

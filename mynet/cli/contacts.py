@@ -9,7 +9,7 @@ import click
 
 from ..errors import InputError, MynetError, NotFoundError
 from ..model import Contact
-from ..workspace import (
+from ..workspace.importing import (
     contact_records,
     find_contact,
     import_paths,
@@ -187,7 +187,7 @@ def register(cli: click.Group) -> None:
         """
         mapping = {}
         if mapping_file:
-            from ..importers.csv import load_mapping_file
+            from ..sources.csv import load_mapping_file
 
             mapping.update(load_mapping_file(mapping_file))
         mapping.update(_parse_map(maps))
@@ -225,7 +225,7 @@ def register(cli: click.Group) -> None:
     def sources_cmd(obj, remove, yes, as_json):
         """List the imported files (or remove one)."""
         if remove:
-            from ..privacy import remove_source
+            from ..workspace.privacy import remove_source
 
             if not yes:
                 confirm_or_refuse(f"Remove {remove} and everything only it supported from the workspace?")
@@ -260,8 +260,8 @@ def register(cli: click.Group) -> None:
         """List the people in your network, with your warmth to each."""
         store = obj.store()
         if unlisted:
-            from ..mailpeople import evidence_interactions, me_emails
-            from ..warmth import WarmthModel, unlisted_people
+            from ..people.mailpeople import evidence_interactions, me_emails
+            from ..evidence.warmth import WarmthModel, unlisted_people
 
             threshold = WarmthModel.from_settings(store.setting("warmth_model", {})).unlisted_threshold
             people = unlisted_people(store.contacts(), evidence_interactions(store), me_emails(store), threshold)
@@ -294,7 +294,7 @@ def register(cli: click.Group) -> None:
         contacts = store.contacts()
         if search:
             contacts = search_contacts(contacts, search)
-        from ..network import load_warmth
+        from ..evidence.network import load_warmth
 
         warmth = load_warmth(store, today=when(store, as_of).day)
         if sort == "name":
@@ -381,7 +381,7 @@ def register(cli: click.Group) -> None:
         """Merge two or more contacts into one person (kept across re-imports)."""
         store = obj.store()
         people = [find_contact(store, w) for w in who]
-        from ..identity import names_compatible
+        from ..people.identity import names_compatible
 
         odd = [p for p in people[1:] if not names_compatible(people[0].name, p.name)]
         if odd and not yes:
@@ -419,7 +419,7 @@ def register(cli: click.Group) -> None:
         The address stops counting as theirs: no meetings or mail through it,
         never linked to them again by name. --undo takes it back.
         """
-        from ..workspace import detach_address
+        from ..workspace.importing import detach_address
 
         store = obj.store()
         try:
@@ -456,7 +456,7 @@ def register(cli: click.Group) -> None:
         Later imports of the same files leave them out (mynet keeps only salted
         hashes of their addresses, numbers and names, never the values).
         """
-        from ..privacy import forget_contact, written_files
+        from ..workspace.privacy import forget_contact, written_files
 
         store = obj.store()
         c = find_contact(store, who)

@@ -11,10 +11,10 @@ import click
 from ..errors import MynetError
 from ..analysis.audit import audit
 from ..analysis.snapshot import analyse
-from ..network import describe, evidence_summary, explain_tie, load_network, tie_words
-from ..reach import reach, resolve_targets
-from ..workspace import import_paths, merge_suggestions, open_workspace, set_me
-from ..workspace_ties import update_list_setting
+from ..evidence.network import describe, evidence_summary, explain_tie, load_network, tie_words
+from ..analysis.intro_routes import reach, resolve_targets
+from ..workspace.importing import import_paths, merge_suggestions, open_workspace, set_me
+from ..workspace.decisions import update_list_setting
 from ._common import echo, note, table
 from .contacts import region_words
 

@@ -5,10 +5,10 @@ from __future__ import annotations
 import click
 
 from ..errors import MynetError
-from ..network import basis, describe, evidence_summary, explain_tie, tie_words
-from ..workspace import find_contact
+from ..evidence.network import basis, describe, evidence_summary, explain_tie, tie_words
+from ..workspace.importing import find_contact
 from .. import settings as settings_schema
-from ..workspace_ties import add_tie, rate_contact, remove_tie, update_setting
+from ..workspace.decisions import add_tie, rate_contact, remove_tie, update_setting
 from ._common import as_of_option, echo, emit_json, json_option, load_net, note, table
 
 

@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import click
 
-from ..reach import distinct_names, reach, resolve_targets
-from ..workspace import find_contact
+from ..analysis.intro_routes import distinct_names, reach, resolve_targets
+from ..workspace.importing import find_contact
 from ._common import as_of_option, echo, emit_json, json_option, load_net, note
 
 

@@ -7,7 +7,7 @@ from pathlib import Path
 
 import click
 
-from ..export import FORMATS, export_network
+from ..report.export import FORMATS, export_network
 from ..report import MAX_CONTACTS_DRAWN, STEPS, write_report
 from ._common import as_of_option, echo, note, when
 
@@ -54,7 +54,7 @@ def register(cli: click.Group) -> None:
             path = write_report(store, out, markdown=markdown, redact=redact, seed=seed, max_contacts=max_contacts,
                                 progress=step, as_of=chosen)
         echo(str(path))
-        from ..privacy import remember_written
+        from ..workspace.privacy import remember_written
 
         remember_written(store, [str(path.resolve())] + ([str(path.with_name(path.stem + "_files").resolve())] if markdown else []))
         if markdown:
@@ -79,6 +79,6 @@ def register(cli: click.Group) -> None:
             paths = export_network(store, output, fmt, redact=redact, as_of=chosen)
         for p in paths:
             echo(str(p))
-        from ..privacy import remember_written
+        from ..workspace.privacy import remember_written
 
         remember_written(store, [str(Path(p).resolve()) for p in paths])

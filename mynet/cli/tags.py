@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import click
 
-from ..network import load_network
-from ..workspace_ties import decide_label
+from ..evidence.network import load_network
+from ..workspace.decisions import decide_label
 from ._common import echo, emit_json, json_option, note, table
 
 def register(cli: click.Group) -> None:

@@ -18,11 +18,11 @@ from typing import Any, Callable
 
 from ..analysis.audit import WARM, audit
 from ..analysis.snapshot import Analysis, analyse, tie_graph
-from ..network import AsOf, Network, basis, evidence_summary, load_network, tie_words
-from ..normalise import normalise_email
-from ..reach import Targets, path_index, reach
+from ..evidence.network import AsOf, Network, basis, evidence_summary, load_network, tie_words
+from ..people.normalise import normalise_email
+from ..analysis.intro_routes import Targets, path_index, reach
 from ..store import Store
-from ..warmth import BEYOND, NONE, TIERS
+from ..evidence.warmth import BEYOND, NONE, TIERS
 from .redact import Pseudonyms, redact_analysis, redact_network
 
 __all__ = ["ReportData", "collect", "STEPS", "MAX_CONTACTS_DRAWN"]
@@ -125,7 +125,7 @@ def _timeline(store: Store, net: Network) -> list[dict[str, Any]]:
     meetings: Counter = Counter()
     messages: Counter = Counter()
     people: dict[str, set[int]] = defaultdict(set)
-    from ..mailpeople import evidence_interactions
+    from ..people.mailpeople import evidence_interactions
 
     for it in evidence_interactions(store):
         m = _MONTH.match(it.when or "")

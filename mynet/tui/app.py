@@ -25,7 +25,7 @@ from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Footer, Input
 
 from ..errors import MynetError
-from ..locations import resolve_workspace_path
+from ..workspace.location import resolve_workspace_path
 from ..safetext import shown
 from ..store import Store
 from .data import Extras, Snapshot, load_extras, load_snapshot, peek_snapshot, with_store
@@ -522,7 +522,7 @@ def create_app(workspace_path: str | Path | None = None, *, today: date | None =
     store = Store(path, create=False)  # a clear error now, rather than inside the app
     try:
         if as_of is not None:
-            from ..network import resolve_as_of
+            from ..evidence.network import resolve_as_of
 
             resolve_as_of(store, as_of)  # a bad date is refused before the screen opens
     finally:

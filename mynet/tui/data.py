@@ -22,13 +22,13 @@ import numpy as np
 
 from ..analysis.snapshot import Analysis, GroupInfo, analyse
 from ..errors import WorkspaceError
-from ..identity import Suggestion
+from ..people.identity import Suggestion
 from ..model import Contact
-from ..network import Network, evidence_summary, explain_tie, load_network, tie_words
-from ..normalise import fold_text
-from ..reach import org_catalogue, tag_catalogue
+from ..evidence.network import Network, evidence_summary, explain_tie, load_network, tie_words
+from ..people.normalise import fold_text
+from ..analysis.intro_routes import org_catalogue, tag_catalogue
 from ..store import Store
-from ..workspace import merge_suggestions
+from ..workspace.importing import merge_suggestions
 
 __all__ = ["Snapshot", "Extras", "peek_snapshot", "load_snapshot", "load_extras", "with_store", "BusyWait", "tier_of", "Choice", "choices"]
 
@@ -265,7 +265,7 @@ def choices(net: Network) -> list[Choice]:
     orgs, tags = org_catalogue(net), tag_catalogue(net)
     org_count: Counter = Counter()
     tag_count: Counter = Counter()
-    from ..normalise import normalise_org
+    from ..people.normalise import normalise_org
 
     for c in net.contacts:
         for o in {normalise_org(o) for o in c.orgs + c.past_orgs}:
@@ -290,7 +290,7 @@ def peek_snapshot(path: Path, today: date | None = None, as_of: date | str | Non
     from types import SimpleNamespace
 
     from ..analysis.snapshot import _apply_user, cache_key
-    from ..network import resolve_as_of
+    from ..evidence.network import resolve_as_of
 
     today = today or date.today()
 

@@ -11,10 +11,10 @@ from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.worker import WorkerState
 
-from ..network import basis, describe, evidence_summary
+from ..evidence.network import basis, describe, evidence_summary
 from ..safetext import shown
-from ..workspace import contact_records
-from ..workspace_ties import add_tie, rate_contact, remove_tie
+from ..workspace.importing import contact_records
+from ..workspace.decisions import add_tie, rate_contact, remove_tie
 from .app import Page
 from .data import Snapshot, tier_of, with_store
 from .look import Label, Static, clip, plural, warmth_bar

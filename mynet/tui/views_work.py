@@ -13,7 +13,7 @@ from textual.widgets.option_list import Option
 from textual.worker import WorkerState
 
 from ..errors import MynetError
-from ..reach import reach, resolve_targets
+from ..analysis.intro_routes import reach, resolve_targets
 from ..safetext import shown
 from .data import Choice, Snapshot, tier_of
 from .look import Static, clip, plural, safe, severity_tag
@@ -26,7 +26,7 @@ KIND_WORD = {"person": "person", "organisation": "org", "tag": "tag"}
 
 def match_choices(choices: list[Choice], text: str, limit: int = 8) -> list[Choice]:
     """Completions for what was typed: whole-word prefix matches first, then any substring."""
-    from ..normalise import fold_text
+    from ..people.normalise import fold_text
 
     needle = fold_text(text)
     if not needle:
@@ -322,13 +322,13 @@ class DuplicatesView(Vertical):
                       said=done.format(names=names))
 
     def action_merge(self) -> None:
-        from ..workspace import merge_contacts
+        from ..workspace.importing import merge_contacts
 
         self._decide("Merging {names}…", "Merged {names} into one person.",
                      lambda store, pair: merge_contacts(store, list(pair)))
 
     def action_apart(self) -> None:
-        from ..workspace import reject_suggestion
+        from ..workspace.importing import reject_suggestion
 
         self._decide("Keeping {names} apart…", "Kept apart: {names} will not be suggested again.",
                      lambda store, pair: reject_suggestion(store, *pair))

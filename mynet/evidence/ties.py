@@ -61,10 +61,10 @@ import scipy.sparse as sp
 
 from .events import Event, EventIndex, contact_of_email, event_lists, evidence_events
 from .labels import judge_labels
-from .model import Contact, Interaction
+from ..model import Contact, Interaction
 from .org_limit import limit_large_orgs
-from .normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
-from .settings import SettingsGroup, setting
+from ..people.normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
+from ..settings import SettingsGroup, setting
 
 __all__ = [
     "TieModel",

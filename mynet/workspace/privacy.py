@@ -18,11 +18,11 @@ import json
 import secrets
 from typing import Iterable
 
-from .errors import NotFoundError
-from .identity import _norm_emails, _norm_phones  # same normalisation as merging
-from .model import Record
-from .normalise import normalise_name
-from .store import Store
+from ..errors import NotFoundError
+from ..people.identity import _norm_emails, _norm_phones  # same normalisation as merging
+from ..model import Record
+from ..people.normalise import normalise_name
+from ..store import Store
 
 __all__ = ["forget_contact", "remove_source", "compact", "forgotten_filter", "forgotten_address", "ForgetReport",
            "remember_written",
@@ -176,7 +176,7 @@ def forget_contact(store: Store, contact_id: int) -> ForgetReport:
     NotFoundError
         When there is no such contact.
     """
-    from .workspace import refresh_contacts
+    from .importing import refresh_contacts
 
     contact = store.contact(contact_id)
     if contact is None:
@@ -211,7 +211,7 @@ def remove_source(store: Store, path: str) -> ForgetReport:
     decisions about records that no longer exist)."""
     from pathlib import Path
 
-    from .workspace import refresh_contacts
+    from .importing import refresh_contacts
 
     candidates = [s for s in store.sources() if s["path"] == path or s["path"] == str(Path(path).resolve())
                   or Path(s["path"]).name == path]

@@ -12,7 +12,7 @@ from collections import defaultdict
 from dataclasses import dataclass
 from typing import Iterable, Sequence
 
-from .model import Contact, Interaction
+from ..model import Contact, Interaction
 
 __all__ = ["Event", "EventLists", "event_lists", "evidence_events", "contact_of_email", "EventIndex"]
 

@@ -40,15 +40,15 @@ from typing import Any, Iterable
 
 import networkx as nx
 
-from .analysis.bridges import neighbourhood_overlap
-from .analysis.snapshot import Analysis, analyse, tie_graph
-from .errors import MynetError
-from .network import Network, basis, evidence_summary, load_network, tie_words
-from .report import check_redacted
-from .report._io import write_private
-from .report.redact import redact_analysis, redact_network
-from .safetext import shown
-from .store import Store
+from ..analysis.bridges import neighbourhood_overlap
+from ..analysis.snapshot import Analysis, analyse, tie_graph
+from ..errors import MynetError
+from ..evidence.network import Network, basis, evidence_summary, load_network, tie_words
+from . import check_redacted
+from ._io import write_private
+from .redact import redact_analysis, redact_network
+from ..safetext import shown
+from ..store import Store
 
 __all__ = ["FORMATS", "network_graph", "graphml_text", "csv_texts", "json_text", "neutralise", "csv_paths",
            "export_network"]

@@ -27,8 +27,8 @@ from pathlib import Path
 from typing import Any, Iterator
 from urllib.parse import quote
 
-from .errors import WorkspaceError
-from .model import Contact, Interaction, Record
+from ..errors import WorkspaceError
+from ..model import Contact, Interaction, Record
 
 __all__ = ["Store", "SCHEMA_VERSION", "SourceRow"]
 

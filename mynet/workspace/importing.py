@@ -13,15 +13,15 @@ from datetime import date, datetime, timezone
 from pathlib import Path
 from typing import Callable
 
-from .errors import AmbiguousError, InputError, MynetError, NotFoundError
-from .identity import Me, Suggestion, record_keys, suggest_merges
-from .importers import iter_input_files, parse_file, read_bytes, source_digest
-from .locations import resolve_workspace_path
-from .mailpeople import evidence_interactions, mail_facts, not_employer_domains, your_other_addresses
-from .model import Contact, Skipped
-from .refresh import get_me, refresh_contacts
-from .normalise import fold_text, normalise_email, normalise_name
-from .store import Store
+from ..errors import AmbiguousError, InputError, MynetError, NotFoundError
+from ..people.identity import Me, Suggestion, record_keys, suggest_merges
+from ..sources import iter_input_files, parse_file, read_bytes, source_digest
+from .location import resolve_workspace_path
+from ..people.mailpeople import evidence_interactions, mail_facts, not_employer_domains, your_other_addresses
+from ..model import Contact, Skipped
+from ..people.refresh import get_me, refresh_contacts
+from ..people.normalise import fold_text, normalise_email, normalise_name
+from ..store import Store
 
 __all__ = [
     "open_workspace",
@@ -173,7 +173,7 @@ def import_paths(
     InputError
         A file is unreadable, of unknown format, or (``strict``) has a bad record.
     """
-    from .importers import READERS
+    from ..sources import READERS
 
     report = ImportReport(contacts_before=len(store.contacts()))
     parsed = []
@@ -286,7 +286,7 @@ def set_me(store: Store, emails: list[str], names: list[str], *, replace: bool =
     Phone numbers must carry their country code (``+44 ...``): your own number
     tells which country to assume for numbers written without one.
     """
-    from .normalise import normalise_phone
+    from ..people.normalise import normalise_phone
 
     bad = [e for e in emails if not normalise_email(e)]
     if bad:
@@ -315,8 +315,8 @@ def detach_address(store: Store, contact_id: int | None, address: str, *, undo: 
     back. Returns the contact afterwards (None when the person existed only
     through that address).
     """
-    from .mailpeople import found_key
-    from .network import anchor_key
+    from ..people.mailpeople import found_key
+    from ..evidence.network import anchor_key
 
     addr = normalise_email(address)
     if not addr:

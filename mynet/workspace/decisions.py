@@ -4,10 +4,10 @@ from __future__ import annotations
 
 from typing import Any
 
-from . import settings
-from .errors import MynetError
-from .network import anchor_key
-from .store import Store
+from .. import settings
+from ..errors import MynetError
+from ..evidence.network import anchor_key
+from ..store import Store
 
 __all__ = ["add_tie", "remove_tie", "rate_contact", "update_setting", "update_settings", "update_list_setting",
            "decide_label", "LABEL_VERDICTS"]
@@ -64,7 +64,7 @@ def update_setting(store: Store, name: str, text: str) -> Any:
     SettingError
         For an unknown setting or a value it does not accept (nothing is stored).
     """
-    from .workspace import refresh_contacts
+    from .importing import refresh_contacts
 
     spec = settings.schema().get(name)
     group = name.split(".", 1)[0] if "." in name and name.split(".", 1)[0] in settings.groups() else None
@@ -109,8 +109,8 @@ def decide_label(store: Store, label: str, verdict: str | None) -> str:
     MynetError
         For a verdict other than "count", "ignore" or None.
     """
-    from .errors import NotFoundError
-    from .normalise import fold_text
+    from ..errors import NotFoundError
+    from ..people.normalise import fold_text
 
     if verdict is not None and verdict not in LABEL_VERDICTS:
         raise MynetError(f"a label is either counted or ignored, not {verdict!r}")

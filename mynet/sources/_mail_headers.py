@@ -17,7 +17,7 @@ from email.errors import HeaderParseError
 from email.header import decode_header
 from email.utils import getaddresses
 
-from ..mailaddr import list_local, machine_kind, reverse_relay, via_name
+from .mailaddr import list_local, machine_kind, reverse_relay, via_name
 
 __all__ = ["decode_words", "read_fields", "Fields", "addresses", "first_id", "last_id", "MessageRoles",
            "message_roles", "FIELD_CAP"]

@@ -14,11 +14,11 @@ from typing import Any
 
 import numpy as np
 
-from .errors import MynetError
-from .model import Contact, Interaction
-from .normalise import email_domain, fold_text, is_webmail, normalise_email, normalise_name, normalise_org
-from .store import Store
-from .mailpeople import evidence_interactions, me_emails, not_employer_domains
+from ..errors import MynetError
+from ..model import Contact, Interaction
+from ..people.normalise import email_domain, fold_text, is_webmail, normalise_email, normalise_name, normalise_org
+from ..store import Store
+from ..people.mailpeople import evidence_interactions, me_emails, not_employer_domains
 from .ties import KINDS, OBSERVED_KINDS, EventIndex, TieModel, TieTable, disparity_filter, infer_ties
 from .warmth import Warmth, WarmthModel, compute_warmth
 

@@ -17,7 +17,7 @@ import numpy as np
 from dataclasses import dataclass, field
 from typing import Iterable
 
-from .model import Contact, Record
+from ..model import Contact, Record
 from .normalise import (
     email_domain,
     fold_text,

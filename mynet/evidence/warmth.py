@@ -31,9 +31,9 @@ from dataclasses import asdict, dataclass, field
 from datetime import date, datetime, timezone
 from typing import Iterable, Mapping, Sequence
 
-from .model import Contact, Interaction
-from .settings import SettingsGroup, setting
-from .normalise import normalise_email
+from ..model import Contact, Interaction
+from ..settings import SettingsGroup, setting
+from ..people.normalise import normalise_email
 
 __all__ = ["WarmthModel", "Warmth", "compute_warmth", "assign_tiers", "unlisted_people", "TIERS", "parse_when"]
 

@@ -33,7 +33,7 @@ from typing import Mapping, Sequence
 import numpy as np
 import scipy.sparse as sp
 
-from .normalise import GENERIC_TAGS, fold_text
+from ..people.normalise import GENERIC_TAGS, fold_text
 
 __all__ = ["LabelVerdict", "workflow_wording", "usage_verdict", "judge_labels", "WORKFLOW_PHRASES", "WORKFLOW_WORDS",
            "USAGE_MIN_USES", "USAGE_MIN_SEEN", "USAGE_MIN_ORGS", "USAGE_MAX_LINKED"]

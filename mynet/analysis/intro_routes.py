@@ -14,10 +14,10 @@ from typing import Any
 
 import numpy as np
 
-from .errors import MynetError, NotFoundError
-from .network import Network, basis, describe, evidence_summary
-from .normalise import email_domain, fold_text, normalise_org
-from .paths import IntroPath, PathIndex, best_per_target, direct_route, find_paths
+from ..errors import MynetError, NotFoundError
+from ..evidence.network import Network, basis, describe, evidence_summary
+from ..people.normalise import email_domain, fold_text, normalise_org
+from .intro_search import IntroPath, PathIndex, best_per_target, direct_route, find_paths
 
 __all__ = ["Targets", "resolve_targets", "path_index", "reach", "ReachResult", "org_catalogue", "tag_catalogue",
            "no_path_reason", "distinct_names"]
@@ -276,7 +276,7 @@ def no_path_reason(net: Network, index: PathIndex, targets: list[int], *, max_in
     """Why no intro path reaches ``targets``, in plain words (the first reason that applies)."""
     from scipy.sparse.csgraph import dijkstra
 
-    from .paths import find_paths
+    from .intro_search import find_paths
 
     def names(ids: list[int]) -> str:
         shown = ", ".join(net.name(m) for m in ids[:3])
