@@ -38,7 +38,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 import bench_analysis  # noqa: E402
 import bench_measures  # noqa: E402
-from mynet.analysis.centrality import _betweenness, _module_labels, _pivots, _prepare, contact_measures  # noqa: E402
+from mynet.analysis.centrality import betweenness_values, module_labels, pivot_sample, prepare_graph, contact_measures  # noqa: E402
 from mynet.analysis.estimate import adaptive_pivots  # noqa: E402
 from mynet.analysis.groups import detect_groups  # noqa: E402
 
@@ -63,15 +63,15 @@ def row(label: str, seconds: float, ov: float, note: str = "") -> None:
 
 
 def run(name: str, G: nx.Graph, groups: dict, seeds: int, with_nx: bool = True) -> None:
-    prep = _prepare(G, "weight")
+    prep = prepare_graph(G, "weight")
     n = prep.n
     print(f"{name}: {n} contacts, {G.number_of_edges()} ties, {len(set(groups.values()))} groups")
-    exact, t = timed(lambda: _betweenness(prep, None))
+    exact, t = timed(lambda: betweenness_values(prep, None))
     T = top(exact)
     row("exact (all sources)", t, 1.0)
-    labels = _module_labels(prep.nodes, groups)
+    labels = module_labels(prep.nodes, groups)
     for seed in range(seeds):
-        est, t = timed(lambda: _betweenness(prep, _pivots(n, 256, seed)))
+        est, t = timed(lambda: betweenness_values(prep, pivot_sample(n, 256, seed)))
         row(f"before: 256 uniform pivots, seed {seed}", t, overlap(T, est))
     for seed in range(min(seeds, 1) if with_nx else 0):
         H = nx.Graph()
@@ -86,7 +86,7 @@ def run(name: str, G: nx.Graph, groups: dict, seeds: int, with_nx: bool = True) 
                if info["betweenness_sampled"] else "exact values")
         row(f"after: contact_measures defaults, seed {seed}", t, overlap(T, got), f"({how}; all measures)")
     for seed in range(seeds):
-        (est, pivots, stated), t = timed(lambda: adaptive_pivots(lambda p: _betweenness(prep, p), labels, seed, n,
+        (est, pivots, stated), t = timed(lambda: adaptive_pivots(lambda p: betweenness_values(prep, p), labels, seed, n,
                                                                  exact_share=1.0))
         row(f"after: stratified adaptive estimate, seed {seed}", t, overlap(T, est),
             f"({len(pivots)} pivots = {len(pivots) / n:.0%} of contacts; stated {stated:.1%})")

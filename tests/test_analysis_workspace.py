@@ -71,15 +71,15 @@ def _fresh(store):
     """The analysis computed from scratch, without touching the cache or the stored group ids."""
     import json as _json
 
-    from mynet.analysis.snapshot import AnalysisModel, _apply_user, _compute, cache_inputs
+    from mynet.analysis.snapshot import AnalysisModel, apply_user_decisions, compute_analysis, cache_inputs
 
     state = store.meta("groups_state", "{}")
     net = load_network(store)
-    out = _compute(store, net, AnalysisModel.from_settings(store.setting("analysis", {})),
+    out = compute_analysis(store, net, AnalysisModel.from_settings(store.setting("analysis", {})),
                    cache_inputs(store, net, AnalysisModel.from_settings(store.setting("analysis", {}))))
     with store.transaction():
         store.set_meta("groups_state", state)
-    _apply_user(store, net, out)
+    apply_user_decisions(store, net, out)
     d = out.to_json()
     d.pop("events")
     return _json.loads(_json.dumps(d))

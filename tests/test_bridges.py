@@ -8,7 +8,7 @@ import random
 import networkx as nx
 import pytest
 
-from mynet.analysis import _bridges_sparse
+from mynet.analysis import bridges_sparse
 from mynet.analysis.bridges import (
     EGO,
     group_bridges,
@@ -91,7 +91,7 @@ def test_overlap_blocks_give_the_same_answer(monkeypatch):
     G = nx.relabel_nodes(nx.gnm_random_graph(120, 600, seed=4), lambda v: v + 1)
     whole = neighbourhood_overlap(G)
     spans = local_bridges(G)
-    monkeypatch.setattr(_bridges_sparse, "_BLOCK_NNZ", 40)
+    monkeypatch.setattr(bridges_sparse, "_BLOCK_NNZ", 40)
     assert neighbourhood_overlap(G) == whole
     assert local_bridges(G) == spans
 
@@ -210,14 +210,14 @@ def test_group_bridges_limit_gives_the_head_of_the_full_list():
 
 
 def test_three_hop_counts_agree():
-    from mynet.analysis.groups import _edge_arrays
+    from mynet.analysis.groups import edge_arrays
 
     for seed, G in random_graphs(40, max_n=60):
-        nodes, lo, hi, _ = _edge_arrays(G, weight=None)
-        A = _bridges_sparse._adjacency(len(nodes), lo, hi)
-        _, common, paths3 = _bridges_sparse._common_neighbours(A, lo, hi, squares=True)
+        nodes, lo, hi, _ = edge_arrays(G, weight=None)
+        A = bridges_sparse.adjacency_matrix(len(nodes), lo, hi)
+        _, common, paths3 = bridges_sparse.common_neighbours(A, lo, hi, squares=True)
         bare = common == 0
-        rows = _bridges_sparse._paths3_rows(A, lo[bare], hi[bare])
+        rows = bridges_sparse.paths3_rows(A, lo[bare], hi[bare])
         assert rows.tolist() == paths3[bare].tolist(), seed
 
 

@@ -220,13 +220,13 @@ def test_sampled_estimators_are_unbiased():
 def test_all_pivots_equal_the_exact_value():
     # Brandes & Pich 2007: with every node a pivot, the n / k scaling is 1 and the "estimate" is
     # Brandes' exact betweenness (cross-checked with networkx's betweenness_centrality).
-    from mynet.analysis.centrality import _betweenness, _prepare
+    from mynet.analysis.centrality import betweenness_values, prepare_graph
 
     G = weighted_random_graph(50, 160, 8)
-    prep = _prepare(G, "weight")
-    every = dict(zip(prep.nodes, _betweenness(prep, np.arange(prep.n)).tolist()))
+    prep = prepare_graph(G, "weight")
+    every = dict(zip(prep.nodes, betweenness_values(prep, np.arange(prep.n)).tolist()))
     assert_close(every, nx.betweenness_centrality(G, weight="distance"), 1e-12)
-    half = _betweenness(prep, np.arange(0, prep.n, 2))
+    half = betweenness_values(prep, np.arange(0, prep.n, 2))
     assert half.sum() > 0 and not np.allclose(half, list(every.values()))
 
 
@@ -271,16 +271,16 @@ def test_broker_cut_is_stable_with_the_default_settings():
 
 def test_adaptive_estimate_states_its_error_honestly():
     # The stated expected agreement (batch means, normal approximation) against the measured one.
-    from mynet.analysis.centrality import _betweenness, _module_labels, _prepare
+    from mynet.analysis.centrality import betweenness_values, module_labels, prepare_graph
     from mynet.analysis.estimate import adaptive_pivots, stratified_order
     from mynet.analysis.groups import detect_groups
 
     for seed in (0, 1):
         G = circles_graph(1500, seed)
-        prep = _prepare(G, "weight")
-        labels = _module_labels(prep.nodes, detect_groups(G).membership)
-        exact = _betweenness(prep, None)
-        est, pivots, stated = adaptive_pivots(lambda p: _betweenness(prep, p), labels, seed, 1400, exact_share=1.0)
+        prep = prepare_graph(G, "weight")
+        labels = module_labels(prep.nodes, detect_groups(G).membership)
+        exact = betweenness_values(prep, None)
+        est, pivots, stated = adaptive_pivots(lambda p: betweenness_values(prep, p), labels, seed, 1400, exact_share=1.0)
         assert est is not None and len(pivots) < 1400
         T = top_share(dict(enumerate(exact)))
         kept = len(T & top_share(dict(enumerate(est)))) / len(T)

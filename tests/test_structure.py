@@ -146,10 +146,10 @@ def test_small_world_of_a_random_graph_is_about_one():
 
 
 def test_random_reference_graph_is_a_gnm_graph():
-    from mynet.analysis.structure import _gnm
+    from mynet.analysis.structure import random_gnm
 
     for n, m in ((50, 1000), (300, 900), (1000, 20000)):  # dense (over half the pairs) and sparse
-        R = _gnm(n, m, np.random.default_rng(n))
+        R = random_gnm(n, m, np.random.default_rng(n))
         keys = R.src * n + R.dst
         assert len(R.src) == m and len(np.unique(keys)) == m and np.all(R.src < R.dst)
     # Every pair equally likely: over many draws of G(6, 3) each of the 15 pairs appears ~ 3/15 of the time.
@@ -158,7 +158,7 @@ def test_random_reference_graph_is_a_gnm_graph():
     a, b = np.triu_indices(6, k=1)
     index = {(int(i), int(j)): k for k, (i, j) in enumerate(zip(a, b))}
     for _ in range(3000):
-        R = _gnm(6, 3, rng)
+        R = random_gnm(6, 3, rng)
         for i, j in zip(R.src.tolist(), R.dst.tolist()):
             counts[index[(i, j)]] += 1
     assert np.allclose(counts / 3000, 0.2, atol=0.03)

@@ -31,8 +31,8 @@ from typing import Any
 import networkx as nx
 import numpy as np
 
-from ._bridges_sparse import _adjacency, _common_neighbours, _paths3_rows, _spans
-from .groups import _edge_arrays, sorted_nodes
+from .bridges_sparse import adjacency_matrix, common_neighbours, paths3_rows, bridge_spans
+from .groups import edge_arrays, sorted_nodes
 
 __all__ = [
     "EGO",
@@ -78,8 +78,8 @@ def neighbourhood_overlap(G: nx.Graph) -> dict[tuple, float]:
     .. [2] M. S. Granovetter, "The strength of weak ties", Am. J. Sociol.
        78(6), 1360-1380 (1973).
     """
-    nodes, lo, hi, _ = _edge_arrays(G, weight=None)
-    deg, common, _ = _common_neighbours(_adjacency(len(nodes), lo, hi), lo, hi)
+    nodes, lo, hi, _ = edge_arrays(G, weight=None)
+    deg, common, _ = common_neighbours(adjacency_matrix(len(nodes), lo, hi), lo, hi)
     denom = deg[lo] + deg[hi] - 2 - common
     with np.errstate(divide="ignore", invalid="ignore"):
         ov = np.where(denom > 0, common / np.maximum(denom, 1), 0.0)
@@ -119,11 +119,11 @@ def local_bridges(G: nx.Graph) -> dict[tuple, float]:
     .. [2] D. Easley, J. Kleinberg, *Networks, Crowds, and Markets*, ch. 3,
        Cambridge University Press (2010).
     """
-    nodes, lo, hi, _ = _edge_arrays(G, weight=None)
-    A = _adjacency(len(nodes), lo, hi)
-    _, common, paths3 = _common_neighbours(A, lo, hi, squares=True)
+    nodes, lo, hi, _ = edge_arrays(G, weight=None)
+    A = adjacency_matrix(len(nodes), lo, hi)
+    _, common, paths3 = common_neighbours(A, lo, hi, squares=True)
     bare = common == 0
-    spans = _spans(G, A, nodes, lo[bare], hi[bare], paths3[bare])
+    spans = bridge_spans(G, A, nodes, lo[bare], hi[bare], paths3[bare])
     return {(nodes[i], nodes[j]): float(x) for i, j, x in zip(lo[bare].tolist(), hi[bare].tolist(), spans.tolist())}
 
 
@@ -162,7 +162,7 @@ def group_links(G: nx.Graph, groups: Any) -> dict[tuple[int, int], dict[str, Any
     """
     sets = _group_sets(groups)
     member_of = _membership(sets)
-    nodes, lo, hi, w = _edge_arrays(G)
+    nodes, lo, hi, w = edge_arrays(G)
     ids, gid = _dense_groups(sets, member_of, nodes)
     sel = (gid[lo] >= 0) & (gid[hi] >= 0) & (gid[lo] != gid[hi])
     ga, gb, na, nb, ws = gid[lo[sel]], gid[hi[sel]], lo[sel], hi[sel], w[sel]
@@ -240,10 +240,10 @@ def group_bridges(G: nx.Graph, groups: Any, *, limit: int | None = None) -> list
     """
     sets = _group_sets(groups)
     member_of = _membership(sets)
-    nodes, lo, hi, w = _edge_arrays(G)
-    A = _adjacency(len(nodes), lo, hi)
+    nodes, lo, hi, w = edge_arrays(G)
+    A = adjacency_matrix(len(nodes), lo, hi)
     whole = limit is None
-    deg, common, paths3 = _common_neighbours(A, lo, hi, squares=whole)
+    deg, common, paths3 = common_neighbours(A, lo, hi, squares=whole)
     denom = deg[lo] + deg[hi] - 2 - common
     overlap = np.where(denom > 0, common / np.maximum(denom, 1), 0.0)
     ids, gid = _dense_groups(sets, member_of, nodes)  # dense indices, so any int ids work
@@ -264,7 +264,7 @@ def group_bridges(G: nx.Graph, groups: Any, *, limit: int | None = None) -> list
     span = np.full(len(ranked), np.nan)
     lb = np.flatnonzero(is_lb[ranked])
     u, v = lo[e[lb]], hi[e[lb]]
-    span[lb] = _spans(G, A, nodes, u, v, paths3[e[lb]] if whole else _paths3_rows(A, u, v))
+    span[lb] = bridge_spans(G, A, nodes, u, v, paths3[e[lb]] if whole else paths3_rows(A, u, v))
     columns = zip(
         lo[e].tolist(),
         hi[e].tolist(),

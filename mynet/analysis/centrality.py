@@ -27,9 +27,9 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.sparse.csgraph import dijkstra
 
-from ._sparse_graph import _degrees, _from_arrays, _prepare, _Prepared, _sorted_nodes  # noqa: F401  (re-exported)
+from .sparse_graph import Prepared, degree_arrays, from_arrays, prepare_graph  # noqa: F401  (re-exported)
 from .estimate import adaptive_pivots
-from .spectral import _eigenvector, _pagerank, eigenvector_centrality, pagerank  # noqa: F401  (re-exported)
+from .spectral import eigenvector_values, pagerank_values, eigenvector_centrality, pagerank  # noqa: F401  (re-exported)
 
 __all__ = [
     "ROLES", "ROLE_THRESHOLDS", "betweenness", "clustering", "constraint", "contact_measures", "contact_role",
@@ -62,7 +62,7 @@ ROLES = ("isolated", "hub of its group", "hub across groups", "hub", "gateway", 
 _BLOCK_BUDGET = 4_000_000
 
 
-def _pivots(n: int, k: int, seed) -> np.ndarray:
+def pivot_sample(n: int, k: int, seed) -> np.ndarray:
     return np.sort(np.random.default_rng(seed).choice(n, size=k, replace=False))
 
 
@@ -80,12 +80,12 @@ def degree_strength(G, weight: str | None = "weight") -> dict[Any, tuple[int, fl
     dict
         node -> (degree, strength).
     """
-    prep = _prepare(G, weight)
-    deg, strength = _degrees(prep)
+    prep = prepare_graph(G, weight)
+    deg, strength = degree_arrays(prep)
     return {v: (int(deg[i]), float(strength[i])) for i, v in enumerate(prep.nodes)}
 
 
-def _betweenness(prep: _Prepared, pivots: np.ndarray | None) -> np.ndarray:
+def betweenness_values(prep: Prepared, pivots: np.ndarray | None) -> np.ndarray:
     n = prep.n
     if n <= 2 or prep.w.size == 0:
         return np.zeros(n)
@@ -138,12 +138,12 @@ def betweenness(G, weight: str | None = "weight", *, k: int | None = None, seed=
     .. [3] Brandes, U. & Pich, C. (2007). Centrality estimation in large
        networks. Int. J. Bifurcation and Chaos 17(7), 2303-2318.
     """
-    prep = _prepare(G, weight)
-    pivots = None if k is None or k >= prep.n else _pivots(prep.n, k, seed)
-    return dict(zip(prep.nodes, _betweenness(prep, pivots).tolist()))
+    prep = prepare_graph(G, weight)
+    pivots = None if k is None or k >= prep.n else pivot_sample(prep.n, k, seed)
+    return dict(zip(prep.nodes, betweenness_values(prep, pivots).tolist()))
 
 
-def _harmonic(prep: _Prepared, pivots: np.ndarray | None) -> np.ndarray:
+def _harmonic(prep: Prepared, pivots: np.ndarray | None) -> np.ndarray:
     n = prep.n
     if n <= 1:
         return np.zeros(n)
@@ -193,12 +193,12 @@ def harmonic_closeness(G, weight: str | None = "weight", *, k: int | None = None
     .. [2] Eppstein, D. & Wang, J. (2004). Fast approximation of centrality.
        J. Graph Algorithms Appl. 8(1), 39-45.
     """
-    prep = _prepare(G, weight)
-    pivots = None if k is None or k >= prep.n else _pivots(prep.n, k, seed)
+    prep = prepare_graph(G, weight)
+    pivots = None if k is None or k >= prep.n else pivot_sample(prep.n, k, seed)
     return dict(zip(prep.nodes, _harmonic(prep, pivots).tolist()))
 
 
-def _clustering(prep: _Prepared) -> np.ndarray:
+def clustering_values(prep: Prepared) -> np.ndarray:
     if prep.n == 0:
         return np.zeros(0)
     return np.asarray(prep.graph.transitivity_local_undirected(mode="zero"), dtype=float)
@@ -226,8 +226,8 @@ def clustering(G) -> dict[Any, float]:
     .. [1] Watts, D. J. & Strogatz, S. H. (1998). Collective dynamics of
        'small-world' networks. Nature 393, 440-442.
     """
-    prep = _prepare(G, None)
-    return dict(zip(prep.nodes, _clustering(prep).tolist()))
+    prep = prepare_graph(G, None)
+    return dict(zip(prep.nodes, clustering_values(prep).tolist()))
 
 
 def _row_blocks(A: sp.csr_array, budget: int) -> list[tuple[int, int]]:
@@ -259,10 +259,10 @@ def _masked(product: sp.csr_array, pattern: sp.csr_array) -> np.ndarray:
     return np.where(pkeys[pos] == qkeys, product.data[pos], 0.0)
 
 
-def _structural_holes(prep: _Prepared, budget: int = _BLOCK_BUDGET) -> tuple[np.ndarray, np.ndarray]:
+def _structural_holes(prep: Prepared, budget: int = _BLOCK_BUDGET) -> tuple[np.ndarray, np.ndarray]:
     n = prep.n
     W = prep.W
-    deg, strength = _degrees(prep)
+    deg, strength = degree_arrays(prep)
     rowmax = W.max(axis=1).toarray().ravel() if n else np.zeros(0)
     inv_s = np.divide(1.0, strength, out=np.zeros(n), where=strength > 0)
     inv_m = np.divide(1.0, rowmax, out=np.zeros(n), where=rowmax > 0)
@@ -323,7 +323,7 @@ def structural_holes(G, weight: str | None = "weight", *, block_budget: int = _B
     .. [2] Borgatti, S. P. (1997). Structural holes: unpacking Burt's
        redundancy measures. Connections 20(1), 35-38.
     """
-    prep = _prepare(G, weight)
+    prep = prepare_graph(G, weight)
     cons, eff = _structural_holes(prep, block_budget)
     return dict(zip(prep.nodes, cons.tolist())), dict(zip(prep.nodes, eff.tolist()))
 
@@ -348,7 +348,7 @@ def effective_size(G, weight: str | None = "weight") -> dict[Any, float]:
     return structural_holes(G, weight)[1]
 
 
-def _module_labels(nodes: list, groups: Mapping | None) -> np.ndarray:
+def module_labels(nodes: list, groups: Mapping | None) -> np.ndarray:
     """Integer module of each node; unclustered nodes (None or absent) each form their own module."""
     if groups is None:
         return np.zeros(len(nodes), dtype=np.int64)
@@ -361,7 +361,7 @@ def _module_labels(nodes: list, groups: Mapping | None) -> np.ndarray:
     return labels
 
 
-def _module_degrees(prep: _Prepared, labels: np.ndarray, weighted: bool) -> sp.csr_array:
+def _module_degrees(prep: Prepared, labels: np.ndarray, weighted: bool) -> sp.csr_array:
     """k_is: ties (or strength) from node i into module s, as an n x modules sparse matrix."""
     n = prep.n
     A = prep.W if weighted else sp.csr_array((np.ones(prep.W.nnz), prep.W.indices, prep.W.indptr), shape=prep.W.shape)
@@ -413,8 +413,8 @@ def participation_coefficient(G, groups: Mapping | None, weight: str | None = No
     .. [1] Guimerà, R. & Amaral, L. A. N. (2005). Functional cartography of
        complex metabolic networks. Nature 433, 895-900.
     """
-    prep = _prepare(G, weight)
-    labels = _module_labels(prep.nodes, groups)
+    prep = prepare_graph(G, weight)
+    labels = module_labels(prep.nodes, groups)
     return dict(zip(prep.nodes, _participation(_module_degrees(prep, labels, weight is not None)).tolist()))
 
 
@@ -443,8 +443,8 @@ def within_module_degree(G, groups: Mapping | None, weight: str | None = None) -
     .. [1] Guimerà, R. & Amaral, L. A. N. (2005). Functional cartography of
        complex metabolic networks. Nature 433, 895-900.
     """
-    prep = _prepare(G, weight)
-    labels = _module_labels(prep.nodes, groups)
+    prep = prepare_graph(G, weight)
+    labels = module_labels(prep.nodes, groups)
     return dict(zip(prep.nodes, _within_z(_module_degrees(prep, labels, weight is not None), labels).tolist()))
 
 
@@ -550,20 +550,20 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
     .. [4] Marchiori, M. & Latora, V. (2000). Harmony in the small-world.
        Physica A 285, 539-546.
     """
-    prep = _prepare(G, "weight")
+    prep = prepare_graph(G, "weight")
     n = prep.n
-    labels = _module_labels(prep.nodes, groups)
+    labels = module_labels(prep.nodes, groups)
     bet, pivots, agreement = None, None, 1.0
     if n > exact_limit:
-        bet, pivots, agreement = adaptive_pivots(lambda p: _betweenness(prep, p), labels, seed, max(1, samples))
+        bet, pivots, agreement = adaptive_pivots(lambda p: betweenness_values(prep, p), labels, seed, max(1, samples))
     sampled = bet is not None
     if not sampled:
-        bet, pivots, agreement = _betweenness(prep, None), None, 1.0
-    deg, strength = _degrees(prep)
+        bet, pivots, agreement = betweenness_values(prep, None), None, 1.0
+    deg, strength = degree_arrays(prep)
     clo = _harmonic(prep, pivots)
-    pr = _pagerank(prep, 0.85, 1e-10, 1000)
-    eig = _eigenvector(prep)
-    clu = _clustering(prep)
+    pr = pagerank_values(prep, 0.85, 1e-10, 1000)
+    eig = eigenvector_values(prep)
+    clu = clustering_values(prep)
     cons, eff = _structural_holes(prep)
     K = _module_degrees(prep, labels, weighted=False)
     part = _participation(K)

@@ -107,7 +107,7 @@ def sorted_nodes(nodes: Iterable[Hashable]) -> list:
         return sorted(nodes, key=lambda v: (type(v).__name__, repr(v)))
 
 
-def _edge_arrays(G: nx.Graph, weight: str | None = "weight"):
+def edge_arrays(G: nx.Graph, weight: str | None = "weight"):
     """Sorted nodes and the edges as index arrays ``i < j`` in lexicographic order.
 
     Self-loops are dropped (a contact has no tie to themself). Weights (all 1
@@ -276,7 +276,7 @@ def detect_groups(
     if G.is_directed() or G.is_multigraph():
         raise ValueError("detect_groups needs an undirected simple graph (networkx.Graph)")
 
-    nodes, lo, hi, w = _edge_arrays(G)
+    nodes, lo, hi, w = edge_arrays(G)
     n = len(nodes)
     if len(lo) == 0:
         raw = np.arange(n, dtype=np.int64)

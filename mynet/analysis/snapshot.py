@@ -122,7 +122,7 @@ def contact_attrs(net: Network, extra_webmail: frozenset[str] | set[str] = froze
 def cache_inputs(store: Store, net: Network, model: AnalysisModel) -> dict[str, Any]:
     """Everything the analysis reads, by name: the cache key is a digest of exactly this.
 
-    The computation takes its inputs from here too (see :func:`_compute`), so nothing it
+    The computation takes its inputs from here too (see :func:`compute_analysis`), so nothing it
     reads can be left out of the key. A new input is one more entry.
     """
     t = net.ties
@@ -159,7 +159,7 @@ def _first(values: list[str], fold) -> str | None:
     return fold(values[0]) if values else None
 
 
-def _compute(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[str, Any]) -> Analysis:
+def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[str, Any]) -> Analysis:
     fp = inputs_digest(inputs)
     G = tie_graph(net)
     backend = model.backend
@@ -261,16 +261,16 @@ def analyse(store: Store, net: Network | None = None, *, force: bool = False) ->
         if data.get("fingerprint") == fp:
             result = Analysis.from_json(data)
     if result is None:
-        result = _compute(store, net, model, inputs)
+        result = compute_analysis(store, net, model, inputs)
         store.put_cache(key, result.to_json())
-    _apply_user(store, net, result)
+    apply_user_decisions(store, net, result)
     return result
 
 
 load_analysis = analyse
 
 
-def _apply_user(store: Store, net: Network, a: Analysis) -> None:
+def apply_user_decisions(store: Store, net: Network, a: Analysis) -> None:
     """Group names and warm shares: cheap, applied on every load (never cached)."""
     names = {}
     for row in store.decisions("group_name"):

@@ -14,7 +14,7 @@ import scipy.sparse as sp
 from scipy.sparse.csgraph import connected_components
 from scipy.sparse.linalg import eigsh
 
-from ._sparse_graph import _degrees, _prepare, _Prepared
+from .sparse_graph import degree_arrays, prepare_graph, Prepared
 
 __all__ = ["eigenvector_centrality", "pagerank"]
 
@@ -22,7 +22,7 @@ __all__ = ["eigenvector_centrality", "pagerank"]
 _DENSE = 200
 
 
-def _eigenvector(prep: _Prepared) -> np.ndarray:
+def eigenvector_values(prep: Prepared) -> np.ndarray:
     n = prep.n
     out = np.zeros(n)
     if n == 0 or prep.W.nnz == 0:
@@ -80,15 +80,15 @@ def eigenvector_centrality(G, weight: str | None = "weight") -> dict[Any, float]
     .. [2] Newman, M. E. J. (2010). Networks: An Introduction, section 7.2.
        Oxford University Press.
     """
-    prep = _prepare(G, weight)
-    return dict(zip(prep.nodes, _eigenvector(prep).tolist()))
+    prep = prepare_graph(G, weight)
+    return dict(zip(prep.nodes, eigenvector_values(prep).tolist()))
 
 
-def _pagerank(prep: _Prepared, alpha: float, tol: float, max_iter: int) -> np.ndarray:
+def pagerank_values(prep: Prepared, alpha: float, tol: float, max_iter: int) -> np.ndarray:
     n = prep.n
     if n == 0:
         return np.zeros(0)
-    _, strength = _degrees(prep)
+    _, strength = degree_arrays(prep)
     dangling = strength == 0
     inv = np.zeros(n)
     inv[~dangling] = 1.0 / strength[~dangling]
@@ -128,7 +128,7 @@ def pagerank(G, alpha: float = 0.85, weight: str | None = "weight", *, tol: floa
     .. [1] Page, L., Brin, S., Motwani, R. & Winograd, T. (1999). The PageRank
        citation ranking: bringing order to the web. Stanford InfoLab.
     """
-    prep = _prepare(G, weight)
-    return dict(zip(prep.nodes, _pagerank(prep, alpha, tol, max_iter).tolist()))
+    prep = prepare_graph(G, weight)
+    return dict(zip(prep.nodes, pagerank_values(prep, alpha, tol, max_iter).tolist()))
 
 

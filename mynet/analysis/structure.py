@@ -16,7 +16,7 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.sparse.csgraph import connected_components, shortest_path
 
-from .centrality import _clustering, _from_arrays, _prepare, _Prepared
+from .centrality import clustering_values, from_arrays, prepare_graph, Prepared
 
 __all__ = [
     "attribute_assortativity",
@@ -29,13 +29,13 @@ __all__ = [
 ]
 
 
-def _components(prep: _Prepared) -> tuple[int, np.ndarray]:
+def _components(prep: Prepared) -> tuple[int, np.ndarray]:
     if prep.n == 0:
         return 0, np.zeros(0, dtype=np.int64)
     return connected_components(prep.W, directed=False)
 
 
-def _largest(prep: _Prepared) -> np.ndarray:
+def _largest(prep: Prepared) -> np.ndarray:
     """Indices (sorted) of the nodes of the largest component (ties broken by smallest node)."""
     count, labels = _components(prep)
     if count == 0:
@@ -44,7 +44,7 @@ def _largest(prep: _Prepared) -> np.ndarray:
     return np.flatnonzero(labels == int(np.argmax(sizes)))
 
 
-def _path_length(prep: _Prepared, path_samples: int, seed) -> tuple[float, bool, int]:
+def _path_length(prep: Prepared, path_samples: int, seed) -> tuple[float, bool, int]:
     """Mean hop distance over ordered pairs of the largest component, exact or from sampled BFS sources."""
     keep = _largest(prep)
     m = len(keep)
@@ -81,12 +81,12 @@ def average_path_length(G, *, seed=0, path_samples: int = 500) -> dict[str, Any]
     dict
         ``length``, ``sampled`` (bool), ``sources`` (BFS sources used).
     """
-    prep = _prepare(G, None)
+    prep = prepare_graph(G, None)
     length, sampled, used = _path_length(prep, path_samples, seed)
     return {"length": length, "sampled": sampled, "sources": used}
 
 
-def _gnm(n: int, m: int, rng: np.random.Generator) -> _Prepared:
+def random_gnm(n: int, m: int, rng: np.random.Generator) -> Prepared:
     """A G(n, m) random graph: m distinct node pairs drawn uniformly (the model of ``nx.gnm_random_graph``)."""
     total = n * (n - 1) // 2
     m = min(m, total)
@@ -105,7 +105,7 @@ def _gnm(n: int, m: int, rng: np.random.Generator) -> _Prepared:
             _, first = np.unique(both, return_index=True)
             keys = both[np.sort(first)][:m]
         src, dst = keys // n, keys % n
-    return _from_arrays(list(range(n)), src, dst, np.ones(len(src)))
+    return from_arrays(list(range(n)), src, dst, np.ones(len(src)))
 
 
 #: Random graphs in the small-world comparison (Humphries & Gurney 2008 average over an ensemble).
@@ -115,16 +115,16 @@ ENSEMBLE = 20
 RANDOM_PATH_SOURCES = 100
 
 
-def _small_world(prep: _Prepared, seed, path_samples: int, L: float | None = None, ensemble: int = ENSEMBLE) -> dict[str, Any]:
+def _small_world(prep: Prepared, seed, path_samples: int, L: float | None = None, ensemble: int = ENSEMBLE) -> dict[str, Any]:
     n, m = prep.n, len(prep.src)
-    C = float(_clustering(prep).mean()) if n else 0.0
+    C = float(clustering_values(prep).mean()) if n else 0.0
     if L is None:
         L, _, _ = _path_length(prep, path_samples, seed)
     rng = np.random.default_rng(seed)
     Cs, Ls = [], []
     for child in rng.spawn(max(1, ensemble)):
-        rprep = _gnm(n, m, child)
-        Cs.append(float(_clustering(rprep).mean()) if n else 0.0)
+        rprep = random_gnm(n, m, child)
+        Cs.append(float(clustering_values(rprep).mean()) if n else 0.0)
         Ls.append(_path_length(rprep, min(path_samples, RANDOM_PATH_SOURCES), child)[0])
     Cs_a, Ls_a = np.asarray(Cs), np.asarray(Ls)
     C_r, L_r = float(Cs_a.mean()), float(Ls_a.mean())
@@ -213,7 +213,7 @@ def small_world(G, *, seed=0, path_samples: int = 500, ensemble: int = ENSEMBLE)
        Laurienti, P. J. (2011). The ubiquity of small-world networks. Brain
        Connectivity 1(5), 367-375.
     """
-    return _small_world(_prepare(G, None), seed, path_samples, ensemble=ensemble)
+    return _small_world(prepare_graph(G, None), seed, path_samples, ensemble=ensemble)
 
 
 def _pearson(x: np.ndarray, y: np.ndarray) -> float:
@@ -224,7 +224,7 @@ def _pearson(x: np.ndarray, y: np.ndarray) -> float:
     return float((xm * ym).sum() / den) if den > 0 else math.nan
 
 
-def _degree_assortativity(prep: _Prepared) -> float:
+def _degree_assortativity(prep: Prepared) -> float:
     deg = np.diff(prep.W.indptr).astype(float)
     a, b = deg[prep.src], deg[prep.dst]
     return _pearson(np.concatenate([a, b]), np.concatenate([b, a]))
@@ -249,10 +249,10 @@ def degree_assortativity(G) -> float:
     .. [1] Newman, M. E. J. (2003). Mixing patterns in networks. Phys. Rev. E
        67, 026126.
     """
-    return _degree_assortativity(_prepare(G, None))
+    return _degree_assortativity(prepare_graph(G, None))
 
 
-def _attribute_assortativity(prep: _Prepared, values: Mapping) -> float:
+def _attribute_assortativity(prep: Prepared, values: Mapping) -> float:
     codes: dict[Hashable, int] = {}
     cat = np.full(prep.n, -1, dtype=np.int64)
     for i, v in enumerate(prep.nodes):
@@ -295,7 +295,7 @@ def attribute_assortativity(G, values: Mapping) -> float:
     .. [1] Newman, M. E. J. (2003). Mixing patterns in networks. Phys. Rev. E
        67, 026126.
     """
-    return _attribute_assortativity(_prepare(G, None), values)
+    return _attribute_assortativity(prepare_graph(G, None), values)
 
 
 def _ei_counts(G, groups: Mapping, weight: str | None):
@@ -426,7 +426,7 @@ def network_summary(G, groups: Mapping | None = None, attrs: Mapping[str, Mappin
     .. [3] Krackhardt, D. & Stern, R. N. (1988). Informal networks and
        organizational crises. Social Psychology Quarterly 51(2), 123-140.
     """
-    prep = _prepare(G, None)
+    prep = prepare_graph(G, None)
     n, m = prep.n, len(prep.src)
     count, labels = _components(prep)
     L, sampled, used = _path_length(prep, path_samples, seed)

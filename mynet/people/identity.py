@@ -221,11 +221,11 @@ def _norm_uid(uid: str) -> str:
     return u[9:] if u.startswith("urn:uuid:") else u
 
 
-def _norm_emails(r: Record) -> list[str]:
+def record_emails(r: Record) -> list[str]:
     return [e for e in (normalise_email(x) for x in r.emails) if e]
 
 
-def _norm_phones(r: Record, region: str) -> list[str]:
+def record_phones(r: Record, region: str) -> list[str]:
     return [p for p in (normalise_phone(x, region or None) for x in r.phones) if p]
 
 
@@ -269,8 +269,8 @@ def resolve(
             uf.union(pos[a], pos[b])
 
     names = [s.record.display_name() for s in stored]
-    emails = [_norm_emails(s.record) for s in stored]
-    phones = [_norm_phones(s.record, s.region or default_region) for s in stored]
+    emails = [record_emails(s.record) for s in stored]
+    phones = [record_phones(s.record, s.region or default_region) for s in stored]
     by_key: dict[str, list[int]] = defaultdict(list)
     for i, s in enumerate(stored):
         uid = _norm_uid(s.record.uid)

@@ -172,14 +172,14 @@ def parse_message_folder(folder: Path, *, strict: bool = False, max_recipients: 
     RecordError
         In strict mode, at the first message that cannot be read.
     """
-    from .mbox import _LEADING_BLANK, _Notes, header_end, read_message
+    from .mbox import LEADING_BLANK, MessageNotes, header_end, read_message
 
     kind = "maildir" if is_maildir(folder) else "mailfolder"
     files = message_files(folder, known_suffixes)
     result = ParseResult(path=str(folder), kind=kind)
     if not files:
         raise InputError(str(folder), "holds no mail messages (a Maildir keeps them in cur/ and new/)")
-    notes = _Notes()
+    notes = MessageNotes()
     for index, path in enumerate(files):
         name = str(path)
         try:
@@ -190,7 +190,7 @@ def parse_message_folder(folder: Path, *, strict: bool = False, max_recipients: 
                 raise RecordError(name, reason, 1) from exc
             result.skipped.append(Skipped(source=name, line=1, reason=reason, index=index))
             continue
-        start = _LEADING_BLANK.match(data).end()
+        start = LEADING_BLANK.match(data).end()
         if data.startswith(b"From ", start):  # an mbox envelope line in front of a saved message
             eol = data.find(b"\n", start)
             start = len(data) if eol < 0 else eol + 1

@@ -69,7 +69,7 @@ __all__ = ["parse_mail", "decode_words", "bulk_reason", "iter_mbox_messages", "r
 MAX_KEPT = 200
 
 _BOM = b"\xef\xbb\xbf"
-_LEADING_BLANK = re.compile(rb"[\r\n]*")
+LEADING_BLANK = re.compile(rb"[\r\n]*")
 _FROM_CANDIDATE = re.compile(rb"^From ", re.M)
 # RFC 5322 section 3.6.8: a field name is printable US-ASCII except ":";
 # whitespace before the colon is the obsolete syntax of section 4.5.
@@ -106,7 +106,7 @@ def iter_mbox_messages(data: bytes):
         ``(line, header_start, end)``: the 1-based line of the ``From `` line,
         the offset just after it and the offset where the message ends.
     """
-    lead_end = _LEADING_BLANK.match(data).end()
+    lead_end = LEADING_BLANK.match(data).end()
     line, counted_to = 1, 0
     pending: tuple[int, int] | None = None
     for match in _FROM_CANDIDATE.finditer(data):
@@ -183,7 +183,7 @@ def bulk_reason(fields: Fields | dict[str, list[str]], recipients: int, max_reci
     return ""
 
 
-class _Notes:
+class MessageNotes:
     """File-level warnings, one per kind of problem, listing the lines (or, in a folder, the files)."""
 
     def __init__(self) -> None:
@@ -209,7 +209,7 @@ def read_message(
     index: int,
     line: int,
     max_recipients: int,
-    notes: _Notes,
+    notes: MessageNotes,
     where: str = "",
 ) -> tuple[Interaction | None, str, bool]:
     """Read one header block: ``(interaction or None, skip reason, has mail fields)``.
@@ -344,7 +344,7 @@ def parse_mail(
         data = data[len(_BOM):]
     if not data.strip():
         raise InputError(path, "is empty")
-    lead = _LEADING_BLANK.match(data).end()
+    lead = LEADING_BLANK.match(data).end()
     if single:
         start = lead
         if data.startswith(b"From ", lead) and not _HEADER_LINE.match(data, lead):
@@ -367,7 +367,7 @@ def parse_mail(
                 result.warnings.append(f"{path}: text before the first 'From ' line (line {first[0]}) is ignored")
             spans = _chain(first, spans)
 
-    notes = _Notes()
+    notes = MessageNotes()
     any_mail = False
     for index, (line, start, end) in enumerate(spans):
         interaction, reason, is_mail = _message(

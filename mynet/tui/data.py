@@ -289,7 +289,7 @@ def peek_snapshot(path: Path, today: date | None = None, as_of: date | str | Non
     """
     from types import SimpleNamespace
 
-    from ..analysis.snapshot import _apply_user, cache_key
+    from ..analysis.snapshot import apply_user_decisions, cache_key
     from ..evidence.network import resolve_as_of
 
     today = today or date.today()
@@ -303,7 +303,7 @@ def peek_snapshot(path: Path, today: date | None = None, as_of: date | str | Non
             return None
         analysis = Analysis.from_json(json.loads(row[0]))
         light = SimpleNamespace(warmth={int(k): SimpleNamespace(warmth=v.get("warmth", 0.0)) for k, v in warmth.items()})
-        _apply_user(store, light, analysis)  # the user's names and the warm counts, as analyse() applies them
+        apply_user_decisions(store, light, analysis)  # the user's names and the warm counts, as analyse() applies them
         return Snapshot(path, when.day, None, analysis, store.data_version, preview=True)  # type: ignore[arg-type]
 
     try:

@@ -19,7 +19,7 @@ import secrets
 from typing import Iterable
 
 from ..errors import NotFoundError
-from ..people.identity import _norm_emails, _norm_phones  # same normalisation as merging
+from ..people.identity import record_emails, record_phones  # same normalisation as merging
 from ..model import Record
 from ..people.normalise import normalise_name
 from ..store import Store
@@ -67,7 +67,7 @@ def _digest(salt: str, kind: str, value: str) -> str:
 
 
 def _identifiers(r: Record, region: str = "") -> set[tuple[str, str]]:
-    out = {("email", e) for e in _norm_emails(r)} | {("tel", p) for p in _norm_phones(r, region)}
+    out = {("email", e) for e in record_emails(r)} | {("tel", p) for p in record_phones(r, region)}
     name = normalise_name(r.display_name())
     if name and "@" not in name:
         out.add(("name", name))

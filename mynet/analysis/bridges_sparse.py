@@ -18,7 +18,7 @@ import scipy.sparse as sp
 _BLOCK_NNZ = 4_000_000
 
 
-def _adjacency(n: int, lo: np.ndarray, hi: np.ndarray) -> sp.csr_matrix:
+def adjacency_matrix(n: int, lo: np.ndarray, hi: np.ndarray) -> sp.csr_matrix:
     ones = np.ones(len(lo), dtype=np.int32)
     A = sp.csr_matrix(
         (np.concatenate([ones, ones]), (np.concatenate([lo, hi]), np.concatenate([hi, lo]))), shape=(n, n)
@@ -39,7 +39,7 @@ def _lookup(keys: np.ndarray, data: np.ndarray, want: np.ndarray) -> np.ndarray:
     return out
 
 
-def _common_neighbours(
+def common_neighbours(
     A: sp.csr_matrix, lo: np.ndarray, hi: np.ndarray, *, squares: bool = False
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray | None]:
     """Degrees and, for each edge ``(lo[e], hi[e])``, the number of common neighbours.
@@ -97,10 +97,10 @@ def _common_neighbours(
     return deg, common, paths3
 
 
-def _paths3_rows(A: sp.csr_matrix, u: np.ndarray, v: np.ndarray) -> np.ndarray:
+def paths3_rows(A: sp.csr_matrix, u: np.ndarray, v: np.ndarray) -> np.ndarray:
     """For given ties ``u - v`` without common neighbours, the 3-hop paths joining them.
 
-    The same count as ``_common_neighbours(..., squares=True)``, one row per
+    The same count as ``common_neighbours(..., squares=True)``, one row per
     tie: ``rowsum((A[u] @ A) * A[v]) - k_u - k_v + 1``. Cheaper when only a
     few ties need a span.
     """
@@ -145,7 +145,7 @@ def _two_step_meets(A: sp.csr_matrix, u: np.ndarray, v: np.ndarray) -> np.ndarra
     return out
 
 
-def _spans(G: nx.Graph, A: sp.csr_matrix, nodes: list, lo: np.ndarray, hi: np.ndarray, paths3: np.ndarray) -> np.ndarray:
+def bridge_spans(G: nx.Graph, A: sp.csr_matrix, nodes: list, lo: np.ndarray, hi: np.ndarray, paths3: np.ndarray) -> np.ndarray:
     """Span of each given tie without common neighbours.
 
     3 when a 3-hop path exists (``paths3 > 0``), 4 when the 2-hop balls of

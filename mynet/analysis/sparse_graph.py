@@ -14,11 +14,13 @@ import networkx as nx
 import numpy as np
 import scipy.sparse as sp
 
-__all__ = ["_Prepared", "_sorted_nodes", "_prepare", "_from_arrays", "_degrees"]
+from .groups import sorted_nodes
+
+__all__ = ["Prepared", "prepare_graph", "from_arrays", "degree_arrays"]
 
 
 @dataclass
-class _Prepared:
+class Prepared:
     """Sorted nodes, undirected edge list (i < j, once each) and the symmetric weight matrix."""
 
     nodes: list
@@ -39,17 +41,10 @@ class _Prepared:
         return g
 
 
-def _sorted_nodes(G) -> list:
-    try:
-        return sorted(G)
-    except TypeError:  # mixed node types: still deterministic
-        return sorted(G, key=lambda x: (type(x).__name__, repr(x)))
-
-
-def _prepare(G, weight: str | None = "weight") -> _Prepared:
+def prepare_graph(G, weight: str | None = "weight") -> Prepared:
     if G.is_directed() or G.is_multigraph():
         raise nx.NetworkXNotImplemented("contact measures need an undirected simple Graph")
-    nodes = _sorted_nodes(G)
+    nodes = sorted_nodes(G)  # mixed node types: still deterministic
     index = {v: i for i, v in enumerate(nodes)}
     src, dst, w = [], [], []
     for u, v, d in G.edges(data=True):
@@ -59,10 +54,10 @@ def _prepare(G, weight: str | None = "weight") -> _Prepared:
         src.append(min(i, j))
         dst.append(max(i, j))
         w.append(1.0 if weight is None else float(d.get(weight, 1.0)))
-    return _from_arrays(nodes, np.asarray(src, dtype=np.int64), np.asarray(dst, dtype=np.int64), np.asarray(w, dtype=float))
+    return from_arrays(nodes, np.asarray(src, dtype=np.int64), np.asarray(dst, dtype=np.int64), np.asarray(w, dtype=float))
 
 
-def _from_arrays(nodes: list, src_a: np.ndarray, dst_a: np.ndarray, w_a: np.ndarray) -> _Prepared:
+def from_arrays(nodes: list, src_a: np.ndarray, dst_a: np.ndarray, w_a: np.ndarray) -> Prepared:
     """Build from undirected edges given once each as index pairs with src < dst."""
     if w_a.size and not (np.all(np.isfinite(w_a)) and np.all(w_a > 0)):
         raise ValueError("tie strengths must be positive finite numbers")
@@ -72,10 +67,10 @@ def _from_arrays(nodes: list, src_a: np.ndarray, dst_a: np.ndarray, w_a: np.ndar
     both = (np.concatenate([src_a, dst_a]), np.concatenate([dst_a, src_a]))
     W = sp.coo_array((np.concatenate([w_a, w_a]), both), shape=(n, n)).tocsr()
     W.sort_indices()
-    return _Prepared(nodes, src_a, dst_a, w_a, W)
+    return Prepared(nodes, src_a, dst_a, w_a, W)
 
 
-def _degrees(prep: _Prepared) -> tuple[np.ndarray, np.ndarray]:
+def degree_arrays(prep: Prepared) -> tuple[np.ndarray, np.ndarray]:
     """Degree (number of ties) and strength (sum of tie strengths) per node."""
     deg = np.diff(prep.W.indptr).astype(float)
     strength = np.asarray(prep.W.sum(axis=1)).ravel()
