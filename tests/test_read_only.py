@@ -14,7 +14,7 @@ import stat
 
 import pytest
 
-import mynet.store as store_module
+import mynet.store.database as store_module
 from mynet.cli import main
 from mynet.errors import WorkspaceError
 from mynet.store import Store

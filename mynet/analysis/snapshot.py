@@ -254,10 +254,9 @@ def analyse(store: Store, net: Network | None = None, *, force: bool = False) ->
     inputs = cache_inputs(store, net, model)
     fp = inputs_digest(inputs)
     key = cache_key(net)
-    row = store.conn.execute("SELECT data FROM cache WHERE key = ?", (key,)).fetchone()
+    data = store.cached_any(key)
     result = None
-    if row and not force:
-        data = json.loads(row[0])
+    if data and not force:
         if data.get("fingerprint") == fp:
             result = Analysis.from_json(data)
     if result is None:

@@ -6,7 +6,6 @@ workspace under the current data version) and explains any one tie in full.
 
 from __future__ import annotations
 
-import json
 from collections import defaultdict
 from dataclasses import dataclass, field
 from datetime import date
@@ -46,12 +45,9 @@ class AsOf:
 
 
 def _newest_interaction(store: Store) -> date | None:
-    row = store.conn.execute(
-        "SELECT max(substr(json_extract(data, '$.when'), 1, 10)) FROM interactions "
-        "WHERE coalesce(json_extract(data, '$.bulk'), 0) = 0"
-    ).fetchone()
+    day = store.newest_interaction_day()
     try:
-        return date.fromisoformat(row[0]) if row and row[0] else None
+        return date.fromisoformat(day) if day else None
     except ValueError:
         return None
 
@@ -112,10 +108,8 @@ class Network:
 
 def anchor_key(store: Store, contact_id: int) -> str:
     """A stable record key standing for a contact in a decision."""
-    row = store.conn.execute(
-        "SELECT rkey FROM contact_map WHERE contact_id = ? ORDER BY rkey LIMIT 1", (contact_id,)
-    ).fetchone()
-    return row[0] if row else f"contact:{contact_id}"
+    keys = store.keys_of(contact_id)
+    return keys[0] if keys else f"contact:{contact_id}"
 
 
 def contact_of_key(cmap: dict[str, int], key: str) -> int | None:

@@ -9,9 +9,7 @@ one transaction of the core functions, so a CLI run elsewhere sees them.
 
 from __future__ import annotations
 
-import sqlite3
 import time
-from urllib.parse import quote
 from datetime import date
 from pathlib import Path
 from typing import Any, Callable
@@ -28,6 +26,7 @@ from ..errors import MynetError
 from ..workspace.location import resolve_workspace_path
 from ..safetext import shown
 from ..store import Store
+from ..store.watch import ChangeWatch
 from .data import Extras, Snapshot, load_extras, load_snapshot, peek_snapshot, with_store
 from .look import THEME, Static, plural
 
@@ -213,8 +212,7 @@ class MynetApp(App):
         self._load_seq = 0
         self._applied_seq = 0
         self._watch_interval = watch_interval
-        self._watch_conn: sqlite3.Connection | None = None
-        self._watch_value: int | None = None
+        self._watch = ChangeWatch(path)
         self.error: str = ""
 
     # -- life cycle ----------------------------------------------------------------
@@ -227,8 +225,7 @@ class MynetApp(App):
             self.set_interval(self._watch_interval, self._watch_tick)
 
     def on_unmount(self) -> None:
-        if self._watch_conn is not None:
-            self._watch_conn.close()
+        self._watch.close()
 
     @property
     def main(self) -> MainScreen:
@@ -374,27 +371,14 @@ class MynetApp(App):
                 screen.refresh_view(snap)
 
     # -- seeing changes made elsewhere ------------------------------------------------------
-    def _decisions_mark(self, conn: sqlite3.Connection) -> tuple[int, int]:
-        version = conn.execute("SELECT value FROM meta WHERE key = 'data_version'").fetchone()
-        last = conn.execute("SELECT COALESCE(MAX(id), 0) FROM decisions").fetchone()
-        return int(version[0]) if version else 0, int(last[0])
-
     def _rebaseline(self, snap: Snapshot | None = None) -> None:
         """Remember the workspace's state; with ``snap``, reload at once if it changed while ``snap`` was read.
 
         An import by another process while the network was loading (the first
         seconds after opening, say) would otherwise be taken as already shown.
         """
-        try:
-            if self._watch_conn is None:
-                self._watch_conn = sqlite3.connect(f"file:{quote(str(self.path.absolute()))}?mode=ro", uri=True,
-                                                   timeout=0.1)
-            self._watch_value = self._watch_conn.execute("PRAGMA data_version").fetchone()[0]
-            self._mark = self._decisions_mark(self._watch_conn)
-        except sqlite3.Error:
-            self._watch_value = None
-            return
-        if snap is not None and self._mark != (snap.data_version, snap.decisions_seen):
+        mark = self._watch.settle()
+        if mark is not None and snap is not None and mark != (snap.data_version, snap.decisions_seen):
             self._changed_elsewhere()
 
     def _changed_elsewhere(self) -> None:
@@ -403,18 +387,9 @@ class MynetApp(App):
 
     def _watch_tick(self) -> None:
         """Reload when another process changed the network or the decisions (cheap when nothing did)."""
-        if self._watch_conn is None or self._jobs or self.snapshot is None:
+        if self._jobs or self.snapshot is None:
             return
-        try:
-            value = self._watch_conn.execute("PRAGMA data_version").fetchone()[0]
-            if value == self._watch_value:
-                return
-            self._watch_value = value
-            mark = self._decisions_mark(self._watch_conn)
-        except sqlite3.Error:
-            return
-        if mark != getattr(self, "_mark", None):
-            self._mark = mark
+        if self._watch.changed():
             self._changed_elsewhere()
 
     # -- actions -------------------------------------------------------------------------

@@ -8,7 +8,6 @@ connection, so it can run in any thread. Nothing here imports Textual.
 
 from __future__ import annotations
 
-import json
 import sqlite3
 import threading
 import time
@@ -296,12 +295,11 @@ def peek_snapshot(path: Path, today: date | None = None, as_of: date | str | Non
 
     def run(store: Store) -> Snapshot | None:
         when = resolve_as_of(store, as_of, today=today)
-        row = store.conn.execute("SELECT data FROM cache WHERE key = ?",
-                                 (cache_key(SimpleNamespace(as_of=when)),)).fetchone()  # type: ignore[arg-type]
+        data = store.cached_any(cache_key(SimpleNamespace(as_of=when)))  # type: ignore[arg-type]
         warmth = store.cached(f"warmth:v1:{when.day.isoformat()}")
-        if row is None or warmth is None:
+        if data is None or warmth is None:
             return None
-        analysis = Analysis.from_json(json.loads(row[0]))
+        analysis = Analysis.from_json(data)
         light = SimpleNamespace(warmth={int(k): SimpleNamespace(warmth=v.get("warmth", 0.0)) for k, v in warmth.items()})
         apply_user_decisions(store, light, analysis)  # the user's names and the warm counts, as analyse() applies them
         return Snapshot(path, when.day, None, analysis, store.data_version, preview=True)  # type: ignore[arg-type]
@@ -326,9 +324,9 @@ def load_snapshot(path: Path, today: date | None = None, status: Status | None =
 
     def run(store: Store) -> Snapshot:
         version = store.data_version
-        decisions = int(store.conn.execute("SELECT COALESCE(MAX(id), 0) FROM decisions").fetchone()[0])
+        decisions = store.last_decision_id()
         net = load_network(store, today=today, as_of=as_of)
-        cached = store.conn.execute("SELECT 1 FROM cache WHERE key = ?", (cache_key(net),)).fetchone()
+        cached = store.has_cache(cache_key(net))
         if status and not cached:
             status("Finding groups and measuring the network (first time after an import)…")
         analysis = analyse(store, net)

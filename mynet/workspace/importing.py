@@ -335,7 +335,7 @@ def detach_address(store: Store, contact_id: int | None, address: str, *, undo: 
                 whom = f"{contact.name} ({contact_id})" if contact else "anyone who is gone"
                 raise NotFoundError(f"{addr} was not detached from {whom}")
             for rid in rows:
-                store.conn.execute("DELETE FROM decisions WHERE id = ?", (rid,))
+                store.delete_decision(rid)
             store.bump_data_version()
         else:
             if contact is None or addr not in contact.emails:
@@ -398,7 +398,7 @@ def find_contact(store: Store, query: str) -> Contact:
 
 
 def _keys_of(store: Store, contact_id: int) -> list[str]:
-    return [k for (k,) in store.conn.execute("SELECT rkey FROM contact_map WHERE contact_id = ? ORDER BY rkey", (contact_id,))]
+    return store.keys_of(contact_id)
 
 
 def merge_contacts(store: Store, ids: list[int]) -> Contact:

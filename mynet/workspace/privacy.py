@@ -122,11 +122,7 @@ class ForgetReport(dict):
 
 def compact(store: Store) -> None:
     """Drop caches, truncate the write-ahead log and vacuum, so deleted rows leave no trace in the file."""
-    with store.transaction():
-        store.conn.execute("DELETE FROM cache")
-    store.conn.execute("PRAGMA wal_checkpoint(TRUNCATE)")
-    store.conn.execute("VACUUM")
-    store.conn.execute("PRAGMA wal_checkpoint(TRUNCATE)")
+    store.compact()
 
 
 def _scrub_interactions(store: Store, emails: set[str]) -> int:
@@ -134,9 +130,7 @@ def _scrub_interactions(store: Store, emails: set[str]) -> int:
     if not emails:
         return 0
     changed = 0
-    rows = store.conn.execute("SELECT id, data FROM interactions").fetchall()
-    for rid, data in rows:
-        d = json.loads(data)
+    for rid, d in store.interaction_rows():
         people = set(d.get("participants", []))
         if not people & emails and d.get("sender") not in emails and d.get("organizer") not in emails:
             continue
@@ -145,7 +139,7 @@ def _scrub_interactions(store: Store, emails: set[str]) -> int:
         for key in ("sender", "organizer"):
             if d.get(key) in emails:
                 d[key] = ""
-        store.conn.execute("UPDATE interactions SET data = ? WHERE id = ?", (json.dumps(d, ensure_ascii=False), rid))
+        store.update_interaction(rid, d)
         changed += 1
     return changed
 
@@ -164,7 +158,7 @@ def _drop_decisions_about(store: Store, keys: Iterable[str]) -> int:
     keys = list(keys)
     n = 0
     for k in keys:
-        n += store.conn.execute("DELETE FROM decisions WHERE a = ? OR b = ?", (k, k)).rowcount
+        n += store.delete_decisions_about(k)
     return n
 
 
@@ -192,10 +186,8 @@ def forget_contact(store: Store, contact_id: int) -> ForgetReport:
     # Every address of the person, also those only mail or calendars gave (a person found there has no record).
     hashes.update(_digest(salt, "email", e) for e in emails)
     with store.transaction():
-        for rid, _k, _s, _r in rows:
-            store.conn.execute("DELETE FROM records WHERE id = ?", (rid,))
-        store.conn.execute("DELETE FROM contact_map WHERE contact_id = ?", (contact_id,))
-        store.conn.execute("DELETE FROM contacts WHERE id = ?", (contact_id,))
+        store.delete_records([rid for rid, _k, _s, _r in rows])
+        store.delete_contact(contact_id)
         scrubbed = _scrub_interactions(store, emails)
         dropped = _drop_decisions_about(store, keys)
         store.set_meta("forgotten", json.dumps(sorted(hashes)))
@@ -221,14 +213,13 @@ def remove_source(store: Store, path: str) -> ForgetReport:
         raise NotFoundError(f"{path!r} matches several sources: " + ", ".join(s["path"] for s in candidates))
     src = candidates[0]
     with store.transaction():
-        n_rec = store.conn.execute("SELECT COUNT(*) FROM records WHERE source_id = ?", (src["id"],)).fetchone()[0]
-        n_int = store.conn.execute("SELECT COUNT(*) FROM interactions WHERE source_id = ?", (src["id"],)).fetchone()[0]
+        n_rec, n_int = store.source_counts(src["id"])
         before = store.contact_map()
         keys_of: dict[int, list[str]] = {}
         for k, cid in sorted(before.items()):
             keys_of.setdefault(cid, []).append(k)
-        store.conn.execute("DELETE FROM sources WHERE id = ?", (src["id"],))
-        live = {k for (k,) in store.conn.execute("SELECT rkey FROM records")}
+        store.remove_source(src["id"])
+        live = store.record_keys()
         # People found in mail are keyed by their address, not by a record: their decisions stay (they are
         # kept when the refresh below still finds them in another file).
         live |= {k for k in before if k.startswith("found:")}
@@ -247,10 +238,9 @@ def remove_source(store: Store, path: str) -> ForgetReport:
                     else:
                         gone = True
             if gone:
-                dropped += store.conn.execute("DELETE FROM decisions WHERE id = ?", (row["id"],)).rowcount
+                dropped += store.delete_decision(row["id"])
             elif new:
-                sets = ", ".join(f"{c} = ?" for c in new)
-                store.conn.execute(f"UPDATE decisions SET {sets} WHERE id = ?", (*new.values(), row["id"]))
+                store.move_decision(row["id"], **new)
                 moved += 1
         store.bump_data_version()
         refresh_contacts(store)
