@@ -79,7 +79,7 @@ def generate(folder: Path, n: int, seed: int = 11) -> list[Path]:
 
 def sample_workspace(folder: Path):
     from mynet.cli.demo import SOURCE_FILES, sample_dir
-    from mynet.workspace.decisions import update_list_setting
+    from mynet.workspace.settings import update_list_setting
 
     src = sample_dir()
     truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))

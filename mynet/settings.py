@@ -2,8 +2,8 @@
 
 A setting is declared once, in one of two ways:
 
-* a field of a model dataclass (``tie_model.*`` in :mod:`mynet.ties`,
-  ``warmth_model.*`` in :mod:`mynet.warmth`, ``analysis.*`` in
+* a field of a model dataclass (``tie_model.*`` in :mod:`mynet.evidence.ties`,
+  ``warmth_model.*`` in :mod:`mynet.evidence.warmth`, ``analysis.*`` in
   :mod:`mynet.analysis.snapshot`), written with :func:`setting` beside the field::
 
       half_life_days: float = setting(180.0, "days after which an interaction counts half", low=0, low_open=True)
@@ -13,10 +13,10 @@ A setting is declared once, in one of two ways:
 * a workspace-wide value (``webmail_domains``, ``org_aliases``), written with
   :func:`declare` in this module.
 
-:func:`schema` collects both into one table (name -> :class:`Spec`). ``mynet
-settings`` lists it, :func:`parse` checks what a user types (a clear error naming
-the setting and what it accepts), and :meth:`SettingsGroup.from_settings` checks what
-is stored, so a value that is out of range or of the wrong type never reaches the
+:func:`mynet.workspace.settings.schema` collects both into one table (name ->
+:class:`Spec`). ``mynet settings`` lists it, :func:`mynet.workspace.settings.parse`
+checks what a user types (a clear error naming the setting and what it accepts),
+and :meth:`SettingsGroup.from_settings` checks what is stored, so a value that is out of range or of the wrong type never reaches the
 analysis. Adding a setting is one entry: a field with :func:`setting`, or one
 :func:`declare` call.
 """
@@ -30,7 +30,7 @@ from typing import Any, ClassVar, Mapping
 
 from .errors import MynetError
 
-__all__ = ["Spec", "SettingsGroup", "setting", "declare", "schema", "groups", "parse", "stored_value", "SettingError"]
+__all__ = ["Spec", "SettingsGroup", "setting", "declare", "registered", "SettingError"]
 
 
 class SettingError(MynetError):
@@ -258,47 +258,10 @@ declare("org_aliases", "aliases", "other names of an organisation (ALIAS=NAME), 
         affects="contacts")
 
 
-def groups() -> dict[str, type]:
-    """Group name -> its model dataclass (``tie_model``, ``warmth_model``, ``analysis``)."""
-    from .evidence import ties, warmth  # noqa: F401  (their classes register themselves)
-    from .analysis import snapshot  # noqa: F401
+def registered() -> tuple[dict[str, type], dict[str, Spec]]:
+    """The model groups and the workspace-wide settings declared so far (group name -> class, name -> spec).
 
-    return dict(_GROUPS)
-
-
-def schema() -> dict[str, Spec]:
-    """Every setting: full name -> :class:`Spec`, model groups first, then the workspace-wide ones."""
-    out: dict[str, Spec] = {}
-    for cls in groups().values():
-        out.update({spec.name: spec for spec in cls.specs().values()})
-    out.update(_DECLARED)
-    return out
-
-
-def stored_value(settings: Mapping[str, Any], name: str) -> Any:
-    """The value in force for a full setting name, from the stored settings (its default when unset)."""
-    spec = schema()[name]
-    if "." in name and name.split(".", 1)[0] in _GROUPS:
-        group, key = name.split(".", 1)
-        raw = settings.get(group) or {}
-        return raw.get(key, spec.default)
-    value = settings.get(name)
-    return spec.default if value is None else value
-
-
-def parse(name: str, text: str, current: Any = None) -> Any:
-    """Check the value typed for setting ``name``.
-
-    Raises
-    ------
-    SettingError
-        For an unknown name (with the closest known one) or a value the setting does not accept.
+    A model group registers itself when its module is imported; the full schema
+    of a workspace, every group included, is :func:`mynet.workspace.settings.schema`.
     """
-    specs = schema()
-    if name not in specs:
-        import difflib
-
-        close = difflib.get_close_matches(name, list(specs), n=1)
-        hint = f"; did you mean {close[0]}?" if close else ""
-        raise SettingError(f"unknown setting {name!r}{hint} (mynet settings lists them all)")
-    return specs[name].parse(text, current)
+    return dict(_GROUPS), dict(_DECLARED)

@@ -47,7 +47,7 @@ def import_sample(ws_path: Path):
 
     from mynet.cli.demo import SOURCE_FILES, sample_dir
     from mynet.workspace.importing import import_paths, open_workspace, set_me
-    from mynet.workspace.decisions import update_list_setting
+    from mynet.workspace.settings import update_list_setting
 
     src = sample_dir()
     truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))

@@ -88,7 +88,8 @@ def _fresh(store):
 @pytest.mark.parametrize("change", ["rate", "unrate", "resolution", "webmail", "alias"])
 def test_cached_analysis_is_never_stale(tmp_path, change):
     # Whatever the analysis reads, a change to it gives the answer a fresh computation gives.
-    from mynet.workspace.decisions import rate_contact, update_setting
+    from mynet.workspace.decisions import rate_contact
+    from mynet.workspace.settings import update_setting
 
     teams = {"alder": TEAMS["alder"], "birch": TEAMS["birch"], "cedar": ["Kim Xu", "Lu Yi", "Mo Zed"]}
     f = team_csv(tmp_path / "people.csv", teams)

@@ -304,7 +304,7 @@ def test_import_without_me_says_how_to_say_who_you_are(tmp_path, capsys):
 
 def test_relay_and_archive_domains_are_no_employer_nor_group_name(tmp_path):
     from mynet.analysis.snapshot import analyse
-    from mynet.workspace.decisions import update_list_setting
+    from mynet.workspace.settings import update_list_setting
 
     rows = ["Name,Email,Tags"] + [f"{n},{n.split()[0].lower()}@lists.harbour.example,rowing"
                                   for n in ("Ana Lind", "Bo Ek", "Cy Moss", "Di Park")]

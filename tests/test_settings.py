@@ -7,10 +7,10 @@ from dataclasses import fields
 
 import pytest
 
-from mynet import settings
+from mynet.workspace import settings
 from mynet.analysis.snapshot import AnalysisModel
 from mynet.cli import main
-from mynet.settings import SettingError, SettingsGroup
+from mynet.settings import SettingError, SettingsGroup, setting
 from mynet.evidence.ties import TieModel
 from mynet.evidence.warmth import WarmthModel
 from mynet.workspace.importing import open_workspace
@@ -103,9 +103,9 @@ def test_a_new_setting_is_one_declaration():
     @dataclass
     class Extra(SettingsGroup):  # no group: not registered, but read the same way
         group = "extra"
-        clique_limit: int = settings.setting(12, "largest meeting counted as a clique", low=2)
-        mode: str = settings.setting("plain", "how to count", choices=("plain", "graded"))
-        strict: bool = settings.setting(False, "stop at the first problem")
+        clique_limit: int = setting(12, "largest meeting counted as a clique", low=2)
+        mode: str = setting("plain", "how to count", choices=("plain", "graded"))
+        strict: bool = setting(False, "stop at the first problem")
 
     assert Extra.from_settings({"clique_limit": 20, "mode": "graded", "strict": True}) == Extra(20, "graded", True)
     with pytest.raises(SettingError, match="extra.clique_limit takes a whole number at least 2"):

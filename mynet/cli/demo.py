@@ -14,7 +14,7 @@ from ..analysis.snapshot import analyse
 from ..evidence.network import describe, evidence_summary, explain_tie, load_network, tie_words
 from ..analysis.intro_routes import reach, resolve_targets
 from ..workspace.importing import import_paths, merge_suggestions, open_workspace, set_me
-from ..workspace.decisions import update_list_setting
+from ..workspace.settings import update_list_setting
 from ._common import echo, note, table
 from .contacts import region_words
 

@@ -7,8 +7,9 @@ import click
 from ..errors import MynetError
 from ..evidence.network import basis, describe, evidence_summary, explain_tie, tie_words
 from ..workspace.importing import find_contact
-from .. import settings as settings_schema
-from ..workspace.decisions import add_tie, rate_contact, remove_tie, update_setting
+from ..workspace import settings as settings_schema
+from ..workspace.decisions import add_tie, rate_contact, remove_tie
+from ..workspace.settings import update_setting
 from ._common import as_of_option, echo, emit_json, json_option, load_net, note, table
 
 

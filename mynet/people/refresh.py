@@ -14,7 +14,7 @@ from .identity import Decisions, Me, Resolution, StoredRecord, resolve
 from .mailpeople import address_origins, attach_by_name, found_key, found_records, infer_region, your_other_addresses
 from ..model import Contact
 from .normalise import normalise_email, normalise_name
-from ..workspace.privacy import forgotten_address
+from .forgotten import forgotten_address
 from ..store import Store
 
 __all__ = ["refresh_contacts", "get_me", "decisions_of"]

@@ -2,15 +2,12 @@
 
 from __future__ import annotations
 
-from typing import Any
 
-from .. import settings
 from ..errors import MynetError
 from ..evidence.network import anchor_key
 from ..store import Store
 
-__all__ = ["add_tie", "remove_tie", "rate_contact", "update_setting", "update_settings", "update_list_setting",
-           "decide_label", "LABEL_VERDICTS"]
+__all__ = ["add_tie", "remove_tie", "rate_contact", "decide_label", "LABEL_VERDICTS"]
 
 
 def _pair_keys(store: Store, a: int, b: int) -> tuple[str, str]:
@@ -50,47 +47,6 @@ def rate_contact(store: Store, cid: int, value: float | None) -> None:
     with store.transaction():
         store.delete_decisions("rate", key)
         store.add_decision("rate", key, "", value)
-
-
-def update_setting(store: Store, name: str, text: str) -> Any:
-    """Change one setting (``tie_model.meeting_scale``, ``webmail_domains``...) from the text a user typed.
-
-    The value is checked against the setting's schema entry (:mod:`mynet.settings`) before
-    anything is stored; a list setting takes a leading ``+`` to add to its current value.
-    Returns the value stored.
-
-    Raises
-    ------
-    SettingError
-        For an unknown setting or a value it does not accept (nothing is stored).
-    """
-    from .importing import refresh_contacts
-
-    spec = settings.schema().get(name)
-    group = name.split(".", 1)[0] if "." in name and name.split(".", 1)[0] in settings.groups() else None
-    current = settings.stored_value(store.settings(), name) if spec else None
-    value = settings.parse(name, text, current)
-    with store.transaction():
-        if group:
-            stored = dict(store.setting(group, {}) or {})
-            stored[name.split(".", 1)[1]] = value
-            store.set_setting(group, stored)
-        else:
-            store.set_setting(name, value)
-        if spec.affects == "contacts":
-            refresh_contacts(store)
-    return value
-
-
-def update_list_setting(store: Store, name: str, value: str) -> Any:
-    """Set a workspace-wide list setting (``webmail_domains``, ``org_aliases``); see :func:`update_setting`."""
-    return update_setting(store, name, value)
-
-
-def update_settings(store: Store, group: str, key: str, value: str) -> dict[str, Any]:
-    """Change one model setting (``tie_model``, ``meeting_scale``, ``"3"``); returns the group's stored values."""
-    update_setting(store, f"{group}.{key}", value)
-    return dict(store.setting(group, {}) or {})
 
 
 LABEL_VERDICTS = ("count", "ignore")

@@ -208,7 +208,7 @@ def import_paths(
         report.files.append(fr)
         parsed.append((key_path, path, size, digest, result))
 
-    from .privacy import forgotten_filter, scrub_forgotten
+    from ..people.forgotten import forgotten_filter, scrub_forgotten
 
     is_forgotten = forgotten_filter(store)
     assumed = (json.loads(store.meta("region_assumed", "{}") or "{}") or {}).get("region", "")

@@ -8,25 +8,20 @@ without free pages.
 
 A forgotten person stays forgotten: a salted hash of each of their e-mail
 addresses, phone numbers and names is kept (never the values themselves), and
-a later import leaves out records that match one.
+a later import leaves out records that match one (:mod:`mynet.people.forgotten`).
 """
 
 from __future__ import annotations
 
-import hashlib
 import json
-import secrets
 from typing import Iterable
 
 from ..errors import NotFoundError
-from ..people.identity import record_emails, record_phones  # same normalisation as merging
-from ..model import Record
-from ..people.normalise import normalise_name
+from ..people.forgotten import remember_forgotten
+from ..people.refresh import refresh_contacts
 from ..store import Store
 
-__all__ = ["forget_contact", "remove_source", "compact", "forgotten_filter", "forgotten_address", "ForgetReport",
-           "remember_written",
-           "written_files"]
+__all__ = ["forget_contact", "remove_source", "compact", "ForgetReport", "remember_written", "written_files"]
 
 #: Meta key listing the reports and exports written from this workspace (paths only, no content).
 WRITTEN_KEY = "written_files"
@@ -52,68 +47,6 @@ def written_files(store: Store) -> list[str]:
     import os
 
     return [p for p in json.loads(store.meta(WRITTEN_KEY, "[]") or "[]") if os.path.exists(p)]
-
-
-def _salt(store: Store) -> str:
-    salt = store.meta("forget_salt")
-    if not salt:
-        salt = secrets.token_hex(16)
-        store.set_meta("forget_salt", salt)
-    return salt
-
-
-def _digest(salt: str, kind: str, value: str) -> str:
-    return hashlib.sha256(f"{salt}\x00{kind}\x00{value}".encode("utf-8")).hexdigest()
-
-
-def _identifiers(r: Record, region: str = "") -> set[tuple[str, str]]:
-    out = {("email", e) for e in record_emails(r)} | {("tel", p) for p in record_phones(r, region)}
-    name = normalise_name(r.display_name())
-    if name and "@" not in name:
-        out.add(("name", name))
-    return out
-
-
-def forgotten_filter(store: Store):
-    """A predicate telling whether a record belongs to a forgotten person (by e-mail or phone, or by name alone
-    when the record has neither)."""
-    hashes = set(json.loads(store.meta("forgotten", "[]") or "[]"))
-    if not hashes:
-        return lambda r, region="": False
-    salt = _salt(store)
-
-    def is_forgotten(r: Record, region: str = "") -> bool:
-        ids = _identifiers(r, region)
-        strong = [i for i in ids if i[0] != "name"]
-        check = strong or list(ids)
-        return any(_digest(salt, k, v) in hashes for k, v in check)
-
-    return is_forgotten
-
-
-def forgotten_address(store: Store):
-    """A predicate telling whether an e-mail address belongs to a forgotten person."""
-    hashes = set(json.loads(store.meta("forgotten", "[]") or "[]"))
-    if not hashes:
-        return lambda addr: False
-    salt = _salt(store)
-    return lambda addr: _digest(salt, "email", addr) in hashes
-
-
-def scrub_forgotten(store: Store, interactions) -> int:
-    """Take forgotten people's addresses out of newly read meetings and messages (in place); how many changed."""
-    is_forgotten = forgotten_address(store)
-    changed = 0
-    for it in interactions:
-        gone = {a for a in [*it.participants, it.sender, it.organizer, *(it.names or {})] if a and is_forgotten(a)}
-        if not gone:
-            continue
-        it.participants = [a for a in it.participants if a not in gone]
-        it.names = {a: n for a, n in (it.names or {}).items() if a not in gone}
-        it.sender = "" if it.sender in gone else it.sender
-        it.organizer = "" if it.organizer in gone else it.organizer
-        changed += 1
-    return changed
 
 
 class ForgetReport(dict):
@@ -170,8 +103,6 @@ def forget_contact(store: Store, contact_id: int) -> ForgetReport:
     NotFoundError
         When there is no such contact.
     """
-    from .importing import refresh_contacts
-
     contact = store.contact(contact_id)
     if contact is None:
         raise NotFoundError(f"no contact with id {contact_id}")
@@ -179,18 +110,13 @@ def forget_contact(store: Store, contact_id: int) -> ForgetReport:
     # Every key that stands for them, the keys of people found in mail included (they have no record).
     keys = sorted({k for _rid, k, _s, _r in rows} | {k for k, v in store.contact_map().items() if v == contact_id})
     emails = set(contact.emails)
-    salt = _salt(store)
-    hashes = set(json.loads(store.meta("forgotten", "[]") or "[]"))
-    for _rid, _k, src, rec in rows:
-        hashes.update(_digest(salt, kind, value) for kind, value in _identifiers(rec, src["region"] or ""))
-    # Every address of the person, also those only mail or calendars gave (a person found there has no record).
-    hashes.update(_digest(salt, "email", e) for e in emails)
     with store.transaction():
         store.delete_records([rid for rid, _k, _s, _r in rows])
         store.delete_contact(contact_id)
         scrubbed = _scrub_interactions(store, emails)
         dropped = _drop_decisions_about(store, keys)
-        store.set_meta("forgotten", json.dumps(sorted(hashes)))
+        # Every address of the person, also those only mail or calendars gave (a person found there has no record).
+        remember_forgotten(store, [(rec, src["region"] or "") for _rid, _k, src, rec in rows], emails)
         _drop_from_group_state(store, contact_id)
         store.bump_data_version()
         refresh_contacts(store)
@@ -202,8 +128,6 @@ def remove_source(store: Store, path: str) -> ForgetReport:
     """Remove an imported file and everything only it supported (its records, events, messages, and the
     decisions about records that no longer exist)."""
     from pathlib import Path
-
-    from .importing import refresh_contacts
 
     candidates = [s for s in store.sources() if s["path"] == path or s["path"] == str(Path(path).resolve())
                   or Path(s["path"]).name == path]
