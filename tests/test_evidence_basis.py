@@ -13,7 +13,8 @@ from networkx.algorithms import bipartite
 from davis_ics import davis_email, davis_graph, davis_workspace
 from mynet.cli import main
 from mynet.model import Contact, Interaction
-from mynet.evidence.network import Network, evidence_summary, explain_tie, load_network, tie_words
+from mynet.evidence.network import Network, load_network
+from mynet.evidence.explain import evidence_summary, explain_tie, tie_words
 from mynet.analysis.intro_routes import Targets, reach
 from mynet.evidence.ties import EventIndex, TieModel, evidence_events, infer_ties
 from mynet.evidence.warmth import Warmth, WarmthModel

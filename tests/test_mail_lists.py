@@ -18,7 +18,8 @@ from mynet.cli import main
 from mynet.people.correspondence import address_facts, clean, correspondents, thread_members
 from mynet.sources.mbox import parse_mail
 from mynet.sources.mailaddr import KIND_WORDS, archive_parts, machine_kind, reverse_relay, via_name
-from mynet.evidence.network import explain_tie, load_network
+from mynet.evidence.network import load_network
+from mynet.evidence.explain import explain_tie
 from mynet.workspace.importing import find_contact, import_paths, open_workspace, set_me
 
 

@@ -9,7 +9,8 @@ from networkx.algorithms import bipartite
 
 from davis_ics import davis_email, davis_graph, davis_workspace
 from mynet.cli import main
-from mynet.evidence.network import explain_tie, load_network
+from mynet.evidence.network import load_network
+from mynet.evidence.explain import explain_tie
 from mynet.workspace.importing import import_paths, open_workspace, set_me
 from mynet.workspace.decisions import add_tie, rate_contact, remove_tie
 

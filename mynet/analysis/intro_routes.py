@@ -15,7 +15,8 @@ from typing import Any
 import numpy as np
 
 from ..errors import MynetError, NotFoundError
-from ..evidence.network import Network, basis, describe, evidence_summary
+from ..evidence.network import Network
+from ..evidence.explain import basis, describe, evidence_summary
 from ..people.normalise import email_domain, fold_text, normalise_org
 from .intro_search import IntroPath, PathIndex, best_per_target, direct_route, find_paths
 

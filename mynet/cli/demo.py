@@ -11,7 +11,8 @@ import click
 from ..errors import MynetError
 from ..analysis.audit import audit
 from ..analysis.snapshot import analyse
-from ..evidence.network import describe, evidence_summary, explain_tie, load_network, tie_words
+from ..evidence.network import load_network
+from ..evidence.explain import describe, evidence_summary, explain_tie, tie_words
 from ..analysis.intro_routes import reach, resolve_targets
 from ..workspace.importing import import_paths, merge_suggestions, open_workspace, set_me
 from ..workspace.settings import update_list_setting

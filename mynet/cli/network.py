@@ -5,7 +5,7 @@ from __future__ import annotations
 import click
 
 from ..errors import MynetError
-from ..evidence.network import basis, describe, evidence_summary, explain_tie, tie_words
+from ..evidence.explain import basis, describe, evidence_summary, explain_tie, tie_words
 from ..workspace.importing import find_contact
 from ..workspace import settings as settings_schema
 from ..workspace.decisions import add_tie, rate_contact, remove_tie

@@ -18,7 +18,8 @@ from typing import Any, Callable
 
 from ..analysis.audit import WARM, audit
 from ..analysis.snapshot import Analysis, analyse, tie_graph
-from ..evidence.network import AsOf, Network, basis, evidence_summary, load_network, tie_words
+from ..evidence.network import AsOf, Network, load_network
+from ..evidence.explain import basis, evidence_summary, tie_words
 from ..people.normalise import normalise_email
 from ..analysis.intro_routes import Targets, path_index, reach
 from ..store import Store

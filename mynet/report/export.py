@@ -43,7 +43,8 @@ import networkx as nx
 from ..analysis.bridges import neighbourhood_overlap
 from ..analysis.snapshot import Analysis, analyse, tie_graph
 from ..errors import MynetError
-from ..evidence.network import Network, basis, evidence_summary, load_network, tie_words
+from ..evidence.network import Network, load_network
+from ..evidence.explain import basis, evidence_summary, tie_words
 from . import check_redacted
 from ._io import write_private
 from .redact import redact_analysis, redact_network

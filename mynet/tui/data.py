@@ -23,7 +23,8 @@ from ..analysis.snapshot import Analysis, GroupInfo, analyse
 from ..errors import WorkspaceError
 from ..people.identity import Suggestion
 from ..model import Contact
-from ..evidence.network import Network, evidence_summary, explain_tie, load_network, tie_words
+from ..evidence.network import Network, load_network
+from ..evidence.explain import evidence_summary, explain_tie, tie_words
 from ..people.normalise import fold_text
 from ..analysis.intro_routes import org_catalogue, tag_catalogue
 from ..store import Store

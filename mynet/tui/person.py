@@ -11,7 +11,7 @@ from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.worker import WorkerState
 
-from ..evidence.network import basis, describe, evidence_summary
+from ..evidence.explain import basis, describe, evidence_summary
 from ..safetext import shown
 from ..workspace.importing import contact_records
 from ..workspace.decisions import add_tie, rate_contact, remove_tie
