@@ -83,11 +83,12 @@ def bare_pandas(path: str) -> dict:
 
 
 def mynet_import(*paths: str) -> dict:
-    from mynet.workspace.importing import import_paths, open_workspace
+    from mynet.workspace.importing import import_paths
+    from mynet.store import Store
 
     ws = Path(tempfile.mkdtemp()) / "ws.sqlite"
     t = time.perf_counter()
-    with open_workspace(ws) as store:
+    with Store(ws) as store:
         rep = import_paths(store, list(paths), region="GB")
     return {"what": "mynet import " + " + ".join(Path(p).name for p in paths), "records": rep.records_read,
             "contacts": rep.contacts_after, "merged": rep.merged_records, "seconds": round(time.perf_counter() - t, 2),

@@ -162,11 +162,13 @@ def reader(path: str, label: str) -> dict:
 
 
 def full_import(path: str, label: str) -> dict:
-    from mynet.workspace.importing import import_paths, open_workspace, set_me
+    from mynet.workspace.importing import import_paths
+    from mynet.store import Store
+    from mynet.workspace.people import set_me
 
     ws = Path(tempfile.mkdtemp()) / "ws.sqlite"
     t = time.perf_counter()
-    with open_workspace(ws) as store:
+    with Store(ws) as store:
         set_me(store, [YOU[1]], [YOU[0]])
         rep = import_paths(store, [path])
         contacts = len(store.contacts())

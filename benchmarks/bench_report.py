@@ -33,7 +33,9 @@ from mynet.analysis.snapshot import analyse  # noqa: E402
 from mynet.report.export import export_network  # noqa: E402
 from mynet.evidence.network import load_network  # noqa: E402
 from mynet.report import write_report  # noqa: E402
-from mynet.workspace.importing import import_paths, open_workspace, set_me  # noqa: E402
+from mynet.workspace.importing import import_paths  # noqa: E402
+from mynet.store import Store  # noqa: E402
+from mynet.workspace.people import set_me  # noqa: E402
 
 SYLLABLES = "ka lo mi ra ten vo sel dun mar is bel cor fen gal hol jun lin nor pel quin ros tal ul ver wyn yar zed".split()
 YOU = "you@example.org"
@@ -83,7 +85,7 @@ def sample_workspace(folder: Path):
 
     src = sample_dir()
     truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
-    store = open_workspace(folder / "sample.sqlite")
+    store = Store(folder / "sample.sqlite")
     set_me(store, truth["you"]["emails"], [truth["you"]["name"]])
     update_list_setting(store, "webmail_domains", ",".join(d for d in truth["personal_email_domains"] if d != "example.org"))
     import_paths(store, [src / f for f in SOURCE_FILES], region="GB")
@@ -125,7 +127,7 @@ def main(argv: list[str] | None = None) -> int:
                 sub = folder / f"gen{n}"
                 sub.mkdir()
                 files = generate(sub, n)
-                store = open_workspace(sub / "ws.sqlite")
+                store = Store(sub / "ws.sqlite")
                 set_me(store, [YOU], ["You"])
                 secs, _ = timed(import_paths, store, files)
                 print(f"\n(generated {n:,} contacts; import took {secs:.1f} s)")

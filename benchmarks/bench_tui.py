@@ -36,7 +36,9 @@ from textual import events
 from mynet.analysis.snapshot import analyse
 from mynet.evidence.network import load_network
 from mynet.tui import create_app
-from mynet.workspace.importing import import_paths, open_workspace, set_me
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
+from mynet.workspace.people import set_me
 
 TODAY = date(2026, 12, 1)
 SYLLABLES = ["ka", "lo", "mi", "ren", "sa", "tor", "vel", "yu", "bri", "dan", "fen", "gor", "hal", "is", "jun",
@@ -84,7 +86,7 @@ def build(ws: Path, n: int) -> None:
     t = time.perf_counter()
     with tempfile.TemporaryDirectory() as tmp:
         files = write_inputs(Path(tmp), n)
-        with open_workspace(ws) as store:
+        with Store(ws) as store:
             set_me(store, ["you@example.org"], ["Bench User"])
             import_paths(store, files)
             print(f"imported {len(store.contacts()):,} contacts in {time.perf_counter() - t:.1f} s")
@@ -165,7 +167,7 @@ def main() -> None:
     if not ws.exists():
         ws.parent.mkdir(parents=True, exist_ok=True)
         build(ws, args.contacts)
-    with open_workspace(ws) as store:  # the analysis is cached, as after any import
+    with Store(ws) as store:  # the analysis is cached, as after any import
         analyse(store, load_network(store, today=TODAY))
     for size in ((80, 24), (120, 40)):
         asyncio.run(measure(ws, size))

@@ -46,12 +46,14 @@ def import_sample(ws_path: Path):
     import json
 
     from mynet.cli.demo import SOURCE_FILES, sample_dir
-    from mynet.workspace.importing import import_paths, open_workspace, set_me
+    from mynet.workspace.importing import import_paths
+    from mynet.store import Store
+    from mynet.workspace.people import set_me
     from mynet.workspace.settings import update_list_setting
 
     src = sample_dir()
     truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
-    store = open_workspace(ws_path)
+    store = Store(ws_path)
     set_me(store, truth["you"]["emails"], [truth["you"]["name"]])
     personal = [d for d in truth.get("personal_email_domains", []) if d != "example.org"]
     update_list_setting(store, "webmail_domains", ",".join(personal))

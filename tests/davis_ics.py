@@ -77,13 +77,14 @@ def davis_expected() -> dict[str, set[str]]:
 
 def davis_workspace(folder):
     """A workspace holding the women (a CSV of names and addresses) and the events (this file), imported."""
-    from mynet.workspace.importing import import_paths, open_workspace
+    from mynet.workspace.importing import import_paths
+    from mynet.store import Store
 
     women = sorted(davis_graph().graph["top"])
     people = folder / "women.csv"
     people.write_text("Name,Email\n" + "".join(f"{w},{davis_email(w)}\n" for w in women), encoding="utf-8")
     cal = folder / "davis.ics"
     cal.write_bytes(davis_ics_bytes())
-    store = open_workspace(folder / "ws.sqlite")
+    store = Store(folder / "ws.sqlite")
     import_paths(store, [people, cal])
     return store

@@ -9,11 +9,13 @@ from conftest import import_sample, person_of
 
 from mynet.analysis.audit import audit, blau_index, shannon_evenness
 from mynet.analysis.groups import normalised_mutual_information
-from mynet.analysis.snapshot import analyse, name_group
+from mynet.analysis.snapshot import analyse
+from mynet.workspace.decisions import name_group
 from mynet.cli import main
 from mynet.evidence.network import load_network
 from mynet.analysis.intro_routes import reach, resolve_targets
-from mynet.workspace.importing import import_paths, open_workspace
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
 
 
 def run(capsys, *args):
@@ -39,7 +41,7 @@ TEAMS = {
 
 def test_group_names_survive_reimport_that_changes_members(tmp_path):
     f = team_csv(tmp_path / "people.csv", TEAMS)
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     import_paths(store, [f])
     a1 = analyse(store)
     alder = next(g for g in a1.groups if "Alder" in g.label)
@@ -57,7 +59,7 @@ def test_group_names_survive_reimport_that_changes_members(tmp_path):
 
 def test_results_identical_across_runs_and_cached(tmp_path):
     f = team_csv(tmp_path / "people.csv", TEAMS)
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     import_paths(store, [f])
     first = analyse(store).to_json()
     again = analyse(store, force=True).to_json()
@@ -93,7 +95,7 @@ def test_cached_analysis_is_never_stale(tmp_path, change):
 
     teams = {"alder": TEAMS["alder"], "birch": TEAMS["birch"], "cedar": ["Kim Xu", "Lu Yi", "Mo Zed"]}
     f = team_csv(tmp_path / "people.csv", teams)
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     import_paths(store, [f])
     ana = {c.name: c.id for c in store.contacts()}["Ana Lind"]
     rate_contact(store, ana, 0.8)
@@ -152,7 +154,7 @@ def test_sample_merging_precision_recall(sample_ws):
     print(f"merging on the sample scenario: precision {precision:.3f}, recall {recall:.3f} (pairs {tp}/{fp}/{fn})")
     assert precision == 1.0 and recall >= 0.9
     # The duplicates that share no e-mail, phone or UID are all offered as suggestions.
-    from mynet.workspace.importing import merge_suggestions
+    from mynet.workspace.people import merge_suggestions
 
     person = _person_of(store, truth)
     offered = {frozenset((person.get(s.a), person.get(s.b))) for s in merge_suggestions(store)}
@@ -208,7 +210,7 @@ def test_sample_target_reached_through_a_bridge(sample_ws):
         if bridges & set(res.paths[0]["path"][:-1]) or any(d["target"] in bridges for d in res.direct):
             through.append(target["org"])
     assert len(through) == len(truth["targets"]), through
-    findings = audit(store, net, a)
+    findings = audit(net, a)
     assert findings and findings == sorted(findings, key=lambda f: -f["score"])
 
 
@@ -261,7 +263,7 @@ def test_audit_finds_dormant_ties_as_of_today(tmp_path):
     from mynet.evidence.warmth import Warmth
 
     f = team_csv(tmp_path / "people.csv", TEAMS)
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     import_paths(store, [f])
     net = load_network(store)
     ids = {c.name: c.id for c in net.contacts}
@@ -271,7 +273,7 @@ def test_audit_finds_dormant_ties_as_of_today(tmp_path):
     a = analyse(store, net)
 
     def dormant(today):
-        found = [f for f in audit(store, net, a, today=today) if f["id"] == "dormant"]
+        found = [f for f in audit(net, a, today=today) if f["id"] == "dormant"]
         return found[0]["numbers"]["people"] if found else []
 
     assert dormant(date(2025, 2, 1)) == []  # Ana quiet for 337 days, Bo for 17

@@ -10,7 +10,9 @@ import pytest
 
 from mynet.cli import main
 from mynet.evidence.network import load_network, resolve_as_of
-from mynet.workspace.importing import import_paths, open_workspace, set_me
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
+from mynet.workspace.people import set_me
 
 ME = "you@example.org"
 
@@ -36,7 +38,7 @@ def workspace(tmp_path, dates):
     (tmp_path / "p.csv").write_text("Name,Email\nAna Lind,ana@a.example\nBo Ek,bo@b.example\nCy Moss,cy@c.example\n",
                                     encoding="utf-8")
     (tmp_path / "m.mbox").write_text(mbox(dates), encoding="utf-8")
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     set_me(store, [ME], ["Robin"])
     import_paths(store, [tmp_path / "p.csv", tmp_path / "m.mbox"])
     return store

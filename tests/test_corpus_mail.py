@@ -17,7 +17,9 @@ import pytest
 from mynet.errors import InputError
 from mynet.sources import iter_input_files, parse_file
 from mynet.people.mailpeople import evidence_interactions, mail_facts
-from mynet.workspace.importing import import_paths, open_workspace, set_me
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
+from mynet.workspace.people import set_me
 
 pytestmark = pytest.mark.corpus
 
@@ -43,7 +45,7 @@ def test_every_mailbox_reads_or_is_refused_cleanly(corpus_dir):
 
 
 def test_the_list_folder_imports_in_one_go_and_lists_are_no_people(corpus_dir, tmp_path):
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     report = import_paths(store, [corpus_dir / MAIL], skip_bad_files=True)
     assert len(report.files) == 71 and all(f.status in ("imported", "refused") for f in report.files)
     assert report.who_are_you  # no "me" yet: the import says which address to declare
@@ -61,7 +63,7 @@ def test_the_list_folder_imports_in_one_go_and_lists_are_no_people(corpus_dir, t
 def test_every_calendar_imports_or_is_refused_cleanly(corpus_dir, tmp_path):
     files = sorted((corpus_dir / CALENDARS).rglob("*.ics"))
     assert len(files) == 104
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     report = import_paths(store, files, skip_bad_files=True)
     assert len(report.files) == 104
     refused = [f for f in report.files if f.status == "refused"]

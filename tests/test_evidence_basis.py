@@ -11,6 +11,7 @@ import pytest
 from networkx.algorithms import bipartite
 
 from davis_ics import davis_email, davis_graph, davis_workspace
+from mynet.workspace import Workspace
 from mynet.cli import main
 from mynet.model import Contact, Interaction
 from mynet.evidence.network import Network, load_network
@@ -18,7 +19,9 @@ from mynet.evidence.explain import evidence_summary, explain_tie, tie_words
 from mynet.analysis.intro_routes import Targets, reach
 from mynet.evidence.ties import EventIndex, TieModel, evidence_events, infer_ties
 from mynet.evidence.warmth import Warmth, WarmthModel
-from mynet.workspace.importing import import_paths, open_workspace, set_me
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
+from mynet.workspace.people import set_me
 
 ME = "you@example.org"
 
@@ -218,7 +221,7 @@ def counting_workspace(tmp_path):
         ev += [f"ATTENDEE:mailto:p{i}@mail{i}.example" for i in ids] + ["END:VEVENT"]
     cal.write_text("\r\n".join(["BEGIN:VCALENDAR", "VERSION:2.0", "PRODID:-//t//t//EN", *ev, "END:VCALENDAR", ""]),
                    encoding="utf-8")
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     set_me(store, [ME], ["Robin Avenell"])
     import_paths(store, [people, mbox, cal])
     return store
@@ -252,5 +255,5 @@ def test_ties_why_tui_and_report_count_alike(tmp_path, capsys):
     ex = explain_tie(store, net, ids["Ana"], ids["Bo"])
     thread = next(e for e in ex["evidence"] if e["kind"] == "thread")
     assert thread["messages"] == 3  # the three messages of the two counted threads
-    data = collect(store, today=date(2026, 3, 10))
+    data = collect(Workspace.over(store), today=date(2026, 3, 10))
     assert data.net.ties.counts["thread"].tolist() == net.ties.counts["thread"].tolist()

@@ -14,11 +14,14 @@ from conftest import import_sample
 from hypothesis import given
 from hypothesis import strategies as st
 
+from mynet.workspace import Workspace
 from mynet.analysis.snapshot import analyse, tie_graph
 from mynet.errors import MynetError
-from mynet.report.export import CONTACT_COLUMNS, TIE_COLUMNS, csv_paths, export_network, network_graph, neutralise
+from mynet.report.export import CONTACT_COLUMNS, TIE_COLUMNS, csv_paths, export_network, neutralise
+from mynet.workspace.frames import network_graph
 from mynet.evidence.network import load_network
-from mynet.workspace.importing import import_paths, open_workspace
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
 
 TODAY = date(2026, 9, 1)
 RISKY = ("=", "+", "-", "@", "\t", "\r")
@@ -42,13 +45,13 @@ def injection(tmp_path):
         "Bo Ek,bo@cells.example,Plain Co,-tag,\n"
         "Cy Moss,cy@cells.example,Plain Co,x,\n",
         encoding="utf-8")
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     import_paths(store, [p])
     return store
 
 
 def test_graphml_reads_back_into_the_same_graph(sample, tmp_path):
-    (path,) = export_network(sample, tmp_path / "net.graphml", today=TODAY)
+    (path,) = export_network(Workspace.over(sample), tmp_path / "net.graphml", today=TODAY)
     H = nx.read_graphml(path, node_type=int)
     net = load_network(sample, today=TODAY)
     G = tie_graph(net)
@@ -69,7 +72,7 @@ def test_graphml_reads_back_into_the_same_graph(sample, tmp_path):
 
 
 def test_graphml_attribute_types(sample, tmp_path):
-    (path,) = export_network(sample, tmp_path / "net.graphml", today=TODAY)
+    (path,) = export_network(Workspace.over(sample), tmp_path / "net.graphml", today=TODAY)
     text = path.read_text(encoding="utf-8")
     assert 'attr.name="weight" attr.type="double"' in text
     assert 'attr.name="group" attr.type="long"' in text or 'attr.name="group" attr.type="int"' in text
@@ -77,7 +80,7 @@ def test_graphml_attribute_types(sample, tmp_path):
 
 
 def test_json_node_link_round_trip(sample, tmp_path):
-    (path,) = export_network(sample, tmp_path / "net.json", today=TODAY)
+    (path,) = export_network(Workspace.over(sample), tmp_path / "net.json", today=TODAY)
     data = json.loads(path.read_text(encoding="utf-8"))
     assert set(data) >= {"nodes", "edges", "graph", "directed", "multigraph"}
     H = nx.node_link_graph(data, edges="edges")
@@ -93,7 +96,7 @@ def test_json_node_link_round_trip(sample, tmp_path):
 
 
 def test_csv_neutralises_formulas_in_text_cells(injection, tmp_path):
-    contacts, ties = export_network(injection, tmp_path / "net.csv")
+    contacts, ties = export_network(Workspace.over(injection), tmp_path / "net.csv")
     assert (contacts.name, ties.name) == ("net-contacts.csv", "net-ties.csv")
     raw = contacts.read_text(encoding="utf-8-sig")
     rows = list(csv.DictReader(io.StringIO(raw)))
@@ -113,7 +116,7 @@ def test_csv_neutralises_formulas_in_text_cells(injection, tmp_path):
 
 
 def test_csv_numbers_stay_numbers(sample, tmp_path):
-    contacts, _ties = export_network(sample, tmp_path / "net.csv", today=TODAY)
+    contacts, _ties = export_network(Workspace.over(sample), tmp_path / "net.csv", today=TODAY)
     raw = contacts.read_text(encoding="utf-8-sig")
     reader = csv.reader(io.StringIO(raw), quoting=csv.QUOTE_NONNUMERIC)  # unquoted cells must parse as numbers
     header = next(reader)
@@ -144,8 +147,8 @@ def test_csv_paths():
 
 def test_exports_are_owner_only_and_deterministic(sample, tmp_path):
     for fmt in ("graphml", "json", "csv"):
-        a = export_network(sample, tmp_path / f"a.{fmt}", today=TODAY)
-        b = export_network(sample, tmp_path / f"b.{fmt}", today=TODAY)
+        a = export_network(Workspace.over(sample), tmp_path / f"a.{fmt}", today=TODAY)
+        b = export_network(Workspace.over(sample), tmp_path / f"b.{fmt}", today=TODAY)
         for pa, pb in zip(a, b):
             assert stat.S_IMODE(pa.stat().st_mode) == 0o600
             assert pa.read_bytes() == pb.read_bytes()
@@ -153,16 +156,16 @@ def test_exports_are_owner_only_and_deterministic(sample, tmp_path):
 
 def test_format_must_be_known(sample, tmp_path):
     with pytest.raises(MynetError, match="--format"):
-        export_network(sample, tmp_path / "net.txt")
-    (p,) = export_network(sample, tmp_path / "net.txt", "json", today=TODAY)
+        export_network(Workspace.over(sample), tmp_path / "net.txt")
+    (p,) = export_network(Workspace.over(sample), tmp_path / "net.txt", "json", today=TODAY)
     assert json.loads(p.read_text(encoding="utf-8"))["graph"]["generator"] == "mynet"
     with pytest.raises(MynetError, match="does not exist"):
-        export_network(sample, tmp_path / "missing" / "net.json")
+        export_network(Workspace.over(sample), tmp_path / "missing" / "net.json")
 
 
 def test_redacted_export_keeps_the_structure(sample, tmp_path):
-    (plain,) = export_network(sample, tmp_path / "p.graphml", today=TODAY)
-    (red,) = export_network(sample, tmp_path / "r.graphml", redact=True, today=TODAY)
+    (plain,) = export_network(Workspace.over(sample), tmp_path / "p.graphml", today=TODAY)
+    (red,) = export_network(Workspace.over(sample), tmp_path / "r.graphml", redact=True, today=TODAY)
     P = nx.read_graphml(plain, node_type=int)
     R = nx.read_graphml(red, node_type=int)
     assert set(P.nodes) == set(R.nodes) and {frozenset(e) for e in P.edges} == {frozenset(e) for e in R.edges}

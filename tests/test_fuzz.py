@@ -32,7 +32,9 @@ from mynet.cli import main
 from mynet.errors import InputError
 from mynet.sources import parse_file
 from mynet.safetext import BIDI_CONTROLS
-from mynet.workspace.importing import import_paths, open_workspace, refresh_contacts
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
+from mynet.people.refresh import refresh_contacts
 
 RAW = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f\ud800-\udfff" + BIDI_CONTROLS + "]")
 PIECES = ["\x1b[2J", "\x1b]0;pwned\x07", "\x1b", "\x00", "\x07", "\x08", "\x7f", "\x9b", "\x9d0;x\x9c", "\x85",
@@ -147,7 +149,7 @@ def base_workspace(tmp_path_factory):
         f"Person {i},p{i}@fuzz.example,{'Quillon Labs' if i < 4 else 'Velvane Robotics'},{'rowing' if i % 2 else 'chess'}\n"
         for i in range(8)), encoding="utf-8")
     ws = folder / "ws.sqlite"
-    with open_workspace(ws) as store:
+    with Store(ws) as store:
         import_paths(store, [src])
     return ws
 
@@ -165,7 +167,7 @@ def test_no_control_reaches_any_output_and_exports_parse(base_workspace, tmp_pat
                                                          report):
     folder = tmp_path_factory.mktemp("out")
     ws = folder / "ws.sqlite"
-    with open_workspace(base_workspace) as src, open_workspace(ws) as store:
+    with Store(base_workspace) as src, Store(ws) as store:
         src.conn.backup(store.conn)
         with store.transaction():  # as a workspace written before import cleaning may hold them
             for n, (rid, data) in enumerate(store.conn.execute("SELECT id, data FROM records ORDER BY id").fetchall()):

@@ -21,7 +21,10 @@ import pytest
 from mynet.cli import main
 from mynet.sources import parse_file
 from mynet.safetext import BIDI_CONTROLS, clean_imported, json_escape, shown
-from mynet.workspace.importing import import_paths, open_workspace, refresh_contacts
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
+from mynet.workspace.location import resolve_workspace_path
+from mynet.people.refresh import refresh_contacts
 
 ROOT = Path(__file__).resolve().parents[1]
 ESC_SEQ = "\x1b[2J\x1b]0;pwned\x07"
@@ -90,7 +93,7 @@ def test_the_reproduction_is_cleaned_at_import_with_file_and_line(tmp_path, caps
     assert code == 0
     assert_clean(out + err, "import")
     assert "e.vcf:1: removed control characters (ESC ×2, BEL) from the name" in err  # the card starting on line 1
-    with open_workspace() as store:
+    with Store(resolve_workspace_path()) as store:
         (record,) = [r for _i, _k, _s, r in store.records()]
         assert record.full_name == "X"
         assert not RAW.search(store.conn.execute("SELECT group_concat(data) FROM records").fetchone()[0])
@@ -148,7 +151,7 @@ def hostile(tmp_path):
         "ATTENDEE;CN=Cy Moss:mailto:cy@velvane.example\r\nEND:VEVENT\r\n" for n in range(1, 4))
     cal.write_text(f"BEGIN:VCALENDAR\r\nVERSION:2.0\r\n{events}END:VCALENDAR\r\n", encoding="utf-8")
     ws = tmp_path / "ws.sqlite"
-    with open_workspace(ws) as store:
+    with Store(ws) as store:
         import_paths(store, [src, cal])
         with store.transaction():
             for rid, data in store.conn.execute("SELECT id, data FROM records").fetchall():
@@ -164,7 +167,8 @@ def hostile(tmp_path):
                 store.conn.execute("UPDATE interactions SET data = ? WHERE id = ?", (json.dumps(it), iid))
             store.bump_data_version()
         refresh_contacts(store)
-        from mynet.analysis.snapshot import analyse, name_group
+        from mynet.analysis.snapshot import analyse
+        from mynet.workspace.decisions import name_group
         from mynet.evidence.network import load_network
 
         a = analyse(store, load_network(store))
@@ -209,9 +213,9 @@ def test_file_names_and_click_errors_are_shown_safely(tmp_path, capsys):
 
 
 def test_only_the_common_helpers_print():
-    # Every line the CLI prints goes through mynet/cli/_common.py (echo, note, table, emit_json, confirm).
+    # Every line the CLI prints goes through mynet/cli/common.py (echo, note, table, emit_json, confirm).
     for path in sorted((ROOT / "mynet" / "cli").glob("*.py")):
-        if path.name == "_common.py":
+        if path.name == "common.py":
             continue
         tree = ast.parse(path.read_text(encoding="utf-8"))
         for node in ast.walk(tree):

@@ -164,7 +164,8 @@ def test_tags_command_lists_counts_and_keeps_decisions_across_reimport(tmp_path,
 
 def test_a_workflow_label_never_names_a_group(tmp_path):
     from mynet.analysis.snapshot import analyse
-    from mynet.workspace.importing import import_paths, open_workspace
+    from mynet.workspace.importing import import_paths
+    from mynet.store import Store
 
     rows = ["Name,Email,Tags"] + [f"P{i} Q,p{i}@x{i}.example,follow up" for i in range(5)]
     (tmp_path / "p.csv").write_text("\n".join(rows) + "\n", encoding="utf-8")
@@ -175,7 +176,7 @@ def test_a_workflow_label_never_names_a_group(tmp_path):
         ev += [f"ATTENDEE:mailto:p{i}@x{i}.example" for i in range(5)] + ["END:VEVENT"]
     (tmp_path / "c.ics").write_text("\r\n".join(["BEGIN:VCALENDAR", "VERSION:2.0", "PRODID:-//t//t//EN", *ev,
                                                   "END:VCALENDAR", ""]), encoding="utf-8")
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     import_paths(store, [tmp_path / "p.csv", tmp_path / "c.ics"])
     a = analyse(store)
     assert len(a.groups) == 1 and "follow up" not in a.groups[0].label.lower()

@@ -20,7 +20,9 @@ from mynet.sources.mbox import parse_mail
 from mynet.sources.mailaddr import KIND_WORDS, archive_parts, machine_kind, reverse_relay, via_name
 from mynet.evidence.network import load_network
 from mynet.evidence.explain import explain_tie
-from mynet.workspace.importing import find_contact, import_paths, open_workspace, set_me
+from mynet.workspace.people import find_contact, set_me
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
 
 
 def one(*headers: str):
@@ -220,7 +222,7 @@ def test_rooms_in_calendars_are_not_people():
 def ws(tmp_path):
     (tmp_path / "list.mbox").write_bytes(list_mbox())
     (tmp_path / "archive.mbox").write_bytes(archive_mbox())
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     set_me(store, [YOU[1]], [YOU[0]])
     import_paths(store, [tmp_path / "list.mbox", tmp_path / "archive.mbox"])
     return store, tmp_path
@@ -256,7 +258,7 @@ def test_your_archive_copy_is_you(ws):
 
 def test_no_new_contacts_keeps_mail_out_of_the_contacts(tmp_path):
     (tmp_path / "list.mbox").write_bytes(list_mbox())
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     set_me(store, [YOU[1]], [YOU[0]])
     rep = import_paths(store, [tmp_path / "list.mbox"], new_contacts=False)
     assert store.contacts() == [] and rep.found == 0
@@ -269,7 +271,7 @@ def test_drop_address_is_kept_across_reimport(ws, capsys):
     bo = find_contact(store, "Bo Ek")
     assert main(["--workspace", str(tmp_path / "ws.sqlite"), "drop-address", str(bo.id), "bo@velvane.example"]) == 0
     assert f"{bo.name} ({bo.id}) was known only through bo@velvane.example" in capsys.readouterr().out
-    store2 = open_workspace(tmp_path / "ws.sqlite")
+    store2 = Store(tmp_path / "ws.sqlite")
     assert all("bo@velvane.example" not in c.emails for c in store2.contacts())
     (tmp_path / "list.mbox").write_bytes(list_mbox() + message("From: x@y.example", "To: z@y.example").encode())
     import_paths(store2, [tmp_path / "list.mbox"])
@@ -310,7 +312,7 @@ def test_relay_and_archive_domains_are_no_employer_nor_group_name(tmp_path):
     rows = ["Name,Email,Tags"] + [f"{n},{n.split()[0].lower()}@lists.harbour.example,rowing"
                                   for n in ("Ana Lind", "Bo Ek", "Cy Moss", "Di Park")]
     (tmp_path / "crew.csv").write_text("\n".join(rows) + "\n", encoding="utf-8")
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     import_paths(store, [tmp_path / "crew.csv"])
     net = load_network(store)
     assert net.all_ties.parts["domain"].any()  # without the setting, the shared domain is evidence
@@ -336,7 +338,8 @@ def test_decisions_about_found_people_survive_removing_another_file_and_go_with_
 
 
 def test_dropping_a_found_persons_only_address_does_not_spend_new_ids(ws):
-    from mynet.workspace.importing import detach_address, refresh_contacts
+    from mynet.workspace.people import detach_address
+    from mynet.people.refresh import refresh_contacts
 
     store, _ = ws
     bo = find_contact(store, "Bo Ek")

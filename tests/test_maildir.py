@@ -18,7 +18,9 @@ from mynet.errors import InputError
 from mynet.sources import iter_input_files, parse_file
 from mynet.sources.maildir import is_maildir, message_files
 from mynet.store import SCHEMA_VERSION, Store
-from mynet.workspace.importing import import_paths, open_workspace, set_me
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
+from mynet.workspace.people import set_me
 
 
 def note(sender: tuple[str, str], to: tuple[str, str], mid: str, *, reply: str = "", day: int = 2) -> bytes:
@@ -111,7 +113,7 @@ def test_import_of_a_maildir_finds_who_you_corresponded_with(tmp_path, capsys):
     out = capsys.readouterr().out
     assert "3 messages in a Maildir (maildir)" in out
     assert "1 person you corresponded with found in mail and calendars" in out
-    store = open_workspace(ws)
+    store = Store(ws)
     (ana,) = store.contacts()  # Ana wrote and you answered; Bo only wrote to you
     assert ana.name == "Ana Lind" and ana.found_in == ["mail"]
     # Reading mail renames files (new flags): nothing to read again; a new message is.
@@ -126,7 +128,7 @@ def test_nothing_in_a_folder_is_refused_clearly(tmp_path):
     empty = tmp_path / "empty"
     empty.mkdir()
     (empty / "notes").write_text("nothing\n")
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     with pytest.raises(InputError, match="Maildir or saved mail messages"):
         import_paths(store, [empty])
 
@@ -134,11 +136,10 @@ def test_nothing_in_a_folder_is_refused_clearly(tmp_path):
 def test_old_workspace_is_migrated_and_old_mail_read_again(tmp_path):
     path = tmp_path / "old.sqlite"
     conn = sqlite3.connect(path)
-    from mynet.store import MIGRATIONS
+    from mynet.store.schema import MIGRATIONS
 
-    for statement in MIGRATIONS[0].split(";"):
-        if statement.strip():
-            conn.execute(statement)
+    for statement in MIGRATIONS[0]:
+        conn.execute(statement)
     conn.execute("PRAGMA user_version = 1")
     conn.execute("INSERT INTO meta VALUES ('data_version', '0'), ('next_contact_id', '1')")
     box = tmp_path / "a.mbox"

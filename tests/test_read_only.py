@@ -18,7 +18,8 @@ import mynet.store.database as store_module
 from mynet.cli import main
 from mynet.errors import WorkspaceError
 from mynet.store import Store
-from mynet.workspace.importing import import_paths, open_workspace
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
 
 ROOT_USER = hasattr(os, "geteuid") and os.geteuid() == 0
 
@@ -38,7 +39,7 @@ def workspace(tmp_path):
     cards = tmp_path / "people.vcf"
     cards.write_text(CARDS, encoding="utf-8")
     ws = tmp_path / "data" / "ws.sqlite"
-    with open_workspace(ws) as store:
+    with Store(ws) as store:
         import_paths(store, [cards])
     return ws
 

@@ -16,10 +16,11 @@ import pytest
 from conftest import import_sample
 from click.testing import CliRunner
 
+from mynet.workspace import Workspace
 from mynet.analysis.audit import audit
 from mynet.analysis.snapshot import analyse
-from mynet.cli._common import Ctx
-from mynet.cli.report import register
+from mynet.cli.common import Ctx
+from mynet.cli.report import COMMANDS
 from mynet.errors import MynetError
 from mynet.report.export import export_network
 from mynet.evidence.network import load_network
@@ -28,7 +29,8 @@ from mynet.report import RedactionError, check_redacted, collect, write_report
 from mynet.report.charts import clean_svg, group_style
 from mynet.report.layout import group_layout, place_discs
 from mynet.report.redact import Pseudonyms, find_leaks, redact_network
-from mynet.workspace.importing import import_paths, open_workspace
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
 
 TODAY = date(2026, 9, 1)
 XHTML = "{http://www.w3.org/1999/xhtml}"
@@ -49,10 +51,10 @@ def outputs(sample, tmp_path_factory):
     out = {}
     for red in (False, True):
         tag = "red" if red else "plain"
-        out[f"html-{tag}"] = write_report(store, d / f"{tag}.html", redact=red, today=TODAY)
-        out[f"md-{tag}"] = write_report(store, d / f"{tag}.md", markdown=True, redact=red, today=TODAY)
+        out[f"html-{tag}"] = write_report(Workspace.over(store), d / f"{tag}.html", redact=red, today=TODAY)
+        out[f"md-{tag}"] = write_report(Workspace.over(store), d / f"{tag}.md", markdown=True, redact=red, today=TODAY)
         for fmt in ("graphml", "csv", "json"):
-            out[f"{fmt}-{tag}"] = export_network(store, d / f"{tag}.{fmt}", redact=red, today=TODAY)
+            out[f"{fmt}-{tag}"] = export_network(Workspace.over(store), d / f"{tag}.{fmt}", redact=red, today=TODAY)
     return out
 
 
@@ -78,7 +80,7 @@ def test_html_is_well_formed_with_every_section_in_order(outputs, sample):
 def test_findings_appear_in_the_audit_order(outputs, sample):
     store, _ = sample
     net = load_network(store, today=TODAY)
-    expected = [f["title"] for f in audit(store, net, analyse(store, net), today=TODAY)]
+    expected = [f["title"] for f in audit(net, analyse(store, net), today=TODAY)]
     root = parse_html(outputs["html-plain"])
     shown = [all_text(h).rsplit(" ", 1)[0] for h in root.iter(XHTML + "h3")][: len(expected)]
     assert shown == [" ".join(t.split()) for t in expected]
@@ -123,8 +125,8 @@ def test_picture_is_inline_svg_with_a_legend_naming_every_group(outputs, sample)
 
 def test_report_is_deterministic(sample, tmp_path):
     store, _ = sample
-    a = write_report(store, tmp_path / "a.html", today=TODAY, seed=3).read_bytes()
-    b = write_report(store, tmp_path / "b.html", today=TODAY, seed=3).read_bytes()
+    a = write_report(Workspace.over(store), tmp_path / "a.html", today=TODAY, seed=3).read_bytes()
+    b = write_report(Workspace.over(store), tmp_path / "b.html", today=TODAY, seed=3).read_bytes()
     assert a == b
 
 
@@ -139,15 +141,15 @@ def test_files_are_owner_only(outputs, tmp_path, sample):
     old = tmp_path / "old.html"
     old.write_text("x")
     old.chmod(0o644)
-    write_report(store, old, today=TODAY)
+    write_report(Workspace.over(store), old, today=TODAY)
     assert stat.S_IMODE(old.stat().st_mode) == 0o600
 
 
 def test_large_network_is_drawn_as_a_map_of_groups_and_says_so(sample, tmp_path):
     store, _ = sample
-    d = collect(store, today=TODAY, max_contacts=100)
+    d = collect(Workspace.over(store), today=TODAY, max_contacts=100)
     assert d.picture == "groups"
-    out = write_report(store, tmp_path / "big.html", today=TODAY, max_contacts=100)
+    out = write_report(Workspace.over(store), tmp_path / "big.html", today=TODAY, max_contacts=100)
     text = all_text(parse_html(out))
     assert "the picture shows the map of groups" in text
     assert "Map of 7 groups" in text or re.search(r"Map of \d+ groups", text)
@@ -155,7 +157,7 @@ def test_large_network_is_drawn_as_a_map_of_groups_and_says_so(sample, tmp_path)
 
 def test_intro_opportunities_cover_the_group_with_no_warm_contact(outputs, sample):
     store, _ = sample
-    d = collect(store, today=TODAY)
+    d = collect(Workspace.over(store), today=TODAY)
     cold = [g for g in d.analysis.groups if g.warm == 0]
     assert cold, "the sample scenario has a group with nobody warm"
     assert [i["group"] for i in d.intros][: len(cold)] == [g.id for g in cold]
@@ -179,19 +181,19 @@ def crafted(tmp_path):
         "Ed Nam,ed@other.example,Other & Co,|pipe|\n"
         "Fay Ro,fay@other.example,Other & Co,|pipe|\n",
         encoding="utf-8")
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     import_paths(store, [p])
     return store
 
 
 def test_every_name_is_escaped_in_html_and_markdown(crafted, tmp_path):
-    out = write_report(crafted, tmp_path / "r.html", today=TODAY)
+    out = write_report(Workspace.over(crafted), tmp_path / "r.html", today=TODAY)
     text = out.read_text(encoding="utf-8")
     assert "<script" not in text and "<b>" not in text
     root = parse_html(out)  # still well-formed
     brokers = next(s for s in root.iter(XHTML + "section") if s.get("id") == "brokers")
     assert '<script>alert(1)</script> & "Bo"' in all_text(brokers)
-    md = write_report(crafted, tmp_path / "r.md", markdown=True, today=TODAY).read_text(encoding="utf-8")
+    md = write_report(Workspace.over(crafted), tmp_path / "r.md", markdown=True, today=TODAY).read_text(encoding="utf-8")
     assert "<script" not in md and "<b>" not in md
     assert '&lt;script&gt;alert(1)&lt;/script&gt; &amp; "Bo"' in md
     tables = re.findall(r"(?m)(?:^\|.*\n)+", md)
@@ -350,16 +352,16 @@ def test_pseudonyms_are_consistent(sample):
             red_orgs.setdefault(ro, set()).add(normalise_org(o))
     assert all(len(v) == 1 for v in orig_orgs.values())  # one organisation, one pseudonym
     assert all(len(v) == 1 for k, v in red_orgs.items() if k != "n/a")  # and never two organisations behind one
-    d1 = collect(store, redact=True, today=TODAY)
-    d2 = collect(store, redact=True, today=TODAY)
+    d1 = collect(Workspace.over(store), redact=True, today=TODAY)
+    d2 = collect(Workspace.over(store), redact=True, today=TODAY)
     assert [g["name"] for g in d1.groups] == [g["name"] for g in d2.groups]
     assert [b["name"] for b in d1.brokers] == [f"Person {b['id']}" for b in d1.brokers]
 
 
 def test_redacted_report_has_the_same_numbers(sample):
     store, _ = sample
-    plain = collect(store, today=TODAY)
-    red = collect(store, redact=True, today=TODAY)
+    plain = collect(Workspace.over(store), today=TODAY)
+    red = collect(Workspace.over(store), redact=True, today=TODAY)
     assert [(g["id"], g["size"], g["warm"]) for g in plain.groups] == [(g["id"], g["size"], g["warm"]) for g in red.groups]
     assert [f["id"] for f in plain.findings] == [f["id"] for f in red.findings]
     assert [b["id"] for b in plain.brokers] == [b["id"] for b in red.brokers]
@@ -392,7 +394,8 @@ def cli_group():
     def g(ctx, workspace):
         ctx.obj = Ctx(workspace)
 
-    register(g)
+    for command in COMMANDS:
+        g.add_command(command)
     return g
 
 
@@ -414,11 +417,11 @@ def test_cli_report_and_export(cli_group, crafted, tmp_path):
 
 
 def test_an_empty_workspace_still_gives_a_report(tmp_path):
-    store = open_workspace(tmp_path / "ws.sqlite")
-    out = write_report(store, tmp_path / "empty.html", today=TODAY)
+    store = Store(tmp_path / "ws.sqlite")
+    out = write_report(Workspace.over(store), tmp_path / "empty.html", today=TODAY)
     root = parse_html(out)
     assert "0 contacts" in all_text(root)
-    md = write_report(store, tmp_path / "empty.md", markdown=True, today=TODAY).read_text(encoding="utf-8")
+    md = write_report(Workspace.over(store), tmp_path / "empty.md", markdown=True, today=TODAY).read_text(encoding="utf-8")
     assert "No dated meetings or messages imported yet." in md
     assert not (tmp_path / "empty_files" / "time.svg").exists()
 
@@ -426,4 +429,4 @@ def test_an_empty_workspace_still_gives_a_report(tmp_path):
 def test_a_missing_folder_is_reported(sample, tmp_path):
     store, _ = sample
     with pytest.raises(MynetError, match="does not exist"):
-        write_report(store, tmp_path / "nope" / "r.html", today=TODAY)
+        write_report(Workspace.over(store), tmp_path / "nope" / "r.html", today=TODAY)

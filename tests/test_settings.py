@@ -13,7 +13,7 @@ from mynet.cli import main
 from mynet.settings import SettingError, SettingsGroup, setting
 from mynet.evidence.ties import TieModel
 from mynet.evidence.warmth import WarmthModel
-from mynet.workspace.importing import open_workspace
+from mynet.store import Store
 
 
 def run(capsys, *args):
@@ -54,7 +54,7 @@ def test_existing_names_still_work_and_are_typed(capsys, tmp_path):
     assert data["warmth_model"]["half_life_days"] == 90.0
     assert data["webmail_domains"] == ["mail.example", "post.example"]
     assert data["org_aliases"] == {"QL": "Quillon Labs", "VR": "Velvane Robotics"}
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     assert AnalysisModel.from_settings(store.setting("analysis")).backend == "igraph"
     assert TieModel.from_settings(store.setting("tie_model")).broadcast_cap == 40
 
@@ -86,7 +86,7 @@ def test_a_bad_stored_value_is_reported_not_a_traceback(capsys, tmp_path):
     ws = tmp_path / "ws.sqlite"
     (tmp_path / "p.csv").write_text("Name,Company\nAna Lind,Quillon Labs\nBo Ek,Quillon Labs\n", encoding="utf-8")
     assert run(capsys, "--workspace", str(ws), "import", str(tmp_path / "p.csv"))[0] == 0
-    store = open_workspace(ws)
+    store = Store(ws)
     store.set_setting("analysis", {"backend": "foo", "seed": 2.7})
     store.close()
     code, out, err = run(capsys, "--workspace", str(ws), "groups")

@@ -11,7 +11,9 @@ from davis_ics import davis_email, davis_graph, davis_workspace
 from mynet.cli import main
 from mynet.evidence.network import load_network
 from mynet.evidence.explain import explain_tie
-from mynet.workspace.importing import import_paths, open_workspace, set_me
+from mynet.workspace.importing import import_paths
+from mynet.store import Store
+from mynet.workspace.people import set_me
 from mynet.workspace.decisions import add_tie, rate_contact, remove_tie
 
 
@@ -68,7 +70,7 @@ def test_tie_untie_rate_survive_reimport(tmp_path, capsys):
     people = tmp_path / "people.csv"
     people.write_text("Name,Email,Company\nAna Lind,ana@q.example,Quillon Labs\nTom Reyes,tom@q.example,Quillon Labs\n"
                       "Bo Ek,bo@v.example,Velvane\n", encoding="utf-8")
-    store = open_workspace(tmp_path / "ws.sqlite")
+    store = Store(tmp_path / "ws.sqlite")
     set_me(store, ["you@example.org"], ["Robin Vale"])
     import_paths(store, [people])
     ids = {c.name: c.id for c in store.contacts()}

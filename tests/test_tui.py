@@ -22,7 +22,8 @@ from mynet.analysis.intro_routes import reach, resolve_targets  # noqa: E402
 from mynet.tui import create_app  # noqa: E402
 from mynet.tui.data import load_extras, load_snapshot  # noqa: E402
 from mynet.tui.rowlist import RowList  # noqa: E402
-from mynet.workspace.importing import merge_suggestions, open_workspace, search_contacts  # noqa: E402
+from mynet.workspace.people import merge_suggestions, search_contacts  # noqa: E402
+from mynet.store import Store  # noqa: E402
 from conftest import import_sample  # noqa: E402
 
 #: The day after the scenario's last day (sample_contacts/_activity.py ends it on 2026-11-30).
@@ -122,7 +123,7 @@ def test_rename_persists_and_the_cli_sees_it(workspace):
             assert app.snapshot.group(gid).user_named
             assert "Old colleagues" in str(rows(app, "#group-list")[1].values()[1])
         # A fresh connection (as a CLI run would open) sees the name.
-        with open_workspace(workspace) as store:
+        with Store(workspace) as store:
             names = {g.id: g.name for g in analyse(store).groups}
         assert names[gid] == "Old colleagues"
 
@@ -137,7 +138,7 @@ def test_rename_escape_changes_nothing(workspace):
             await pilot.press("n", *"Nope", "escape")
             await settle(pilot)
             assert isinstance(app.focused, RowList)
-        with open_workspace(workspace) as store:
+        with Store(workspace) as store:
             assert store.decisions("group_name") == []
 
     _run(run())
@@ -180,7 +181,7 @@ def test_accepting_a_merge_merges(workspace):
             await settle(pilot)
             assert len(app.snapshot.contacts) == before - 1
             assert first not in {r.key for r in rows(app, "#dupes-list")}
-        with open_workspace(workspace) as store:
+        with Store(workspace) as store:
             a, b = first
             cmap = store.contact_map()
             ids = {cid for cid in cmap.values()}
@@ -204,7 +205,7 @@ def test_keeping_apart_and_skipping(workspace):
             await settle(pilot)
             left = {r.key for r in rows(app, "#dupes-list")}
             assert first in left and second not in left
-        with open_workspace(workspace) as store:
+        with Store(workspace) as store:
             assert second not in {(s.a, s.b) for s in merge_suggestions(store)}
             assert first in {(s.a, s.b) for s in merge_suggestions(store)}
             assert len(store.decisions("different")) == 1
@@ -289,7 +290,7 @@ def test_rating_and_ties_are_saved_at_once(workspace):
             await pilot.press("x", "y")
             await settle(pilot)
             assert first not in {o for o, _s, _r in app.snapshot.ties_of(cid)}
-        with open_workspace(workspace) as store:
+        with Store(workspace) as store:
             kinds = sorted(d["kind"] for d in store.decisions() if d["kind"] in ("rate", "tie", "untie"))
             assert kinds == ["rate", "tie", "untie"]
             assert next(d for d in store.decisions("tie"))["value"]["note"] == "same choir"
@@ -406,9 +407,9 @@ def test_changes_made_elsewhere_show_up(workspace):
         async with app.run_test(size=(80, 24)) as pilot:
             await started(pilot)
             gid = app.snapshot.analysis.groups[0].id
-            from mynet.analysis.snapshot import name_group
+            from mynet.workspace.decisions import name_group
 
-            with open_workspace(workspace) as store:  # as `mynet groups name` would
+            with Store(workspace) as store:  # as `mynet groups name` would
                 name_group(store, gid, "Named elsewhere")
             for _ in range(40):
                 await pilot.pause(0.1)
@@ -434,7 +435,7 @@ def test_an_import_while_the_network_loads_is_noticed(workspace, tmp_path, monke
         snap = real(*args, **kw)
         calls.append(1)
         if len(calls) == 1:
-            with open_workspace(workspace) as store:
+            with Store(workspace) as store:
                 import_paths(store, [extra])
         return snap
 
@@ -460,7 +461,7 @@ def test_snapshot_search_matches_core_search_everywhere(workspace):
 
 def test_empty_workspace_says_what_to_do(tmp_path):
     ws = tmp_path / "empty.sqlite"
-    open_workspace(ws).close()
+    Store(ws).close()
 
     async def run():
         app = create_app(ws, today=TODAY, watch_interval=0)
@@ -480,10 +481,7 @@ def test_missing_workspace_is_a_clear_error(tmp_path):
 
 
 def test_browse_command_is_registered_by_its_module():
-    import click
+    from mynet.cli import cli
+    from mynet.cli.browse import browse_cmd
 
-    from mynet.cli.browse import register
-
-    group = click.Group()
-    register(group)
-    assert "browse" in group.commands
+    assert cli.commands["browse"] is browse_cmd

@@ -105,7 +105,7 @@ def _finding(fid: str, title: str, detail: str, numbers: dict, suggestion: str, 
             "severity": severity, "score": round(score, 4)}
 
 
-def audit(store, net: Network, analysis: Analysis, *, today: date | None = None) -> list[dict[str, Any]]:
+def audit(net: Network, analysis: Analysis, *, today: date | None = None) -> list[dict[str, Any]]:
     """Findings about your network, most useful first (see the module docstring)."""
     today = today or date.today()
     findings: list[dict[str, Any]] = []

@@ -27,7 +27,8 @@ from .centrality import EXACT_LIMIT, SAMPLES, contact_measures
 from .groups import detect_groups, match_groups, suggest_label
 from .structure import network_summary
 
-__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest", "load_analysis", "name_group", "contact_attrs"]
+__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest", "load_analysis", "contact_attrs",
+           "apply_user_decisions", "compute_analysis", "cache_key"]
 
 CACHE_KEY = "analysis:v1"
 STATE_KEY = "groups_state"
@@ -281,15 +282,3 @@ def apply_user_decisions(store: Store, net: Network, a: Analysis) -> None:
             g.name, g.user_named = g.label, False
         g.warm = sum(1 for m in g.members if net.warmth.get(m) and net.warmth[m].warmth >= 0.3)
         g.warm_share = round(g.warm / g.size, 4) if g.size else 0.0
-
-
-def name_group(store: Store, gid: int, name: str | None) -> None:
-    """Give a group your own name (``None`` or empty: back to the suggested label).
-
-    The name belongs to the group's stable id, which follows the group across
-    re-imports and re-analysis as long as most of its members stay together.
-    """
-    with store.transaction():
-        store.delete_decisions("group_name", str(gid))
-        if name and name.strip():
-            store.add_decision("group_name", str(gid), "", name.strip(), bump=False)

@@ -13,15 +13,8 @@ import sys
 import click
 
 from ..errors import MynetError
-from ._common import Ctx, echo
-from .contacts import register as _register_contacts
-from .demo import register as _register_demo
-from .network import register as _register_network
-from .reach import register as _register_reach
-from .analysis import register as _register_analysis
-from .browse import register as _register_browse
-from .report import register as _register_report
-from .tags import register as _register_tags
+from . import browse, demo, groups, measures, people, reach, report, settings, sources, tags, ties
+from .common import Ctx, echo
 
 __all__ = ["main", "cli"]
 
@@ -41,14 +34,12 @@ def cli(ctx: click.Context, workspace: str | None) -> None:
     ctx.obj = Ctx(workspace)
 
 
-_register_contacts(cli)
-_register_network(cli)
-_register_tags(cli)
-_register_reach(cli)
-_register_analysis(cli)
-_register_browse(cli)
-_register_report(cli)
-_register_demo(cli)
+#: The command families, one module each; every module lists its commands in ``COMMANDS``.
+FAMILIES = (sources, people, ties, settings, tags, groups, measures, reach, report, browse, demo)
+
+for _family in FAMILIES:
+    for _command in _family.COMMANDS:
+        cli.add_command(_command)
 
 
 def main(argv: list[str] | None = None) -> int:

@@ -7,9 +7,9 @@ from pathlib import Path
 
 import click
 
-from ..report.export import FORMATS, export_network
 from ..report import MAX_CONTACTS_DRAWN, STEPS, write_report
-from ._common import as_of_option, echo, note, when
+from ..report.export import FORMATS, export_network
+from .common import as_of_option, echo, note, when
 
 
 @contextmanager
@@ -34,51 +34,51 @@ def _progress(label: str, steps: tuple[str, ...]):
         bar.update(task, completed=len(steps))
 
 
-def register(cli: click.Group) -> None:
-    @cli.command("report")
-    @click.option("-o", "--output", type=click.Path(dir_okay=False), default=None,
-                  help="File to write (default: network.html, or network.md with --markdown).")
-    @click.option("--markdown", is_flag=True, help="Write Markdown, with the pictures as SVG files in <name>_files/.")
-    @click.option("--redact", is_flag=True, help="Replace names, organisations, addresses, tags and places by pseudonyms.")
-    @click.option("--seed", type=int, default=0, show_default=True, help="Seed of the picture's layout.")
-    @click.option("--max-contacts", type=int, default=MAX_CONTACTS_DRAWN, show_default=True,
-                  help="Above this many contacts the picture shows the map of groups.")
-    @as_of_option
-    @click.pass_obj
-    def report_cmd(obj, output, markdown, redact, seed, max_contacts, as_of):
-        """Write a self-contained report on your network (opens offline, prints in grey)."""
-        out = Path(output or ("network.md" if markdown else "network.html"))
-        store = obj.store()
-        chosen = when(store, as_of)
-        with _progress("report", STEPS) as step:
-            path = write_report(store, out, markdown=markdown, redact=redact, seed=seed, max_contacts=max_contacts,
-                                progress=step, as_of=chosen)
-        echo(str(path))
-        from ..workspace.privacy import remember_written
+@click.command("report")
+@click.option("-o", "--output", type=click.Path(dir_okay=False), default=None,
+              help="File to write (default: network.html, or network.md with --markdown).")
+@click.option("--markdown", is_flag=True, help="Write Markdown, with the pictures as SVG files in <name>_files/.")
+@click.option("--redact", is_flag=True, help="Replace names, organisations, addresses, tags and places by pseudonyms.")
+@click.option("--seed", type=int, default=0, show_default=True, help="Seed of the picture's layout.")
+@click.option("--max-contacts", type=int, default=MAX_CONTACTS_DRAWN, show_default=True,
+              help="Above this many contacts the picture shows the map of groups.")
+@as_of_option
+@click.pass_obj
+def report_cmd(obj, output, markdown, redact, seed, max_contacts, as_of):
+    """Write a self-contained report on your network (opens offline, prints in grey)."""
+    out = Path(output or ("network.md" if markdown else "network.html"))
+    ws = obj.workspace()
+    chosen = when(ws, as_of)
+    with _progress("report", STEPS) as step:
+        path = write_report(ws, out, markdown=markdown, redact=redact, seed=seed, max_contacts=max_contacts,
+                            progress=step, as_of=chosen)
+    echo(str(path))
+    pictures = path.with_name(path.stem + "_files")
+    ws.remember_written([str(path.resolve())] + ([str(pictures.resolve())] if markdown else []))
+    if markdown:
+        note(f"Pictures in {pictures}/")
+    note("Redacted: names and addresses are pseudonyms." if redact
+         else "The report holds your contacts' names: share it with care (or use --redact).")
 
-        remember_written(store, [str(path.resolve())] + ([str(path.with_name(path.stem + "_files").resolve())] if markdown else []))
-        if markdown:
-            note(f"Pictures in {path.with_name(path.stem + '_files')}/")
-        note("Redacted: names and addresses are pseudonyms." if redact
-             else "The report holds your contacts' names: share it with care (or use --redact).")
 
-    @cli.command("export")
-    @click.option("--format", "fmt", type=click.Choice(FORMATS), default=None,
-                  help="File format (default: from the output's suffix).")
-    @click.option("-o", "--output", type=click.Path(dir_okay=False), required=True,
-                  help="File to write; for csv, FILE.csv gives FILE-contacts.csv and FILE-ties.csv.")
-    @click.option("--redact", is_flag=True, help="Replace names, organisations, addresses, tags and places by pseudonyms.")
-    @as_of_option
-    @click.pass_obj
-    def export_cmd(obj, fmt, output, redact, as_of):
-        """Write the network with every computed attribute as GraphML, CSV or JSON (node-link)."""
-        store = obj.store()
-        chosen = when(store, as_of)
-        with _progress("export", ("export",)) as step:
-            step("export")
-            paths = export_network(store, output, fmt, redact=redact, as_of=chosen)
-        for p in paths:
-            echo(str(p))
-        from ..workspace.privacy import remember_written
+@click.command("export")
+@click.option("--format", "fmt", type=click.Choice(FORMATS), default=None,
+              help="File format (default: from the output's suffix).")
+@click.option("-o", "--output", type=click.Path(dir_okay=False), required=True,
+              help="File to write; for csv, FILE.csv gives FILE-contacts.csv and FILE-ties.csv.")
+@click.option("--redact", is_flag=True, help="Replace names, organisations, addresses, tags and places by pseudonyms.")
+@as_of_option
+@click.pass_obj
+def export_cmd(obj, fmt, output, redact, as_of):
+    """Write the network with every computed attribute as GraphML, CSV or JSON (node-link)."""
+    ws = obj.workspace()
+    chosen = when(ws, as_of)
+    with _progress("export", ("export",)) as step:
+        step("export")
+        paths = export_network(ws, output, fmt, redact=redact, as_of=chosen)
+    for p in paths:
+        echo(str(p))
+    ws.remember_written([str(Path(p).resolve()) for p in paths])
 
-        remember_written(store, [str(Path(p).resolve()) for p in paths])
+
+COMMANDS = (report_cmd, export_cmd)

@@ -12,6 +12,8 @@ from dataclasses import dataclass, field
 from datetime import date
 from typing import Any
 
+import numpy as np
+
 
 from ..errors import MynetError
 from ..model import Contact, Interaction
@@ -107,6 +109,16 @@ class Network:
     def name(self, cid: int) -> str:
         c = self.by_id.get(cid)
         return c.name if c else f"#{cid}"
+
+    @classmethod
+    def looking_from(cls, when: AsOf, *, warmth: dict[int, Warmth] | None = None) -> "Network":
+        """A network with no contacts or ties, seen from ``when`` (and your ``warmth`` when given).
+
+        Enough to find what was cached for that day (the analysis's key, your names
+        of its groups and their warm counts) without loading the ties.
+        """
+        none = TieTable(np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64), np.zeros(0))
+        return cls([], {}, none, none, dict(warmth or {}), TieModel(), WarmthModel(), set(), as_of=when)
 
 
 def anchor_key(store: Store, contact_id: int) -> str:

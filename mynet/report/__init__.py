@@ -1,6 +1,6 @@
 """The report: one self-contained HTML file (or Markdown with SVG pictures) about your network.
 
-``write_report(store, "network.html")`` gathers the audit findings, a picture
+``write_report(ws, "network.html")`` gathers the audit findings, a picture
 of the network, charts of groups, time and warmth, the top brokers and
 bridges and the intro opportunities (:mod:`mynet.report.data`), draws the
 pictures (:mod:`mynet.report.charts`) and writes the page
@@ -20,7 +20,7 @@ from pathlib import Path
 from typing import Callable, Iterable
 
 from ..errors import MynetError
-from ..store import Store
+from ..workspace import Workspace
 from ._io import private_dir, write_private
 from .data import MAX_CONTACTS_DRAWN, STEPS, ReportData, collect
 from .redact import Pseudonyms, find_leaks
@@ -47,7 +47,7 @@ def check_redacted(texts: Iterable[str], ps: Pseudonyms | None) -> None:
 
 
 def write_report(
-    store: Store,
+    ws: Workspace,
     path: str | os.PathLike,
     *,
     markdown: bool = False,
@@ -62,7 +62,7 @@ def write_report(
 
     Parameters
     ----------
-    store : Store
+    ws : Workspace
     path : path-like
         The HTML file, or with ``markdown`` the ``.md`` file; its pictures then
         go to the folder ``<stem>_files`` beside it.
@@ -92,7 +92,7 @@ def write_report(
     out = Path(path)
     if out.parent and not out.parent.is_dir():
         raise MynetError(f"cannot write {out}: the folder {out.parent} does not exist")
-    d = collect(store, redact=redact, today=today, max_contacts=max_contacts, progress=step, as_of=as_of)
+    d = collect(ws, redact=redact, today=today, max_contacts=max_contacts, progress=step, as_of=as_of)
     step("picture")
     from . import charts
 

@@ -10,19 +10,17 @@ every text in the report is built from pseudonyms.
 
 from __future__ import annotations
 
-import re
-from collections import Counter, defaultdict
+from collections import Counter
 from dataclasses import dataclass, field
 from datetime import date
 from typing import Any, Callable
 
 from ..analysis.audit import WARM, audit
-from ..analysis.snapshot import Analysis, analyse, tie_graph
-from ..evidence.network import AsOf, Network, load_network
+from ..analysis.snapshot import Analysis, tie_graph
+from ..evidence.network import AsOf, Network
 from ..evidence.explain import basis, evidence_summary, tie_words
-from ..people.normalise import normalise_email
 from ..analysis.intro_routes import Targets, path_index, reach
-from ..store import Store
+from ..workspace import Workspace
 from ..evidence.warmth import BEYOND, NONE, TIERS
 from .redact import Pseudonyms, redact_analysis, redact_network
 
@@ -34,7 +32,6 @@ MAX_CONTACTS_DRAWN = 2000
 #: The steps :func:`collect` and :func:`mynet.report.write_report` report to ``progress``.
 STEPS = ("load network", "analyse", "audit", "intro paths", "timeline", "picture", "charts", "write")
 
-_MONTH = re.compile(r"^(\d{4})-(\d{2})")
 
 
 @dataclass
@@ -120,39 +117,6 @@ def _intros(net: Network, a: Analysis, limit: int, k: int) -> list[dict[str, Any
     return out
 
 
-def _timeline(store: Store, net: Network) -> list[dict[str, Any]]:
-    """Per month: meetings, messages and the distinct contacts in them (bulk mail left out)."""
-    of = {e: c.id for c in net.contacts for e in c.emails}
-    meetings: Counter = Counter()
-    messages: Counter = Counter()
-    people: dict[str, set[int]] = defaultdict(set)
-    from ..people.mailpeople import evidence_interactions
-
-    for it in evidence_interactions(store):
-        m = _MONTH.match(it.when or "")
-        if not m or it.bulk:
-            continue
-        month = f"{m.group(1)}-{m.group(2)}"
-        (meetings if it.kind == "meeting" else messages)[month] += 1
-        for p in it.participants:
-            cid = of.get(normalise_email(p))
-            if cid is not None:
-                people[month].add(cid)
-    months = sorted(set(meetings) | set(messages))
-    if not months:
-        return []
-    y, mo = map(int, months[0].split("-"))
-    last = months[-1]
-    out = []
-    while True:
-        key = f"{y:04d}-{mo:02d}"
-        out.append({"month": key, "meetings": meetings[key], "messages": messages[key], "people": len(people[key])})
-        if key >= last:
-            break
-        y, mo = (y + 1, 1) if mo == 12 else (y, mo + 1)
-    return out
-
-
 def _tiers(net: Network) -> list[tuple[str, int]]:
     counts = Counter(w.tier for w in net.warmth.values())
     order = [t for t, _ in TIERS] + [BEYOND, NONE]
@@ -162,7 +126,7 @@ def _tiers(net: Network) -> list[tuple[str, int]]:
 
 
 def collect(
-    store: Store,
+    ws: Workspace,
     *,
     redact: bool = False,
     today: date | None = None,
@@ -175,7 +139,7 @@ def collect(
 
     Parameters
     ----------
-    store : Store
+    ws : Workspace
     redact : bool, default False
         Build everything from pseudonyms (see :mod:`mynet.report.redact`).
     today : date, optional
@@ -192,21 +156,21 @@ def collect(
     step = progress or _noop
     today = today or date.today()
     step("load network")
-    net = load_network(store, today=today, as_of=as_of)
+    net = ws.network(as_of, today=today)
     step("analyse")
-    analysis = analyse(store, net)
+    analysis = ws.analysis(net)
     ps = None
     if redact:
-        net_r, ps = redact_network(net, store.setting("webmail_domains", []) or [])
+        net_r, ps = redact_network(net, ws.setting("webmail_domains"))
         analysis_r = redact_analysis(analysis, net_r)
     else:
         net_r, analysis_r = net, analysis
     step("audit")
-    findings = audit(store, net_r, analysis_r, today=net.as_of.day)
+    findings = audit(net_r, analysis_r, today=net.as_of.day)
     step("intro paths")
     intros = _intros(net_r, analysis_r, limit=5, k=3)
     step("timeline")
-    timeline = _timeline(store, net)  # counts only: nothing of the original data leaves this function
+    timeline = ws.timeline(net)  # counts only: nothing of the original data leaves this function
     groups = [{"id": g.id, "name": g.name, "size": g.size, "warm": g.warm, "warm_share": g.warm_share,
                "user_named": g.user_named,
                "roles": dict(Counter(analysis_r.measures.get(m, {}).get("role") or "" for m in g.members))}

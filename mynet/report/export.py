@@ -1,6 +1,7 @@
 """The network with every computed attribute, for other tools: GraphML, CSV or JSON.
 
-One graph (:func:`network_graph`) is the single source of every format:
+One graph (:func:`mynet.workspace.frames.network_graph`, what ``ws.graph()`` returns) is the single source
+of every format:
 
 * **GraphML** (the open XML graph format that networkx and other graph tools read) via
   :func:`networkx.write_graphml`. Node ids are contact ids; attributes are
@@ -32,7 +33,6 @@ from __future__ import annotations
 import csv
 import io
 import json
-import math
 import os
 from datetime import date
 from pathlib import Path
@@ -40,106 +40,30 @@ from typing import Any, Iterable
 
 import networkx as nx
 
-from ..analysis.bridges import neighbourhood_overlap
-from ..analysis.snapshot import Analysis, analyse, tie_graph
 from ..errors import MynetError
-from ..evidence.network import Network, load_network
-from ..evidence.explain import basis, evidence_summary, tie_words
+from ..safetext import shown
+from ..workspace import Workspace
+from ..workspace.frames import MEASURES_FLOAT, MEASURES_INT, network_graph
 from . import check_redacted
 from ._io import write_private
 from .redact import redact_analysis, redact_network
-from ..safetext import shown
-from ..store import Store
 
-__all__ = ["FORMATS", "network_graph", "graphml_text", "csv_texts", "json_text", "neutralise", "csv_paths",
+__all__ = ["FORMATS", "shown_attributes", "graphml_text", "csv_texts", "json_text", "neutralise", "csv_paths",
            "export_network"]
 
 FORMATS = ("graphml", "csv", "json")
 _SUFFIX = {".graphml": "graphml", ".xml": "graphml", ".csv": "csv", ".json": "json"}
 _RISKY = ("=", "+", "-", "@", "\t", "\r")
-_MEASURES_INT = ("degree",)
-_MEASURES_FLOAT = ("strength", "betweenness", "closeness", "pagerank", "eigenvector", "clustering", "constraint",
-                   "effective_size", "participation", "within_z")
 
 CONTACT_COLUMNS = ("id", "label", "emails", "phones", "organisations", "past_organisations", "titles", "tags",
-                   "localities", "group", "group_name", "role", *_MEASURES_INT, *_MEASURES_FLOAT, "warmth", "warmth_tier",
+                   "localities", "group", "group_name", "role", *MEASURES_INT, *MEASURES_FLOAT, "warmth", "warmth_tier",
                    "meetings", "messages", "last_contact")
 TIE_COLUMNS = ("source", "target", "source_label", "target_label", "weight", "organisation", "meeting", "thread",
                "domain", "tag", "related", "meetings", "threads", "manual", "overlap", "between_groups", "source_group",
                "target_group", "evidence")
 
 
-def _finite(x: Any) -> float | None:
-    if x is None:
-        return None
-    x = float(x)
-    return x if math.isfinite(x) else None
-
-
-def _put(d: dict[str, Any], key: str, value: Any) -> None:
-    """Set ``key`` unless ``value`` is missing (None, NaN or an empty list)."""
-    if value is None or (isinstance(value, float) and not math.isfinite(value)):
-        return
-    if isinstance(value, (list, tuple)):
-        if not value:
-            return
-        value = "; ".join(str(v) for v in value)
-    d[key] = value
-
-
-def network_graph(net: Network, analysis: Analysis, *, redacted: bool = False) -> nx.Graph:
-    """The tie graph with every contact's and every tie's attributes (see the module docstring)."""
-    G = tie_graph(net)
-    groups = {g.id: g for g in analysis.groups}
-    G.graph.update({"generator": "mynet", "redacted": bool(redacted), "modularity": float(analysis.modularity),
-                    "groups": len(analysis.groups), "contacts": len(net.contacts), "ties": G.number_of_edges()})
-    for c in net.contacts:
-        attrs: dict[str, Any] = {}
-        _put(attrs, "label", c.name)
-        for key, values in (("emails", c.emails), ("phones", c.phones), ("organisations", c.orgs),
-                            ("past_organisations", c.past_orgs), ("titles", c.titles), ("tags", c.tags),
-                            ("localities", c.localities)):
-            _put(attrs, key, list(values))
-        gid = analysis.group_of.get(c.id)
-        if gid is not None:
-            attrs["group"] = int(gid)
-            _put(attrs, "group_name", groups[gid].name if gid in groups else None)
-        m = analysis.measures.get(c.id, {})
-        _put(attrs, "role", m.get("role"))
-        for key in _MEASURES_INT:
-            if m.get(key) is not None:
-                attrs[key] = int(m[key])
-        for key in _MEASURES_FLOAT:
-            _put(attrs, key, _finite(m.get(key)))
-        w = net.warmth.get(c.id)
-        if w is not None:
-            attrs.update(warmth=float(w.warmth), warmth_tier=w.tier, meetings=int(w.meetings),
-                         messages=int(w.messages_from + w.messages_to))
-            _put(attrs, "last_contact", w.last)
-        G.nodes[c.id].update(attrs)
-    overlap = neighbourhood_overlap(G)
-    t = net.ties
-    for i in range(len(t)):
-        a, b = int(t.a[i]), int(t.b[i])
-        e = G.edges[a, b]
-        for kind, arr in t.parts.items():
-            e[kind] = float(arr[i])
-        e["meetings"] = int(t.counts["meeting"][i]) if "meeting" in t.counts else 0
-        e["threads"] = int(t.counts["thread"][i]) if "thread" in t.counts else 0
-        e["manual"] = bool(t.manual[i]) if t.manual is not None else False
-        e["overlap"] = float(overlap.get((min(a, b), max(a, b)), 0.0))
-        ga, gb = analysis.group_of.get(a), analysis.group_of.get(b)
-        e["between_groups"] = ga is not None and gb is not None and ga != gb
-        _put(e, "source_group", ga)
-        _put(e, "target_group", gb)
-        items = evidence_summary(net, i)
-        e["basis"] = basis(items)
-        _put(e, "evidence", tie_words(items))
-    _shown_attributes(G)
-    return G
-
-
-def _shown_attributes(G: nx.Graph) -> None:
+def shown_attributes(G: nx.Graph) -> None:
     """Every text attribute passed through :func:`mynet.safetext.shown`.
 
     Whatever the workspace holds, the files then carry no control character
@@ -209,7 +133,7 @@ def csv_paths(path: str | os.PathLike) -> tuple[Path, Path]:
 
 
 def export_network(
-    store: Store,
+    ws: Workspace,
     path: str | os.PathLike,
     fmt: str | None = None,
     *,
@@ -233,13 +157,14 @@ def export_network(
                          f"{p.name!r} does not tell by its suffix")
     if not p.parent.is_dir():
         raise MynetError(f"cannot write {p}: the folder {p.parent} does not exist")
-    net = load_network(store, today=today, as_of=as_of)
-    analysis = analyse(store, net)
+    net = ws.network(as_of, today=today)
+    analysis = ws.analysis(net)
     ps = None
     if redact:
-        net, ps = redact_network(net, store.setting("webmail_domains", []) or [])
+        net, ps = redact_network(net, ws.setting("webmail_domains"))
         analysis = redact_analysis(analysis, net)
     G = network_graph(net, analysis, redacted=redact)
+    shown_attributes(G)
     if fmt == "graphml":
         out = {p: graphml_text(G)}
     elif fmt == "json":

@@ -23,11 +23,9 @@ from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Footer, Input
 
 from ..errors import MynetError
-from ..workspace.location import resolve_workspace_path
 from ..safetext import shown
-from ..store import Store
-from ..store.watch import ChangeWatch
-from .data import Extras, Snapshot, load_extras, load_snapshot, peek_snapshot, with_store
+from ..workspace import ChangeWatch, Workspace, resolve_workspace_path
+from .data import Extras, Snapshot, load_extras, load_snapshot, peek_snapshot, with_workspace
 from .look import THEME, Static, plural
 
 __all__ = ["MynetApp", "create_app", "VIEWS"]
@@ -287,7 +285,7 @@ class MynetApp(App):
 
         self.run_worker(work, thread=True, group="load", exit_on_error=False, name="load")
 
-    def edit(self, label: str, fn: Callable[[Store], Any], *, reload: bool = True,
+    def edit(self, label: str, fn: Callable[[Workspace], Any], *, reload: bool = True,
              done: Callable[[Any], None] | None = None, said: str = "") -> None:
         """Write one change to the workspace in a worker, then reload when it changes the network."""
         job = self._start_job(label)
@@ -295,7 +293,7 @@ class MynetApp(App):
 
         def work() -> None:
             try:
-                result = with_store(self.path, fn, say)
+                result = with_workspace(self.path, fn, say)
             except Exception as exc:
                 self._from_thread(self._failed, exc, job)
                 return
@@ -464,8 +462,6 @@ class MynetApp(App):
 
     def rename_group(self, gid: int, name: str) -> None:
         """Give a group the user's name (empty: back to the suggested label); saved at once."""
-        from ..analysis.snapshot import name_group
-
         def done(_result: Any) -> None:
             snap = self.snapshot
             g = snap.group(gid) if snap else None
@@ -475,7 +471,7 @@ class MynetApp(App):
 
         said = f"Saved: group {gid} is now called {name.strip()!r}." if name.strip() else \
             f"Saved: group {gid} goes back to its suggested label."
-        self.edit("Saving the name…", lambda store: name_group(store, gid, name), reload=False, done=done, said=said)
+        self.edit("Saving the name…", lambda ws: ws.name_group(gid, name), reload=False, done=done, said=said)
 
 
 def create_app(workspace_path: str | Path | None = None, *, today: date | None = None,
@@ -491,15 +487,10 @@ def create_app(workspace_path: str | Path | None = None, *, today: date | None =
     watch_interval : float
         Seconds between checks for changes made by another process (0: never).
     as_of : datetime.date or str, optional
-        See the network from this day (see :func:`mynet.network.resolve_as_of`).
+        See the network from this day (see :meth:`mynet.workspace.Workspace.as_of`).
     """
     path = resolve_workspace_path(workspace_path)
-    store = Store(path, create=False)  # a clear error now, rather than inside the app
-    try:
+    with Workspace(path, create=False) as ws:  # a clear error now, rather than inside the app
         if as_of is not None:
-            from ..evidence.network import resolve_as_of
-
-            resolve_as_of(store, as_of)  # a bad date is refused before the screen opens
-    finally:
-        store.close()
+            ws.as_of(as_of)  # a bad date is refused before the screen opens
     return MynetApp(path, today=today, watch_interval=watch_interval, as_of=as_of)

@@ -2,14 +2,13 @@
 
 A :class:`Snapshot` holds the network and its analysis at one moment; the app
 swaps in a new one after an edit or when another process changed the
-workspace. Every function here that touches the store opens its own
-connection, so it can run in any thread. Nothing here imports Textual.
+workspace. Every function here that reads the workspace opens it in its own
+thread (:func:`with_workspace`). Nothing here imports Textual.
 """
 
 from __future__ import annotations
 
 import sqlite3
-import threading
 import time
 from collections import Counter
 from dataclasses import dataclass, field
@@ -19,18 +18,19 @@ from typing import Any, Callable
 
 import numpy as np
 
-from ..analysis.snapshot import Analysis, GroupInfo, analyse
-from ..errors import WorkspaceError
-from ..people.identity import Suggestion
-from ..model import Contact
-from ..evidence.network import Network, load_network
-from ..evidence.explain import evidence_summary, explain_tie, tie_words
-from ..people.normalise import fold_text
+from ..analysis.audit import audit
 from ..analysis.intro_routes import org_catalogue, tag_catalogue
-from ..store import Store
-from ..workspace.importing import merge_suggestions
+from ..analysis.snapshot import Analysis, GroupInfo
+from ..errors import WorkspaceError
+from ..evidence.explain import evidence_summary, tie_words
+from ..evidence.network import Network
+from ..model import Contact
+from ..people.identity import Suggestion
+from ..people.normalise import fold_text, normalise_org
+from ..workspace import Workspace
 
-__all__ = ["Snapshot", "Extras", "peek_snapshot", "load_snapshot", "load_extras", "with_store", "BusyWait", "tier_of", "Choice", "choices"]
+__all__ = ["Snapshot", "Extras", "peek_snapshot", "load_snapshot", "load_extras", "with_workspace", "BusyWait",
+           "tier_of", "Choice", "choices"]
 
 Status = Callable[[str], None]
 
@@ -47,18 +47,19 @@ def _busy(exc: BaseException) -> bool:
     return isinstance(exc, (WorkspaceError, sqlite3.OperationalError)) and ("busy" in text or "locked" in text)
 
 
-def with_store(path: Path, fn: Callable[[Store], Any], status: Status | None = None, *, patience: float = 600.0) -> Any:
-    """Run ``fn`` on a connection of this thread; wait (and say so) while another process writes.
+def with_workspace(path: Path, fn: Callable[[Workspace], Any], status: Status | None = None, *,
+                   patience: float = 600.0) -> Any:
+    """Run ``fn`` on the workspace opened in this thread; wait (and say so) while another process writes.
 
-    Every write in the core runs in one transaction that rolls back on failure,
-    so trying again after a lock timeout is safe.
+    Every change runs in one transaction that rolls back on failure, so trying
+    again after a lock timeout is safe.
     """
     start = time.monotonic()
     said = False
     while True:
-        store = Store(path, create=False, timeout=LOCK_PATIENCE)
+        ws = Workspace(path, create=False, timeout=LOCK_PATIENCE)
         try:
-            return fn(store)
+            return fn(ws)
         except Exception as exc:  # only lock contention is retried
             if not _busy(exc) or time.monotonic() - start > patience:
                 raise
@@ -66,7 +67,7 @@ def with_store(path: Path, fn: Callable[[Store], Any], status: Status | None = N
                 status("The workspace is busy: another mynet process is writing to it (an import?). Waiting…")
                 said = True
         finally:
-            store.close()
+            ws.close()
         time.sleep(0.2)
 
 
@@ -117,8 +118,6 @@ class Snapshot:
     _links: dict[tuple[int, int], dict[str, Any]] | None = None
     _bridges: dict[tuple[int, int], list[dict[str, Any]]] | None = None
     _fragile: dict[tuple[int, int], bool] = field(default_factory=dict)
-    _reading: tuple | None = None
-    _reading_lock: threading.Lock = field(default_factory=threading.Lock)
 
     # -- people ----------------------------------------------------------------
     @property
@@ -222,17 +221,12 @@ class Snapshot:
 
     # -- evidence with its files -----------------------------------------------------
     def explain(self, a: int, b: int) -> dict[str, Any]:
-        """:func:`mynet.network.explain_tie`, reading the records and interactions once per snapshot.
+        """:meth:`mynet.workspace.Workspace.explain` on this snapshot's network.
 
-        Call from a worker thread: the first call reads every record of the workspace.
+        Call from a worker thread: the first call reads every record of the workspace
+        (the network keeps what it read for the next calls).
         """
-        with self._reading_lock:
-            if self._reading is None:
-                def read(store: Store):
-                    return store.contact_map(), store.records(), store.interactions()
-                self._reading = with_store(self.path, read)
-        cmap, records, interactions = self._reading
-        return with_store(self.path, lambda store: explain_tie(_Reading(store, cmap, records, interactions), self.net, a, b))
+        return with_workspace(self.path, lambda ws: ws.explain(a, b, net=self.net))
 
     # -- reach completion ------------------------------------------------------------
     def choices(self) -> list[Choice]:
@@ -241,32 +235,11 @@ class Snapshot:
         return self._choices
 
 
-class _Reading:
-    """A store whose records, interactions and contact map are read once (they do not change within a snapshot)."""
-
-    def __init__(self, store: Store, cmap, records, interactions) -> None:
-        self._store, self._cmap, self._records, self._interactions = store, cmap, records, interactions
-
-    def contact_map(self):
-        return self._cmap
-
-    def records(self):
-        return self._records
-
-    def interactions(self):
-        return self._interactions
-
-    def __getattr__(self, name: str) -> Any:
-        return getattr(self._store, name)
-
-
 def choices(net: Network) -> list[Choice]:
     """Every reach target a user may type: organisations, tags, then people."""
     orgs, tags = org_catalogue(net), tag_catalogue(net)
     org_count: Counter = Counter()
     tag_count: Counter = Counter()
-    from ..people.normalise import normalise_org
-
     for c in net.contacts:
         for o in {normalise_org(o) for o in c.orgs + c.past_orgs}:
             org_count[o] += 1
@@ -287,26 +260,17 @@ def peek_snapshot(path: Path, today: date | None = None, as_of: date | str | Non
     full :func:`load_snapshot` follows and replaces it (it checks that the cached
     analysis still matches the ties).
     """
-    from types import SimpleNamespace
-
-    from ..analysis.snapshot import apply_user_decisions, cache_key
-    from ..evidence.network import resolve_as_of
-
     today = today or date.today()
 
-    def run(store: Store) -> Snapshot | None:
-        when = resolve_as_of(store, as_of, today=today)
-        data = store.cached_any(cache_key(SimpleNamespace(as_of=when)))  # type: ignore[arg-type]
-        warmth = store.cached(f"warmth:v1:{when.day.isoformat()}")
-        if data is None or warmth is None:
+    def run(ws: Workspace) -> Snapshot | None:
+        cached = ws.cached_analysis(as_of, today=today)
+        if cached is None:
             return None
-        analysis = Analysis.from_json(data)
-        light = SimpleNamespace(warmth={int(k): SimpleNamespace(warmth=v.get("warmth", 0.0)) for k, v in warmth.items()})
-        apply_user_decisions(store, light, analysis)  # the user's names and the warm counts, as analyse() applies them
-        return Snapshot(path, when.day, None, analysis, store.data_version, preview=True)  # type: ignore[arg-type]
+        when, analysis = cached
+        return Snapshot(path, when.day, None, analysis, ws.data_version, preview=True)
 
     try:
-        return with_store(path, run, patience=0)
+        return with_workspace(path, run, patience=0)
     except Exception:  # a preview is only a head start; the full load reports real problems
         return None
 
@@ -317,36 +281,28 @@ def load_snapshot(path: Path, today: date | None = None, status: Status | None =
 
     The snapshot's ``today`` is the day the network is seen from: ``as_of``
     when given, else today, else your newest interaction when it is over a
-    year old (see :func:`mynet.network.resolve_as_of`).
+    year old (see :meth:`mynet.workspace.Workspace.as_of`).
     """
-    from ..analysis.snapshot import cache_key
-
     today = today or date.today()
 
-    def run(store: Store) -> Snapshot:
-        version = store.data_version
-        decisions = store.last_decision_id()
-        net = load_network(store, today=today, as_of=as_of)
-        cached = store.has_cache(cache_key(net))
-        if status and not cached:
+    def run(ws: Workspace) -> Snapshot:
+        version = ws.data_version
+        decisions = ws.last_decision_id()
+        net = ws.network(as_of, today=today)
+        if status and not ws.analysis_is_cached(net):
             status("Finding groups and measuring the network (first time after an import)…")
-        analysis = analyse(store, net)
+        analysis = ws.analysis(net)
         return Snapshot(path, net.as_of.day, net, analysis, version, decisions_seen=decisions)
 
-    return with_store(path, run, status)
+    return with_workspace(path, run, status)
 
 
 def load_extras(path: Path, snap: Snapshot, status: Status | None = None) -> Extras:
     """Merge suggestions and the audit findings."""
 
-    def run(store: Store) -> Extras:
-        extras = Extras(suggestions=merge_suggestions(store))
-        try:
-            from ..analysis.audit import audit
-        except ImportError:
-            extras.findings_error = "The audit is not part of this version of mynet yet."
-            return extras
-        extras.findings = list(audit(store, snap.net, snap.analysis, today=snap.today))
+    def run(ws: Workspace) -> Extras:
+        extras = Extras(suggestions=ws.suggestions())
+        extras.findings = list(audit(snap.net, snap.analysis, today=snap.today))
         return extras
 
-    return with_store(path, run, status)
+    return with_workspace(path, run, status)

@@ -13,10 +13,8 @@ from textual.worker import WorkerState
 
 from ..evidence.explain import basis, describe, evidence_summary
 from ..safetext import shown
-from ..workspace.importing import contact_records
-from ..workspace.decisions import add_tie, rate_contact, remove_tie
 from .app import Page
-from .data import Snapshot, tier_of, with_store
+from .data import Snapshot, tier_of, with_workspace
 from .look import Label, Static, clip, plural, warmth_bar
 from .rowlist import Col, Row, RowList
 from .screens import AskScreen
@@ -182,7 +180,7 @@ class PersonScreen(Page):
         contact = snap.net.by_id[self.cid]
 
         def work() -> list[str]:
-            rows = with_store(snap.path, lambda store: contact_records(store, contact))
+            rows = with_workspace(snap.path, lambda ws: ws.records_of(contact))
             return [f"{path.rsplit('/', 1)[-1]}:{rec.line}" for _rid, path, rec in rows]
 
         self.run_worker(work, thread=True, group="sources", exclusive=True, exit_on_error=False)
@@ -288,7 +286,7 @@ class PersonScreen(Page):
                 return
             said = f"Saved: your warmth to {name} is {value:.2f} (your rating)." if value is not None else \
                 f"Saved: your rating of {name} is cleared; warmth comes from your interactions."
-            self.app.edit("Saving your rating…", lambda store: rate_contact(store, self.cid, value), said=said)  # type: ignore[attr-defined]
+            self.app.edit("Saving your rating…", lambda ws: ws.rate(self.cid, value), said=said)  # type: ignore[attr-defined]
 
         self.app.push_screen(AskScreen(f"Your warmth to {name}, from 0 (not close) to 1 (closest); empty clears it:",
                                        value=f"{w.rated:.2f}" if w and w.rated is not None else "",
@@ -317,7 +315,7 @@ class PersonScreen(Page):
             def note(text2: str | None) -> None:
                 if text2 is None:
                     return
-                self.app.edit("Saving the tie…", lambda store: add_tie(store, self.cid, other.id, text2.strip()),  # type: ignore[attr-defined]
+                self.app.edit("Saving the tie…", lambda ws: ws.tie(self.cid, other.id, note=text2.strip()),  # type: ignore[attr-defined]
                               said=f"Saved: {name} and {other.name} know each other.")
 
             self.app.push_screen(AskScreen(f"How do {name} and {other.name} know each other? (optional)"), note)
@@ -333,7 +331,7 @@ class PersonScreen(Page):
 
         def confirmed(yes: bool | None) -> None:
             if yes:
-                self.app.edit("Removing the tie…", lambda store: remove_tie(store, self.cid, other),  # type: ignore[attr-defined]
+                self.app.edit("Removing the tie…", lambda ws: ws.untie(self.cid, other),  # type: ignore[attr-defined]
                               said=f"Saved: no tie between {a} and {b} (kept across re-imports; t adds it back).")
 
         self.app.push_screen(ConfirmScreen(f"Remove the tie between {a} and {b}, whatever the evidence says?"), confirmed)

@@ -318,20 +318,16 @@ class DuplicatesView(Vertical):
         names = f"{snap.net.name(pair[0])} and {snap.net.name(pair[1])}"
         self.decided.add(pair)
         self.refresh_view(snap)
-        self.app.edit(doing.format(names=names), lambda store: work(store, pair),  # type: ignore[attr-defined]
+        self.app.edit(doing.format(names=names), lambda ws: work(ws, pair),  # type: ignore[attr-defined]
                       said=done.format(names=names))
 
     def action_merge(self) -> None:
-        from ..workspace.importing import merge_contacts
-
         self._decide("Merging {names}…", "Merged {names} into one person.",
-                     lambda store, pair: merge_contacts(store, list(pair)))
+                     lambda ws, pair: ws.merge(list(pair)))
 
     def action_apart(self) -> None:
-        from ..workspace.importing import reject_suggestion
-
         self._decide("Keeping {names} apart…", "Kept apart: {names} will not be suggested again.",
-                     lambda store, pair: reject_suggestion(store, *pair))
+                     lambda ws, pair: ws.apart(*pair))
 
     def action_skip(self) -> None:
         pair = self._pair()

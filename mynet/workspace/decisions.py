@@ -1,13 +1,12 @@
-"""Workspace operations on ties and warmth: manual ties, suppressed ties, ratings, settings."""
+"""Your decisions about ties, warmth, labels and groups: kept across re-imports, each one row of the decisions table."""
 
 from __future__ import annotations
-
 
 from ..errors import MynetError
 from ..evidence.network import anchor_key
 from ..store import Store
 
-__all__ = ["add_tie", "remove_tie", "rate_contact", "decide_label", "LABEL_VERDICTS"]
+__all__ = ["add_tie", "remove_tie", "rate_contact", "decide_label", "LABEL_VERDICTS", "name_group", "DecisionsMixin"]
 
 
 def _pair_keys(store: Store, a: int, b: int) -> tuple[str, str]:
@@ -86,3 +85,41 @@ def decide_label(store: Store, label: str, verdict: str | None) -> str:
         else:
             store.bump_data_version()
     return shown[key]
+
+
+def name_group(store: Store, gid: int, name: str | None) -> None:
+    """Give a group your own name (``None`` or empty: back to the suggested label).
+
+    The name belongs to the group's stable id, which follows the group across
+    re-imports and re-analysis as long as most of its members stay together.
+    """
+    with store.transaction():
+        store.delete_decisions("group_name", str(gid))
+        if name and name.strip():
+            store.add_decision("group_name", str(gid), "", name.strip(), bump=False)
+
+
+class DecisionsMixin:
+    """Your decisions about ties, warmth, labels and groups (part of :class:`~mynet.workspace.Workspace`)."""
+
+    store: Store
+
+    def tie(self, a: int, b: int, *, note: str = "", strength: float | None = None) -> None:
+        """Say that two contacts know each other (``strength`` 0-1, default 0.8; kept across re-imports)."""
+        add_tie(self.store, a, b, note, strength)
+
+    def untie(self, a: int, b: int) -> None:
+        """Suppress the tie between two contacts, whatever the evidence says."""
+        remove_tie(self.store, a, b)
+
+    def rate(self, contact_id: int, warmth: float | None) -> None:
+        """Set your own warmth to a contact, 0-1 (None: back to the computed one)."""
+        rate_contact(self.store, contact_id, warmth)
+
+    def decide_label(self, label: str, verdict: str | None) -> str:
+        """Count a label as evidence (``"count"``), never (``"ignore"``), or let mynet judge (None)."""
+        return decide_label(self.store, label, verdict)
+
+    def name_group(self, group_id: int, name: str | None) -> None:
+        """Give a group your own name (None or empty: back to the suggested label)."""
+        name_group(self.store, group_id, name)

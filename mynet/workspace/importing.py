@@ -1,7 +1,7 @@
-"""Workspace operations: import files, resolve identities, record decisions.
+"""Importing files into a workspace: read, leave out forgotten people, store, resolve identities, report.
 
-This is the layer the CLI and the terminal UI call. Every change runs in one
-store transaction, so a failure leaves the workspace exactly as it was.
+An import is one store transaction, so a file that is refused leaves the
+workspace exactly as it was.
 """
 
 from __future__ import annotations
@@ -11,45 +11,21 @@ import os
 from dataclasses import dataclass, field
 from datetime import date, datetime, timezone
 from pathlib import Path
-from typing import Callable
+from typing import Callable, Iterable
 
-from ..errors import AmbiguousError, InputError, MynetError, NotFoundError
-from ..people.identity import Me, Suggestion, record_keys, suggest_merges
-from ..sources import iter_input_files, parse_file, read_bytes, source_digest
-from .location import resolve_workspace_path
-from ..people.mailpeople import evidence_interactions, mail_facts, not_employer_domains, your_other_addresses
-from ..model import Contact, Skipped
+from ..errors import InputError, MynetError
+from ..model import Skipped
+from ..people.forgotten import forgotten_filter, scrub_forgotten
+from ..people.identity import record_keys
 from ..people.refresh import get_me, refresh_contacts
-from ..people.normalise import fold_text, normalise_email, normalise_name
+from ..sources import READERS, iter_input_files, parse_file, read_bytes, source_digest
+from ..sources.csv import load_mapping_file
 from ..store import Store
+from .people import merge_suggestions
 
-__all__ = [
-    "open_workspace",
-    "ImportReport",
-    "import_paths",
-    "refresh_contacts",
-    "set_me",
-    "get_me",
-    "find_contact",
-    "search_contacts",
-    "merge_contacts",
-    "unmerge_contact",
-    "reject_suggestion",
-    "merge_suggestions",
-    "contact_records",
-    "your_other_addresses",
-    "evidence_interactions",
-    "not_employer_domains",
-    "mail_facts",
-    "detach_address",
-]
+__all__ = ["ImportReport", "FileReport", "import_paths", "MAIL_KINDS", "check_region", "read_mapping", "ImportingMixin"]
 
 Progress = Callable[[str], None]
-
-
-def open_workspace(path: str | os.PathLike | None = None, *, create: bool = True) -> Store:
-    """Open (or create) the workspace at ``path``, ``$MYNET_WORKSPACE`` or the default place."""
-    return Store(resolve_workspace_path(path), create=create)
 
 
 @dataclass
@@ -173,8 +149,6 @@ def import_paths(
     InputError
         A file is unreadable, of unknown format, or (``strict``) has a bad record.
     """
-    from ..sources import READERS
-
     report = ImportReport(contacts_before=len(store.contacts()))
     parsed = []
     files = list(iter_input_files(paths))
@@ -207,8 +181,6 @@ def import_paths(
         )
         report.files.append(fr)
         parsed.append((key_path, path, size, digest, result))
-
-    from ..people.forgotten import forgotten_filter, scrub_forgotten
 
     is_forgotten = forgotten_filter(store)
     assumed = (json.loads(store.meta("region_assumed", "{}") or "{}") or {}).get("region", "")
@@ -279,216 +251,87 @@ def _likely_owner(store: Store) -> str:
     return counts.most_common(1)[0][0] if counts else ""
 
 
-def set_me(store: Store, emails: list[str], names: list[str], *, replace: bool = False,
-           phones: list[str] = ()) -> Me:  # type: ignore[assignment]
-    """Declare the user's own addresses, names and phone numbers; their cards become "you".
-
-    Phone numbers must carry their country code (``+44 ...``): your own number
-    tells which country to assume for numbers written without one.
-    """
-    from ..people.normalise import normalise_phone
-
-    bad = [e for e in emails if not normalise_email(e)]
-    if bad:
-        raise MynetError(f"not an e-mail address: {bad[0]!r}")
-    numbers = []
-    for p in phones:
-        e164 = normalise_phone(p.strip()) if p.strip().startswith(("+", "00")) else ""
-        if not e164:
-            raise MynetError(f"give your phone number with its country code, e.g. +44 7700 900123 (got {p!r})")
-        numbers.append(e164)
-    raw = {} if replace else (store.setting("me", {}) or {})
-    all_emails = sorted({*raw.get("emails", []), *(normalise_email(e) for e in emails)})
-    all_names = sorted({*raw.get("names", []), *(n.strip() for n in names if n.strip())})
-    all_phones = sorted({*raw.get("phones", []), *numbers})
-    with store.transaction():
-        store.set_setting("me", {"emails": all_emails, "names": all_names, "phones": all_phones})
-        refresh_contacts(store)
-    return get_me(store)
-
-
-def detach_address(store: Store, contact_id: int | None, address: str, *, undo: bool = False) -> Contact | None:
-    """Say that an address is not this person's (kept across re-imports), or take that back with ``undo``.
-
-    With ``undo`` and no ``contact_id``, every detach of that address from a
-    person who no longer exists (someone known only through it) is taken
-    back. Returns the contact afterwards (None when the person existed only
-    through that address).
-    """
-    from ..people.mailpeople import found_key
-    from ..evidence.network import anchor_key
-
-    addr = normalise_email(address)
-    if not addr:
-        raise MynetError(f"not an e-mail address: {address!r}")
-    contact = store.contact(contact_id) if contact_id is not None else None
-    if contact_id is not None and contact is None:
-        raise NotFoundError(f"no contact with id {contact_id}")
-    keys = _keys_of(store, contact_id) if contact_id is not None else [found_key(addr)]
-    with store.transaction():
-        if undo:
-            cmap = store.contact_map()
-            rows = [row["id"] for row in store.decisions("detach")
-                    if (row["value"] or {}).get("address") == addr
-                    and (row["a"] in keys or contact_id is None and row["a"] not in cmap)]
-            if not rows:
-                whom = f"{contact.name} ({contact_id})" if contact else "anyone who is gone"
-                raise NotFoundError(f"{addr} was not detached from {whom}")
-            for rid in rows:
-                store.delete_decision(rid)
-            store.bump_data_version()
-        else:
-            if contact is None or addr not in contact.emails:
-                raise NotFoundError(f"{contact.name if contact else 'nobody'} ({contact_id}) has no address {addr}"
-                                    f" (see: mynet show {contact_id})")
-            store.add_decision("detach", anchor_key(store, contact_id), "", {"address": addr})
-        refresh_contacts(store)
-    cmap = store.contact_map()
-    new_id = next((cmap[k] for k in keys if k in cmap), None)
-    return store.contact(new_id) if new_id is not None else None
-
-
-def search_contacts(contacts: list[Contact], text: str) -> list[Contact]:
-    """Contacts whose name, e-mail, phone, organisation, tag or place contains ``text`` (accent- and case-blind)."""
-    needle = fold_text(text)
-    if not needle:
-        return list(contacts)
-    out = []
-    for c in contacts:
-        hay = " | ".join(
-            [c.name, *c.nicknames, *c.emails, *c.phones, *c.orgs, *c.past_orgs, *c.titles, *c.tags, *c.localities]
-        )
-        folded = fold_text(hay)
-        if needle in folded or needle.replace(" ", "") in "".join(c.phones):
-            out.append(c)
-    return out
-
-
-def find_contact(store: Store, query: str) -> Contact:
-    """One contact by id, e-mail or name (exact, then unique partial match).
+def check_region(region: str | None) -> None:
+    """Refuse a country code for phone numbers that phonenumbers does not know.
 
     Raises
     ------
-    NotFoundError, AmbiguousError
+    MynetError
+        Naming the code given.
     """
-    q = query.strip()
-    if q.isdigit():
-        c = store.contact(int(q))
-        if c is None:
-            raise NotFoundError(f"no contact with id {q} (see: mynet contacts)")
-        return c
-    contacts = store.contacts()
-    email = normalise_email(q)
-    if email:
-        hits = [c for c in contacts if email in c.emails]
-        if len(hits) == 1:
-            return hits[0]
-    norm = normalise_name(q)
-    exact = [c for c in contacts if normalise_name(c.name) == norm or norm in (normalise_name(n) for n in c.nicknames)]
-    if len(exact) == 1:
-        return exact[0]
-    hits = exact or [c for c in contacts if norm and norm in normalise_name(c.name)]
-    if len(hits) == 1:
-        return hits[0]
-    if not hits:
-        raise NotFoundError(f"no contact matches {query!r} (try: mynet contacts --search {query!r})")
-    listing = "; ".join(f"{c.id} {c.name}" for c in hits[:8])
-    more = f" and {len(hits) - 8} more" if len(hits) > 8 else ""
-    raise AmbiguousError(f"{query!r} matches {len(hits)} contacts: {listing}{more}; use the id")
+    if region:
+        import phonenumbers
+
+        if region.upper() not in phonenumbers.SUPPORTED_REGIONS:
+            raise MynetError(f"--region {region!r} is not a country code phonenumbers knows (e.g. GB, US, DE)")
 
 
-def _keys_of(store: Store, contact_id: int) -> list[str]:
-    return store.keys_of(contact_id)
+def read_mapping(mapping_file: str | os.PathLike | None = None, pairs: Iterable[str] = ()) -> dict[str, str]:
+    """A CSV column mapping from a file of ``FIELD = COLUMN`` lines and from ``FIELD=COLUMN`` texts (these win).
 
-
-def merge_contacts(store: Store, ids: list[int]) -> Contact:
-    """Merge several contacts into one (kept across re-imports). Returns the merged contact."""
-    if len(set(ids)) < 2:
-        raise MynetError("merge needs at least two different contacts")
-    keys = []
-    for cid in ids:
-        if store.contact(cid) is None:
-            raise NotFoundError(f"no contact with id {cid}")
-        keys.append(_keys_of(store, cid))
-    with store.transaction():
-        anchor = keys[0][0]
-        for other in keys[1:]:
-            store.add_decision("same", anchor, other[0])
-            # The user changed their mind: drop earlier "different" decisions between these people.
-            for ka in [k for ks in keys for k in ks]:
-                for kb in other:
-                    store.delete_decisions("different", ka, kb)
-                    store.delete_decisions("different", kb, ka)
-        refresh_contacts(store)
-    merged = store.contact(store.contact_map()[anchor])
-    assert merged is not None
-    return merged
-
-
-def unmerge_contact(store: Store, contact_id: int, record_ids: list[int] | None = None) -> list[Contact]:
-    """Split records off a contact (all of them when ``record_ids`` is empty).
-
-    The split is kept across re-imports: the detached records are marked as
-    different people from the ones that stay.
+    Raises
+    ------
+    MynetError
+        For a text that is not ``FIELD=COLUMN``.
     """
-    contact = store.contact(contact_id)
-    if contact is None:
-        raise NotFoundError(f"no contact with id {contact_id}")
-    if len(contact.record_ids) < 2:
-        raise MynetError(f"{contact.name} ({contact_id}) has only one record; there is nothing to split")
-    rows = {rid: key for rid, key, _s, _r in store.records_by_id(contact.record_ids)}
-    if record_ids:
-        unknown = [r for r in record_ids if r not in rows]
-        if unknown:
-            raise NotFoundError(
-                f"record {unknown[0]} is not one of {contact.name}'s records ({', '.join(map(str, sorted(rows)))})"
-            )
-        groups = [[rows[r] for r in record_ids], [k for r, k in rows.items() if r not in record_ids]]
-        if not groups[1]:
-            raise MynetError("that would detach every record; name the records to split off")
-    else:
-        groups = [[k] for k in rows.values()]
-    with store.transaction():
-        all_keys = list(rows.values())
-        for a in all_keys:
-            for b in all_keys:
-                store.delete_decisions("same", a, b)
-        for gi, ga in enumerate(groups):
-            for gb in groups[gi + 1 :]:
-                for a in ga:
-                    for b in gb:
-                        store.add_decision("different", a, b)
-            for a, b in zip(ga, ga[1:]):
-                store.add_decision("same", a, b)
-        refresh_contacts(store)
-    cmap = store.contact_map()
-    ids = sorted({cmap[k] for k in rows.values() if k in cmap})
-    return [c for c in (store.contact(i) for i in ids) if c]
+    mapping: dict[str, str] = {}
+    if mapping_file:
+        mapping.update(load_mapping_file(mapping_file))
+    for item in pairs:
+        if "=" not in item:
+            raise MynetError(f"--map takes field=Column, got {item!r}")
+        name, column = item.split("=", 1)
+        mapping[name.strip()] = column.strip()
+    return mapping
 
 
-def reject_suggestion(store: Store, a: int, b: int) -> None:
-    """Mark two contacts as different people (the suggestion is not shown again)."""
-    ka, kb = _keys_of(store, a), _keys_of(store, b)
-    if not ka or not kb:
-        raise NotFoundError(f"no contact with id {a if not ka else b}")
-    with store.transaction():
-        store.add_decision("different", ka[0], kb[0])
-        refresh_contacts(store)
+class ImportingMixin:
+    """Importing files and the list of what was imported (part of :class:`~mynet.workspace.Workspace`)."""
 
+    store: Store
 
-def merge_suggestions(store: Store) -> list[Suggestion]:
-    """Likely duplicates for the user to accept or reject, best first."""
-    cmap = store.contact_map()
-    rejected = set()
-    for row in store.decisions("different"):
-        a, b = cmap.get(row["a"]), cmap.get(row["b"])
-        if a and b:
-            rejected.add((min(a, b), max(a, b)))
-    held = [Suggestion(**s) for s in json.loads(store.meta("held_back", "[]") or "[]")]
-    extra = not_employer_domains(store)
-    return suggest_merges(store.contacts(), rejected, extra, held)
+    def import_files(
+        self,
+        paths: Iterable[str | os.PathLike],
+        *,
+        strict: bool = False,
+        mapping: dict[str, str] | None = None,
+        region: str | None = None,
+        as_of: str | None = None,
+        skip_bad_files: bool = False,
+        new_contacts: bool = True,
+        progress: Progress | None = None,
+    ) -> ImportReport:
+        """Read contact exports, calendars and mailboxes into the workspace (one transaction).
 
+        Parameters
+        ----------
+        paths : iterable of path-like
+            Files and folders (read recursively; a Maildir or a folder of saved messages is one mailbox).
+        strict : bool
+            Stop at the first malformed record instead of skipping it.
+        mapping : dict, optional
+            CSV: read a field from a named column (see :func:`read_mapping`).
+        region : str, optional
+            Country for phone numbers written without one (``GB``, ``US``...).
+        as_of : str, optional
+            When these files were current (``YYYY-MM-DD``; older ones give past employers).
+        skip_bad_files : bool
+            Import the readable files even if others are refused (they are reported).
+        new_contacts : bool
+            Whether the people you corresponded with in these files may become contacts.
+        progress : callable, optional
+            Called with a line of text per file read.
 
-def contact_records(store: Store, contact: Contact):
-    """The source records behind a contact: (record id, source path, record)."""
-    return [(rid, src["path"], rec) for rid, _k, src, rec in store.records_by_id(contact.record_ids)]
+        Raises
+        ------
+        InputError
+            A file is unreadable or of unknown format, or (``strict``) holds a bad record; nothing is stored.
+        """
+        check_region(region)
+        return import_paths(self.store, list(paths), strict=strict, mapping=mapping, region=region, as_of=as_of,
+                            skip_bad_files=skip_bad_files, new_contacts=new_contacts, progress=progress)
+
+    def sources(self) -> list[dict]:
+        """The imported files: id, path, kind, sha256, as_of, imported_at, n_records, n_skipped..."""
+        return [dict(row) for row in self.store.sources()]

@@ -21,7 +21,8 @@ from ..people.forgotten import remember_forgotten
 from ..people.refresh import refresh_contacts
 from ..store import Store
 
-__all__ = ["forget_contact", "remove_source", "compact", "ForgetReport", "remember_written", "written_files"]
+__all__ = ["forget_contact", "remove_source", "compact", "ForgetReport", "remember_written", "written_files",
+           "PrivacyMixin"]
 
 #: Meta key listing the reports and exports written from this workspace (paths only, no content).
 WRITTEN_KEY = "written_files"
@@ -170,3 +171,29 @@ def remove_source(store: Store, path: str) -> ForgetReport:
         refresh_contacts(store)
     compact(store)
     return ForgetReport(source=src["path"], records=n_rec, interactions=n_int, decisions=dropped, decisions_kept=moved)
+
+
+class PrivacyMixin:
+    """Forgetting people and files (part of :class:`~mynet.workspace.Workspace`)."""
+
+    store: Store
+
+    def forget(self, contact_id: int) -> ForgetReport:
+        """Remove a person completely (records, their addresses in meetings and mail, decisions, caches)."""
+        return forget_contact(self.store, contact_id)
+
+    def remove_source(self, path: str) -> ForgetReport:
+        """Remove an imported file and everything only it supported; ``path`` as imported, or its file name."""
+        return remove_source(self.store, path)
+
+    def compact(self) -> None:
+        """Drop caches and vacuum the file, so deleted rows leave no trace."""
+        compact(self.store)
+
+    def remember_written(self, paths: Iterable[str]) -> None:
+        """Note files written from this workspace (reports, exports), so forgetting someone can name them."""
+        remember_written(self.store, paths)
+
+    def written_files(self) -> list[str]:
+        """Reports and exports written from this workspace that still exist, oldest first."""
+        return written_files(self.store)

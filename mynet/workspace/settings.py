@@ -16,7 +16,7 @@ from ..settings import SettingError, Spec, registered
 from ..store import Store
 
 __all__ = ["groups", "schema", "stored_value", "parse", "update_setting", "update_list_setting", "update_settings",
-           "current_settings"]
+           "current_settings", "SettingsMixin"]
 
 
 def groups() -> dict[str, type]:
@@ -106,3 +106,47 @@ def update_settings(store: Store, group: str, key: str, value: str) -> dict[str,
     """Change one model setting (``tie_model``, ``meeting_scale``, ``"3"``); returns the group's stored values."""
     update_setting(store, f"{group}.{key}", value)
     return dict(store.setting(group, {}) or {})
+
+
+class SettingsMixin:
+    """Settings, typed through the schema (part of :class:`~mynet.workspace.Workspace`)."""
+
+    store: Store
+
+    def settings(self) -> dict[str, Any]:
+        """Every setting's value in force, by full name (``tie_model.min_strength``, ``webmail_domains``...)."""
+        return current_settings(self.store)
+
+    def setting(self, name: str) -> Any:
+        """One setting's value in force (its default when unset).
+
+        Raises
+        ------
+        SettingError
+            For an unknown setting.
+        """
+        if name not in schema():
+            parse(name, "")  # the same message as setting it: unknown, with the closest known name
+        return stored_value(self.store.settings(), name)
+
+    def set_setting(self, name: str, value: Any) -> Any:
+        """Change a setting; ``value`` is checked against the schema (text as typed, or a value). Returns it as stored.
+
+        A list setting given as text takes a leading ``+`` to add to its current value.
+        """
+        return update_setting(self.store, name, value if isinstance(value, str) else _as_text(value))
+
+    def settings_schema(self) -> dict[str, Spec]:
+        """Every setting's spec (kind, accepted values, meaning, default), by full name."""
+        return schema()
+
+
+def _as_text(value: Any) -> str:
+    """A value written the way :meth:`~mynet.settings.Spec.parse` reads it."""
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, dict):
+        return ",".join(f"{k}={v}" for k, v in value.items())
+    if isinstance(value, (list, tuple, set)):
+        return ",".join(str(v) for v in value)
+    return str(value)

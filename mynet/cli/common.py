@@ -1,4 +1,4 @@
-"""Helpers shared by the CLI commands: workspace access, JSON, tables, stderr notes.
+"""Helpers shared by the CLI commands: the workspace of this run, JSON, tables, stderr notes, common options.
 
 Every line the CLI prints goes through :func:`echo` (or :func:`note`,
 :func:`table`, :func:`emit_json`, :func:`confirm`), which pass the text through
@@ -15,23 +15,23 @@ from typing import Any, Iterable, Sequence
 
 import click
 
+from ..evidence.network import AsOf, Network
 from ..safetext import json_escape, shown
-from ..store import Store
-from ..workspace.importing import open_workspace
+from ..workspace import Workspace, open_workspace
 
 
 class Ctx:
-    """Per-invocation state: the workspace path and the opened store."""
+    """Per-invocation state: the workspace path (``--workspace``) and the workspace, opened on first use."""
 
-    def __init__(self, workspace: str | None):
-        self.workspace = workspace
-        self._store: Store | None = None
+    def __init__(self, path: str | None):
+        self.path = path
+        self._workspace: Workspace | None = None
 
-    def store(self, *, create: bool = True) -> Store:
-        if self._store is None:
-            self._store = open_workspace(self.workspace, create=create)
-            click.get_current_context().call_on_close(self._store.close)
-        return self._store
+    def workspace(self, *, create: bool = True) -> Workspace:
+        if self._workspace is None:
+            self._workspace = open_workspace(self.path, create=create)
+            click.get_current_context().call_on_close(self._workspace.close)
+        return self._workspace
 
 
 def echo(text: Any = "", *, nl: bool = True, err: bool = False) -> None:
@@ -75,6 +75,8 @@ def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequenc
 
 
 json_option = click.option("--json", "as_json", is_flag=True, help="Print one JSON document on stdout.")
+
+
 def _check_day(ctx, param, value):
     from datetime import date
 
@@ -93,18 +95,29 @@ as_of_option = click.option(
          "(default today, or your newest interaction when that is more than a year old).")
 
 
-def when(store: Store, as_of: str | None):
-    """The day to analyse at (see :func:`mynet.network.resolve_as_of`); says so on stderr when mynet chose it."""
-    from ..evidence.network import resolve_as_of
-
-    chosen = resolve_as_of(store, as_of)
+def when(ws: Workspace, as_of: str | None) -> AsOf:
+    """The day to analyse at (see :meth:`Workspace.as_of`); says so on stderr when mynet chose it."""
+    chosen = ws.as_of(as_of)
     if chosen.note:
         note(chosen.note)
     return chosen
 
 
-def load_net(store: Store, as_of: str | None):
+def load_net(ws: Workspace, as_of: str | None) -> Network:
     """The network at the day asked for (or chosen), with the one-line note on stderr."""
-    from ..evidence.network import load_network
+    return ws.network(when(ws, as_of))
 
-    return load_network(store, as_of=when(store, as_of))
+
+def plural(n: int, word: str) -> str:
+    return f"{n} {word}{'' if n == 1 else 's'}"
+
+
+def confirm_or_refuse(question: str) -> None:
+    """Ask on a terminal; without one, refuse clearly (add --yes) instead of waiting or aborting oddly."""
+    import sys
+
+    from ..errors import MynetError
+
+    if not sys.stdin.isatty():
+        raise MynetError("this changes your workspace for good; run it in a terminal to confirm, or add --yes")
+    confirm(question)
