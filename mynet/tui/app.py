@@ -19,14 +19,14 @@ from textual.app import App, ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal
 from textual.reactive import reactive
-from textual.screen import Screen
-from textual.widgets import ContentSwitcher, Footer, Input
+from textual.widgets import ContentSwitcher, Input
 
 from ..errors import MynetError
 from ..safetext import shown
 from ..workspace import ChangeWatch, Workspace, resolve_workspace_path
 from .data import Extras, Snapshot, load_extras, load_snapshot, peek_snapshot, with_workspace
-from .look import THEME, Static, plural
+from .look import THEME, Static
+from .page import AppAccess, Page, View
 
 __all__ = ["MynetApp", "create_app", "VIEWS"]
 
@@ -34,36 +34,11 @@ __all__ = ["MynetApp", "create_app", "VIEWS"]
 VIEWS = (("groups", "Groups"), ("map", "Map"), ("people", "People"), ("reach", "Reach"),
          ("duplicates", "Duplicates"), ("findings", "Findings"))
 
-SPINNER = "◐◓◑◒"
 #: What the status line says when another process (an import, a merge on the command line) changed the workspace.
 CHANGED_ELSEWHERE = "Another mynet command changed the workspace (an import?); what you see is now up to date."
-#: Seconds before a running job shows its spinner ("more than a moment").
-MOMENT = 0.25
 
 
-class TopBar(Static):
-    """Workspace name, counts, and where you are."""
-
-    def on_mount(self) -> None:
-        self.watch(self.app, "snapshot_version", lambda _v: self.update_bar(), init=True)
-
-    def update_bar(self) -> None:
-        app: MynetApp = self.app  # type: ignore[assignment]
-        snap = app.snapshot
-        place = [str(getattr(s, "crumb", "")) for s in app.screen_stack if isinstance(s, Page) and s.crumb]
-        head = f" mynet · {app.path.name}"
-        if len(place) > 1:  # below the views: where you are
-            self.update(head + " · " + " › ".join(place))
-        elif snap is not None:
-            people = len(snap.contacts) if snap.net is not None else len(snap.analysis.group_of)
-            ties = len(snap.net.ties) if snap.net is not None else int(snap.analysis.summary.get("ties") or 0)
-            self.update(head + f" · {plural(people, 'person', 'people')} · {plural(ties, 'tie')}"
-                        f" · {plural(len(snap.analysis.groups), 'group')}")
-        else:
-            self.update(head)
-
-
-class ViewTab(Static):
+class ViewTab(AppAccess, Static):
     """One entry of the view bar; a click opens its view."""
 
     def __init__(self, number: int, view: str, title: str) -> None:
@@ -72,51 +47,7 @@ class ViewTab(Static):
 
     def on_click(self, event: events.Click) -> None:
         event.stop()
-        self.app.action_view(self.view)  # type: ignore[attr-defined]
-
-
-class StatusLine(Static):
-    """The last thing that happened, and a spinner while something is running."""
-
-    def on_mount(self) -> None:
-        self.watch(self.app, "status_text", lambda _v: self.show(), init=True)
-        self.set_interval(0.12, self.show)
-
-    def show(self) -> None:
-        app: MynetApp = self.app  # type: ignore[assignment]
-        if app.busy_label and time.monotonic() - app.busy_since >= MOMENT:
-            frame = SPINNER[int(time.monotonic() * 8) % len(SPINNER)]
-            self.update(f" {frame} {app.busy_label}")
-            self.add_class("-busy")
-        else:
-            self.update(f" {app.status_text}" if app.status_text else "")
-            self.remove_class("-busy")
-
-
-class Page(Screen):
-    """A screen with the top bar, a status line and the key footer around its body."""
-
-    crumb = ""
-    #: What the status line says when the screen opens: what its words mean.
-    hint = ""
-
-    def compose(self) -> ComposeResult:
-        yield TopBar(classes="topbar")
-        yield from self.body()
-        yield StatusLine(classes="status")
-        yield Footer()
-
-    def body(self) -> ComposeResult:
-        return iter(())
-
-    def refresh_view(self, snap: Snapshot) -> None:
-        """Redraw from a new snapshot (override)."""
-
-    def on_screen_resume(self) -> None:
-        for bar in self.query(TopBar):
-            bar.update_bar()
-        if self.hint:
-            self.app.status_text = self.hint  # type: ignore[attr-defined]
+        self.mynet_app.action_view(self.view)
 
 
 class MainScreen(Page):
@@ -156,18 +87,18 @@ class MainScreen(Page):
         self.query_one(ContentSwitcher).current = view
         for tab in self.query(ViewTab):
             tab.set_class(tab.view == view, "-current")
-        widget = self.query_one(f"#{view}")
-        widget.focus_default()  # type: ignore[attr-defined]
-        if getattr(widget, "hint", "") and self.app.snapshot is not None:  # type: ignore[attr-defined]
-            self.app.status_text = widget.hint  # type: ignore[attr-defined]
+        widget = self.query_one(f"#{view}", View)
+        widget.focus_default()
+        if getattr(widget, "hint", "") and self.mynet_app.snapshot is not None:
+            self.mynet_app.status_text = widget.hint
 
     def refresh_view(self, snap: Snapshot) -> None:
         self.query_one("#groups").loading = False
         if snap.preview:  # the groups as last analysed; the rest follows in a moment
-            self.query_one("#groups").refresh_view(snap)  # type: ignore[attr-defined]
+            self.query_one("#groups", View).refresh_view(snap)
             return
         for view, _title in VIEWS:
-            self.query_one(f"#{view}").refresh_view(snap)  # type: ignore[attr-defined]
+            self.query_one(f"#{view}", View).refresh_view(snap)
         dupes = self.query_one("#tab-duplicates", ViewTab)
         n = len(snap.extras.suggestions) if snap.extras else None
         dupes.update(f"5 Duplicates{f' ({n})' if n else ''}")
@@ -412,7 +343,9 @@ class MynetApp(App):
             return
         main = self._to_main()
         main.show_view("people")
-        main.query_one("#people").start_search()  # type: ignore[attr-defined]
+        from .views_main import PeopleView
+
+        main.query_one("#people", PeopleView).start_search()
 
     def action_help(self) -> None:
         from .screens import HelpScreen
@@ -458,7 +391,9 @@ class MynetApp(App):
     def reach_for(self, query_kind: str, value: str, label: str) -> None:
         main = self._to_main()
         main.show_view("reach")
-        main.query_one("#reach").run_query(query_kind, value, label)  # type: ignore[attr-defined]
+        from .views_work import ReachView
+
+        main.query_one("#reach", ReachView).run_query(query_kind, value, label)
 
     def rename_group(self, gid: int, name: str) -> None:
         """Give a group the user's name (empty: back to the suggested label); saved at once."""

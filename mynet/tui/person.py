@@ -13,11 +13,11 @@ from textual.worker import WorkerState
 
 from ..evidence.explain import basis, describe, evidence_summary
 from ..safetext import shown
-from .app import Page
+from .page import Page
 from .data import Snapshot, tier_of, with_workspace
 from .look import Label, Static, clip, plural, warmth_bar
 from .rowlist import Col, Row, RowList
-from .screens import AskScreen
+from .dialogs import AskScreen
 from .views_main import group_title
 
 __all__ = ["PersonScreen", "ConfirmScreen", "card_text", "evidence_text", "standing_words"]
@@ -152,7 +152,7 @@ class PersonScreen(Page):
 
     @property
     def crumb(self) -> str:  # type: ignore[override]
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         return clip(snap.net.name(self.cid), 30) if snap else "Person"
 
     def body(self) -> ComposeResult:
@@ -165,7 +165,7 @@ class PersonScreen(Page):
 
     def on_mount(self) -> None:
         self.query_one(RowList).focus()
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if snap is not None:
             self.refresh_view(snap)
         self.load_sources()
@@ -174,7 +174,7 @@ class PersonScreen(Page):
         self.set_class(self.size.width >= 110, "-wide")
 
     def load_sources(self) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if snap is None or self.cid not in snap.net.by_id:
             return
         contact = snap.net.by_id[self.cid]
@@ -208,9 +208,9 @@ class PersonScreen(Page):
         if worker.group == "explain":
             self._explaining = False
         if event.state == WorkerState.ERROR:
-            self.app.status_text = f"Could not read the records: {worker.error!r}"  # type: ignore[attr-defined]
+            self.mynet_app.status_text = f"Could not read the records: {worker.error!r}"
             return
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if worker.group == "sources":
             self.sources = worker.result
             if snap is not None and self.cid in snap.net.by_id:
@@ -224,7 +224,7 @@ class PersonScreen(Page):
                 self._explain()  # the cursor moved on meanwhile
 
     def show_evidence(self, other) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         box = self.query_one("#evidence", Static)
         if snap is None or other is None:
             box.update("")
@@ -250,7 +250,7 @@ class PersonScreen(Page):
         self._timer = self.set_timer(0.25, self._explain)
 
     def _explain(self) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         other, cid = self._want, self.cid
         if snap is None or other is None or self._explaining or other in self._explained:
             return
@@ -265,11 +265,11 @@ class PersonScreen(Page):
         self.show_evidence(event.key)
 
     def on_row_list_selected(self, event: RowList.Selected) -> None:
-        self.app.open_person(event.key)  # type: ignore[attr-defined]
+        self.mynet_app.open_person(event.key)
 
     # -- edits ---------------------------------------------------------------------------
     def action_rate(self) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if snap is None:
             return
         w = snap.net.warmth.get(self.cid)
@@ -282,18 +282,18 @@ class PersonScreen(Page):
             try:
                 value = None if not text else float(text)
             except ValueError:
-                self.app.status_text = f"Not a number: {text!r}; nothing changed."  # type: ignore[attr-defined]
+                self.mynet_app.status_text = f"Not a number: {text!r}; nothing changed."
                 return
             said = f"Saved: your warmth to {name} is {value:.2f} (your rating)." if value is not None else \
                 f"Saved: your rating of {name} is cleared; warmth comes from your interactions."
-            self.app.edit("Saving your rating…", lambda ws: ws.rate(self.cid, value), said=said)  # type: ignore[attr-defined]
+            self.mynet_app.edit("Saving your rating…", lambda ws: ws.rate(self.cid, value), said=said)
 
         self.app.push_screen(AskScreen(f"Your warmth to {name}, from 0 (not close) to 1 (closest); empty clears it:",
                                        value=f"{w.rated:.2f}" if w and w.rated is not None else "",
                                        placeholder="e.g. 0.7"), answer)
 
     def action_tie(self) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if snap is None:
             return
         name = snap.net.name(self.cid)
@@ -307,7 +307,7 @@ class PersonScreen(Page):
                      and typed in (c.name.casefold(), shown(c.name, one_line=True).casefold())]
             hits = exact or [c for c in snap.search(text) if c.id != self.cid]
             if len(hits) != 1:
-                self.app.status_text = (f"Nobody matches {text!r}." if not hits else  # type: ignore[attr-defined]
+                self.mynet_app.status_text = (f"Nobody matches {text!r}." if not hits else
                                         f"{text!r} matches {len(hits)} people; type more of the name.")
                 return
             other = hits[0]
@@ -315,7 +315,7 @@ class PersonScreen(Page):
             def note(text2: str | None) -> None:
                 if text2 is None:
                     return
-                self.app.edit("Saving the tie…", lambda ws: ws.tie(self.cid, other.id, note=text2.strip()),  # type: ignore[attr-defined]
+                self.mynet_app.edit("Saving the tie…", lambda ws: ws.tie(self.cid, other.id, note=text2.strip()),
                               said=f"Saved: {name} and {other.name} know each other.")
 
             self.app.push_screen(AskScreen(f"How do {name} and {other.name} know each other? (optional)"), note)
@@ -323,7 +323,7 @@ class PersonScreen(Page):
         self.app.push_screen(AskScreen(f"Who else does {name} know? Type a name:", suggestions=names), who)
 
     def action_untie(self) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         other = self.query_one(RowList).current_key
         if snap is None or other is None:
             return
@@ -331,12 +331,12 @@ class PersonScreen(Page):
 
         def confirmed(yes: bool | None) -> None:
             if yes:
-                self.app.edit("Removing the tie…", lambda ws: ws.untie(self.cid, other),  # type: ignore[attr-defined]
+                self.mynet_app.edit("Removing the tie…", lambda ws: ws.untie(self.cid, other),
                               said=f"Saved: no tie between {a} and {b} (kept across re-imports; t adds it back).")
 
         self.app.push_screen(ConfirmScreen(f"Remove the tie between {a} and {b}, whatever the evidence says?"), confirmed)
 
     def action_reach(self) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if snap is not None:
-            self.app.reach_for("person", str(self.cid), snap.net.name(self.cid))  # type: ignore[attr-defined]
+            self.mynet_app.reach_for("person", str(self.cid), snap.net.name(self.cid))

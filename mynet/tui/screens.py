@@ -2,24 +2,20 @@
 
 from __future__ import annotations
 
-from typing import Callable
 
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
-from textual.suggester import SuggestFromList
-from textual.widgets import Input
 
-from ..safetext import shown
-from .app import Page
+from .page import Page, TopBar
 from .data import Snapshot, tier_of
 from .look import SUGGESTED, Label, Static, clip, density_cell, plural, warmth_bar
 from .rowlist import Col, Row, RowList
 from .views_main import NameEditor, group_facts, group_title
 
-__all__ = ["GroupScreen", "LinksScreen", "HelpScreen", "AskScreen", "help_sections"]
+__all__ = ["GroupScreen", "LinksScreen", "HelpScreen", "help_sections"]
 
 
 class GroupScreen(Page):
@@ -39,7 +35,7 @@ class GroupScreen(Page):
 
     @property
     def crumb(self) -> str:  # type: ignore[override]
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if snap is None:
             return "Group"
         g = snap.group(self.gid)
@@ -54,8 +50,8 @@ class GroupScreen(Page):
     def on_mount(self) -> None:
         self.query_one(NameEditor).display = False
         self.query_one(RowList).focus()
-        if self.app.snapshot is not None:  # type: ignore[attr-defined]
-            self.refresh_view(self.app.snapshot)  # type: ignore[attr-defined]
+        if self.mynet_app.snapshot is not None:
+            self.refresh_view(self.mynet_app.snapshot)
 
     def refresh_view(self, snap: Snapshot) -> None:
         g = snap.group(self.gid)
@@ -80,23 +76,23 @@ class GroupScreen(Page):
             title = group_title(snap, self.gid)
             title.stylize("bold")
             head.update(Text.assemble(title, "\n", group_facts(snap, self.gid).split("\n", 1)[1]))
-        for bar in self.query("TopBar"):
-            bar.update_bar()  # type: ignore[attr-defined]
+        for bar in self.query(TopBar):
+            bar.update_bar()
 
     def on_row_list_selected(self, event: RowList.Selected) -> None:
-        self.app.open_person(event.key)  # type: ignore[attr-defined]
+        self.mynet_app.open_person(event.key)
 
     def action_name(self) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if self.gid is None or snap is None:
-            self.app.status_text = "These people are in no group; there is nothing to name."  # type: ignore[attr-defined]
+            self.mynet_app.status_text = "These people are in no group; there is nothing to name."
             return
         lst = self.query_one(RowList)
         self.query_one(NameEditor).open(snap, self.gid, lst.focus, lst.row_line(lst.cursor))
 
     def action_connections(self) -> None:
         if self.gid is not None:
-            self.app.open_links(self.gid)  # type: ignore[attr-defined]
+            self.mynet_app.open_links(self.gid)
 
 
 def gateways(snap: Snapshot, gid: int, limit: int = 8) -> list[tuple[int, int, str]]:
@@ -126,7 +122,7 @@ class LinksScreen(Page):
 
     @property
     def crumb(self) -> str:  # type: ignore[override]
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         return "Connections of " + (clip(snap.group_name(self.gid), 28) if snap else "a group")
 
     def body(self) -> ComposeResult:
@@ -135,8 +131,8 @@ class LinksScreen(Page):
 
     def on_mount(self) -> None:
         self.query_one(RowList).focus()
-        if self.app.snapshot is not None:  # type: ignore[attr-defined]
-            self.refresh_view(self.app.snapshot)  # type: ignore[attr-defined]
+        if self.mynet_app.snapshot is not None:
+            self.refresh_view(self.mynet_app.snapshot)
 
     def refresh_view(self, snap: Snapshot) -> None:
         gid, net = self.gid, snap.net
@@ -200,9 +196,9 @@ class LinksScreen(Page):
     def on_row_list_selected(self, event: RowList.Selected) -> None:
         key = event.key
         if isinstance(key, tuple) and key[0] == "group":
-            self.app.open_group(key[1])  # type: ignore[attr-defined]
+            self.mynet_app.open_group(key[1])
         elif isinstance(key, tuple) and key[0] == "person":
-            self.app.open_person(key[1])  # type: ignore[attr-defined]
+            self.mynet_app.open_person(key[1])
 
 
 def help_sections(app) -> list[tuple[str, list[tuple[str, str]]]]:
@@ -259,38 +255,4 @@ class HelpScreen(ModalScreen):
         self.query_one(VerticalScroll).focus()  # arrows and Page keys scroll the list of keys
 
     def action_dismiss(self) -> None:  # type: ignore[override]
-        self.dismiss(None)
-
-
-class AskScreen(ModalScreen):
-    """One question with a text answer; Enter answers, Escape cancels."""
-
-    BINDINGS = [Binding("escape", "cancel", "Cancel")]
-
-    def __init__(self, question: str, *, value: str = "", placeholder: str = "", suggestions: list[str] | None = None,
-                 on_answer: Callable[[str], None] | None = None) -> None:
-        super().__init__()
-        self.question = question
-        self.value, self.placeholder = shown(value, one_line=True), shown(placeholder, one_line=True)
-        self.suggestions = [shown(x, one_line=True) for x in suggestions] if suggestions else suggestions
-        self.on_answer = on_answer
-
-    def compose(self) -> ComposeResult:
-        with Vertical(id="ask-box"):
-            yield Label(self.question, id="ask-question")
-            suggester = SuggestFromList(self.suggestions, case_sensitive=False) if self.suggestions else None
-            yield Input(value=self.value, placeholder=self.placeholder, suggester=suggester, id="ask-input")
-            yield Label("Enter answers · → accepts the grey completion · Escape cancels", classes="hint")
-
-    def on_mount(self) -> None:
-        self.query_one(Input).focus()
-
-    def on_input_submitted(self, event: Input.Submitted) -> None:
-        event.stop()
-        self.dismiss(event.value)
-        if self.on_answer:
-            self.on_answer(event.value)
-
-    def action_cancel(self) -> None:
-        self.app.status_text = "Cancelled; nothing changed."  # type: ignore[attr-defined]
         self.dismiss(None)

@@ -13,6 +13,7 @@ from textual.widgets import Input
 from ..safetext import shown
 from .data import Snapshot, tier_of
 from .groupmap import GroupMap, legend
+from .page import AppAccess, View
 from .look import SUGGESTED, Label, Static, clip, plural, warmth_bar
 from .rowlist import Col, Row, RowList
 
@@ -59,7 +60,7 @@ def group_facts(snap: Snapshot, gid: int) -> str:
     return "\n".join((first, second, third))
 
 
-class NameEditor(Horizontal):
+class NameEditor(AppAccess, Horizontal):
     """The in-place editor for a group's name: Enter saves, Escape leaves it as it was."""
 
     def __init__(self, **kw) -> None:
@@ -91,17 +92,17 @@ class NameEditor(Horizontal):
             self.on_done()
 
     def leave_input(self) -> None:
-        self.app.status_text = "Name left as it was."  # type: ignore[attr-defined]
+        self.mynet_app.status_text = "Name left as it was."
         self.close()
 
     def on_input_submitted(self, event: Input.Submitted) -> None:
         event.stop()
         if self.gid is not None:
-            self.app.rename_group(self.gid, event.value)  # type: ignore[attr-defined]
+            self.mynet_app.rename_group(self.gid, event.value)
         self.close()
 
 
-class GroupsView(Vertical):
+class GroupsView(View, Vertical):
     """Every group with its size, name or suggested label, and how many of its people you are warm with."""
 
     hint = "Enter opens · n names the group · ~ marks a suggested label · ? all keys"
@@ -142,7 +143,7 @@ class GroupsView(Vertical):
         self.show_detail(lst.current_key)
 
     def show_detail(self, key) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         detail = self.query_one("#group-detail", Static)
         if snap is None or key is None:
             detail.update("")
@@ -156,18 +157,18 @@ class GroupsView(Vertical):
         self.show_detail(event.key)
 
     def on_row_list_selected(self, event: RowList.Selected) -> None:
-        self.app.open_group(None if event.key == UNGROUPED else event.key)  # type: ignore[attr-defined]
+        self.mynet_app.open_group(None if event.key == UNGROUPED else event.key)
 
     def _current(self) -> int | None:
         key = self.query_one(RowList).current_key
         if key == UNGROUPED:
-            self.app.status_text = "Those people are in no group; there is nothing to name or connect."  # type: ignore[attr-defined]
+            self.mynet_app.status_text = "Those people are in no group; there is nothing to name or connect."
             return None
         return key  # type: ignore[return-value]
 
     def action_name(self) -> None:
         gid = self._current()
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if gid is not None and snap is not None:
             lst = self.query_one(RowList)
             self.query_one(NameEditor).open(snap, gid, self._editor_closed, lst.row_line(lst.cursor))
@@ -178,10 +179,10 @@ class GroupsView(Vertical):
     def action_connections(self) -> None:
         gid = self._current()
         if gid is not None:
-            self.app.open_links(gid)  # type: ignore[attr-defined]
+            self.mynet_app.open_links(gid)
 
 
-class MapView(Vertical):
+class MapView(View, Vertical):
     """The whole network on one screen: a group-to-group matrix."""
 
     hint = "Arrows move over the map; the panel below explains the highlighted pair."
@@ -198,7 +199,7 @@ class MapView(Vertical):
         self.query_one(GroupMap).show(snap)
 
     def on_group_map_moved(self, event: GroupMap.Moved) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if snap is None:
             return
         g, h = event.g, event.h
@@ -230,15 +231,15 @@ class MapView(Vertical):
 
     def on_group_map_chosen(self, event: GroupMap.Chosen) -> None:
         if event.g == event.h:
-            self.app.open_group(event.g)  # type: ignore[attr-defined]
+            self.mynet_app.open_group(event.g)
         else:
-            self.app.open_links(event.g)  # type: ignore[attr-defined]
+            self.mynet_app.open_links(event.g)
 
 
 SORTS = ("name", "warmth", "last contact")
 
 
-class PeopleView(Vertical):
+class PeopleView(View, Vertical):
     """Everyone, searchable by name, organisation, tag, e-mail, phone or place."""
 
     hint = "/ types a search · Enter opens a person · s changes the order"
@@ -268,7 +269,7 @@ class PeopleView(Vertical):
         self.filter()
 
     def filter(self) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if snap is None:
             return
         text = self.query_one(Input).value
@@ -308,4 +309,4 @@ class PeopleView(Vertical):
         self.filter()
 
     def on_row_list_selected(self, event: RowList.Selected) -> None:
-        self.app.open_person(event.key)  # type: ignore[attr-defined]
+        self.mynet_app.open_person(event.key)

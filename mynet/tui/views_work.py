@@ -16,6 +16,7 @@ from ..errors import MynetError
 from ..analysis.intro_routes import reach, resolve_targets
 from ..safetext import shown
 from .data import Choice, Snapshot, tier_of
+from .page import View
 from .look import Static, clip, plural, safe, severity_tag
 from .rowlist import Col, Row, RowList
 
@@ -58,7 +59,7 @@ def path_text(p: dict[str, Any]) -> Text:
     return out
 
 
-class ReachView(Vertical):
+class ReachView(View, Vertical):
     """Type a person, an organisation or a tag; get the warmest chains of introductions."""
 
     hint = "Score = the step strengths multiplied (1 is best) · Escape leaves the box"
@@ -102,7 +103,7 @@ class ReachView(Vertical):
     # -- completion -----------------------------------------------------------------
     def on_input_changed(self, event: Input.Changed) -> None:
         event.stop()
-        snap: Snapshot | None = self.app.snapshot  # type: ignore[attr-defined]
+        snap: Snapshot | None = self.mynet_app.snapshot
         options = self.query_one(OptionList)
         if snap is None or not event.value.strip():
             options.display = False
@@ -150,7 +151,7 @@ class ReachView(Vertical):
     # -- the query -----------------------------------------------------------------------
     def run_query(self, kind: str, value: str, label: str) -> None:
         """Find intro paths in a worker (the search is fast, but never blocks the view)."""
-        snap: Snapshot | None = self.app.snapshot  # type: ignore[attr-defined]
+        snap: Snapshot | None = self.mynet_app.snapshot
         if snap is None:
             return
         inp = self.query_one(Input)
@@ -224,15 +225,16 @@ class ReachView(Vertical):
         rows = [Row(i, (str(i + 1), f"{p['score']:.3f}", " → ".join(["you", *p["names"]]))) for i, p in enumerate(result.paths)]
         self.query_one(RowList).set_rows(rows, keep=False)
         self.query_one(RowList).focus()
-        self.app.status_text = f"{plural(len(result.paths), 'intro path')}, best first."  # type: ignore[attr-defined]
+        self.mynet_app.status_text = f"{plural(len(result.paths), 'intro path')}, best first."
 
     def on_row_list_highlighted(self, event: RowList.Highlighted) -> None:
-        if 0 <= event.key < len(self.paths):  # type: ignore[operator]
-            self.query_one("#reach-detail", Static).update(path_text(self.paths[event.key]))  # type: ignore[index]
+        row = int(event.key)
+        if 0 <= row < len(self.paths):
+            self.query_one("#reach-detail", Static).update(path_text(self.paths[row]))
 
     def on_row_list_selected(self, event: RowList.Selected) -> None:
-        p = self.paths[event.key]  # type: ignore[index]
-        self.app.open_person(p["path"][0])  # type: ignore[attr-defined]
+        p = self.paths[int(event.key)]
+        self.mynet_app.open_person(p["path"][0])
 
 
 def _side(snap: Snapshot, cid: int) -> Text:
@@ -250,7 +252,7 @@ def _side(snap: Snapshot, cid: int) -> Text:
     return Text("\n").join(lines)
 
 
-class DuplicatesView(Vertical):
+class DuplicatesView(View, Vertical):
     """Pairs that may be one person: merge them, keep them apart, or leave them for later."""
 
     hint = "Each decision is saved at once and kept across re-imports."
@@ -294,7 +296,7 @@ class DuplicatesView(Vertical):
         self.compare(lst.current_key)
 
     def compare(self, key) -> None:
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         a, b = self.query_one("#dupes-a", Static), self.query_one("#dupes-b", Static)
         if snap is None or key is None:
             a.update("")
@@ -312,13 +314,13 @@ class DuplicatesView(Vertical):
     def _decide(self, doing: str, done: str, work) -> None:
         """Record a decision on the highlighted pair: hide it at once, save it in a worker."""
         pair = self._pair()
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if pair is None or snap is None:
             return
         names = f"{snap.net.name(pair[0])} and {snap.net.name(pair[1])}"
         self.decided.add(pair)
         self.refresh_view(snap)
-        self.app.edit(doing.format(names=names), lambda ws: work(ws, pair),  # type: ignore[attr-defined]
+        self.mynet_app.edit(doing.format(names=names), lambda ws: work(ws, pair),
                       said=done.format(names=names))
 
     def action_merge(self) -> None:
@@ -331,17 +333,17 @@ class DuplicatesView(Vertical):
 
     def action_skip(self) -> None:
         pair = self._pair()
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         if pair is None or snap is None:
             return
         self.skipped.add(pair)
         lst = self.query_one(RowList)
         self.refresh_view(snap)
         lst.action_move(1)
-        self.app.status_text = "Left for later."  # type: ignore[attr-defined]
+        self.mynet_app.status_text = "Left for later."
 
 
-class FindingsView(Vertical):
+class FindingsView(View, Vertical):
     """What the audit found about the shape of the network, most useful first."""
 
     hint = "The audit of your network's shape, the most useful finding first."
@@ -379,7 +381,7 @@ class FindingsView(Vertical):
         out.append(shown(f.get("title", "")), style="bold")
         out.append("\n" + shown(f.get("detail", "")))
         numbers = f.get("numbers") or {}
-        snap = self.app.snapshot  # type: ignore[attr-defined]
+        snap = self.mynet_app.snapshot
         plain = {k: v for k, v in numbers.items() if not isinstance(v, (list, tuple, dict))}
         if plain:
             out.append(shown("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in plain.items())), style="italic")
