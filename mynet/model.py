@@ -54,7 +54,7 @@ class Record:
     """One raw entry of a source (a card, a row), with where it came from.
 
     Importers fill the text fields exactly as the file says (decoded, unescaped),
-    without normalising: normalisation belongs to :mod:`mynet.identity`.
+    without normalising: normalisation belongs to :mod:`mynet.people.identity`.
 
     Attributes
     ----------
@@ -214,7 +214,7 @@ class Interaction:
     Cc addresses even when ``participants`` was cut short. ``not_people``
     holds addresses in the headers (or a calendar's rooms) that are lists,
     relays, robots or resources rather than people: address -> kind (see
-    :data:`mynet.mailaddr.KIND_WORDS`).
+    :data:`mynet.sources.mailaddr.KIND_WORDS`).
     """
 
     kind: str  # "meeting" or "message"

@@ -17,7 +17,7 @@ from conftest import CORPUS
 
 from mynet.errors import InputError, RecordError
 from mynet.sources import parse_file
-from mynet.sources._vcard_text import read_cards
+from mynet.sources.vcard_text import read_cards
 from mynet.sources.vcard import parse_vcard, unescape
 from mynet.model import ParseResult
 

@@ -29,12 +29,3 @@ def test_readme_states_the_exact_betweenness_limit_and_the_distance():
     text = " ".join((ROOT / "README.md").read_text(encoding="utf-8").split())
     assert f"exact up to {EXACT_LIMIT:,} contacts" in text
     assert "distance `1/w`" in text
-
-
-def test_developers_module_table_names_every_core_module():
-    table = (ROOT / "DEVELOPERS.md").read_text(encoding="utf-8")
-    for path in sorted((ROOT / "mynet").glob("*.py")):
-        if not path.name.startswith("__"):
-            assert f"mynet/{path.name}" in table, path.name
-    for name in ("spectral.py", "estimate.py"):
-        assert name in table

@@ -74,7 +74,7 @@ def csv_file(texts: list[str]) -> tuple[bytes, int]:
     return buf.getvalue().encode("utf-8"), len(texts)
 
 
-def _ics_text(text: str) -> str:  # RFC 5545 section 3.3.11
+def ics_text(text: str) -> str:  # RFC 5545 section 3.3.11
     return text.replace("\\", "\\\\").replace(";", "\\;").replace(",", "\\,")
 
 
@@ -83,7 +83,7 @@ def ics_file(texts: list[str]) -> tuple[bytes, int]:
     for i, t in enumerate(texts):
         cn = re.sub(r'[";:,]', " ", t)
         events.append(f"BEGIN:VEVENT\r\nUID:e{i}@fuzz.example\r\nDTSTART:20260105T1{i % 10}0000Z\r\n"
-                      f"SUMMARY:{_ics_text(t)}\r\nORGANIZER;CN=\"{cn}\":mailto:o@fuzz.example\r\n"
+                      f"SUMMARY:{ics_text(t)}\r\nORGANIZER;CN=\"{cn}\":mailto:o@fuzz.example\r\n"
                       f"ATTENDEE;CN=\"{cn}\":mailto:p{i}@fuzz.example\r\nEND:VEVENT\r\n")
     return ("BEGIN:VCALENDAR\r\nVERSION:2.0\r\n" + "".join(events) + "END:VCALENDAR\r\n").encode("utf-8"), len(texts)
 

@@ -97,7 +97,7 @@ def test_each_delimiter(delimiter):
 def test_rfc4180_section_2_examples():
     # RFC 4180 section 2, rules 1-7 with their examples (CRLF line breaks; an optional header line;
     # fields in double quotes may hold commas, line breaks and doubled double quotes).
-    from mynet.sources._csv_text import read_rows
+    from mynet.sources.csv_text import read_rows
     from mynet.sources.csv import detect_delimiter
 
     def cells(text):

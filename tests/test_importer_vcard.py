@@ -18,7 +18,7 @@ from hypothesis import strategies as st
 
 from mynet.errors import InputError, RecordError
 from mynet.sources import parse_file
-from mynet.sources._vcard_text import read_cards
+from mynet.sources.vcard_text import read_cards
 from mynet.sources.vcard import parse_vcard, split_value, unescape
 
 PATH = "test.vcf"

@@ -2,7 +2,7 @@
 
 Resolves what the user typed into a set of target contacts (organisations
 matched after normalisation and fuzzily, current and past staff), runs the
-intro-path search of :mod:`mynet.paths` and explains every step in plain words,
+intro-path search of :mod:`mynet.analysis.intro_search` and explains every step in plain words,
 with a suggested ask that never claims more than the evidence says.
 """
 

@@ -35,7 +35,7 @@ def print_single_points(net, a) -> None:
 
 
 @click.command("brokers")
-@click.option("--limit", type=int, default=15, show_default=True)
+@click.option("--limit", type=int, default=15, show_default=True, help="Show at most this many people.")
 @as_of_option
 @json_option
 @click.pass_obj
@@ -71,7 +71,7 @@ def brokers_cmd(obj, limit, as_of, as_json):
 
 
 @click.command("bridges")
-@click.option("--limit", type=int, default=15, show_default=True)
+@click.option("--limit", type=int, default=15, show_default=True, help="Show at most this many ties.")
 @as_of_option
 @json_option
 @click.pass_obj

@@ -82,7 +82,8 @@ def print_suggestions(ws, as_json: bool) -> None:
               help="Only people whose name, e-mail, phone, organisation, tag or place contains TEXT.")
 @click.option("--suggested", is_flag=True, help="List possible duplicates to merge or keep apart instead.")
 @click.option("--unlisted", is_flag=True, help="List people you met or wrote with who are not in your address book.")
-@click.option("--sort", type=click.Choice(SORTS), default="id", show_default=True)
+@click.option("--sort", type=click.Choice(SORTS), default="id", show_default=True,
+              help="Order by id, name, your warmth (warmest first) or last interaction (latest first).")
 @click.option("--limit", type=int, default=0, help="Show at most this many.")
 @as_of_option
 @json_option

@@ -62,8 +62,8 @@ def evidence_summary(net: Network, i: int, table: TieTable | None = None) -> lis
     """Short evidence for row ``i`` of a tie table (for listings and ``--json``).
 
     Every item says whether it is ``observed`` or ``assumed`` (its ``basis``);
-    meetings and threads are counted by :func:`mynet.ties.infer_ties` over
-    :func:`mynet.ties.evidence_events`, the same events :func:`explain_tie` lists.
+    meetings and threads are counted by :func:`mynet.evidence.ties.infer_ties` over
+    :func:`mynet.evidence.ties.evidence_events`, the same events :func:`explain_tie` lists.
     """
     t = table if table is not None else net.ties
     a, b = net.by_id[int(t.a[i])], net.by_id[int(t.b[i])]

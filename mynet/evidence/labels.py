@@ -9,7 +9,7 @@ whether two of the people know each other. Each label gets a verdict:
 1. **Your decision** (``mynet tags count LABEL`` / ``mynet tags ignore LABEL``)
    wins over everything below and is kept across re-imports.
 2. **Generic**: labels nearly every address book carries ("Work", "Personal",
-   "My contacts"); see :data:`mynet.normalise.GENERIC_TAGS`.
+   "My contacts"); see :data:`mynet.people.normalise.GENERIC_TAGS`.
 3. **Too common**: a label carried by more than ``tag_share_cap`` of all
    contacts is a filing habit, not a circle.
 4. **Wording**: the label reads like a to-do, a reminder, a ranking or a note of

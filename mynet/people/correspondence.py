@@ -19,7 +19,7 @@ list thread is a discussion only shows across all of them. Four plain steps:
 
 Every rule here is common practice of mail and list software, or a judgement
 call said as such; the header rules the facts start from cite their RFCs in
-:mod:`mynet.importers._mail_headers`.
+:mod:`mynet.sources.mail_headers`.
 """
 
 from __future__ import annotations
@@ -46,7 +46,7 @@ __all__ = [
 
 #: Meetings with at most this many people are small enough to say you know each one (a judgement call).
 SMALL_MEETING = 10
-#: Kinds of address that stand for no person (see :data:`mynet.mailaddr.KIND_WORDS`).
+#: Kinds of address that stand for no person (see :data:`mynet.sources.mailaddr.KIND_WORDS`).
 NOT_PEOPLE_KINDS = frozenset(KIND_WORDS) - {"archive"}
 
 

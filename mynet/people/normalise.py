@@ -1,7 +1,7 @@
 """Normalisation of the values people are matched on: e-mails, phones, names, organisations.
 
-Each function is pure and cheap; :mod:`mynet.identity` uses them to merge
-records, :mod:`mynet.ties` to compare organisations and domains.
+Each function is pure and cheap; :mod:`mynet.people.identity` uses them to merge
+records, :mod:`mynet.evidence.ties` to compare organisations and domains.
 """
 
 from __future__ import annotations
@@ -189,7 +189,7 @@ PLACEHOLDER_ORGS = frozenset(
 
 # Address-book labels that almost everyone carries; sharing one is no evidence.
 # Common practice, not a standard list. Rankings of your own ("VIP", "Favourites") are
-# workflow labels: see mynet.labels.
+# workflow labels: see mynet.evidence.labels.
 GENERIC_TAGS = frozenset(
     {"work", "business", "personal", "other", "mycontacts", "my contacts", "imported", "contacts",
      "all contacts", "misc", "general"}

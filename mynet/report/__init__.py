@@ -21,7 +21,7 @@ from typing import Callable, Iterable
 
 from ..errors import MynetError
 from ..workspace import Workspace
-from ._io import private_dir, write_private
+from .files import private_dir, write_private
 from .data import MAX_CONTACTS_DRAWN, STEPS, ReportData, collect
 from .redact import Pseudonyms, find_leaks
 
@@ -79,7 +79,7 @@ def write_report(
     progress : callable, optional
         Called with each step's name (``STEPS``) as it starts.
     as_of : date or str, optional
-        See the network from this day (see :func:`mynet.network.resolve_as_of`).
+        See the network from this day (see :func:`mynet.evidence.network.resolve_as_of`).
 
     Raises
     ------

@@ -30,7 +30,7 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Circle, Patch
 
 from ..analysis.snapshot import tie_graph
-from ._text import xml_safe
+from .wording import xml_safe
 from .data import ReportData
 from .layout import group_layout, place_discs
 

@@ -151,7 +151,7 @@ def collect(
     progress : callable, optional
         Called with the name of each step (see ``STEPS``) as it starts.
     as_of : AsOf, date or str, optional
-        See the network from this day (see :func:`mynet.network.resolve_as_of`).
+        See the network from this day (see :func:`mynet.evidence.network.resolve_as_of`).
     """
     step = progress or _noop
     today = today or date.today()

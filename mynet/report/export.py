@@ -45,7 +45,7 @@ from ..safetext import shown
 from ..workspace import Workspace
 from ..workspace.frames import MEASURES_FLOAT, MEASURES_INT, network_graph
 from . import check_redacted
-from ._io import write_private
+from .files import write_private
 from .redact import redact_analysis, redact_network
 
 __all__ = ["FORMATS", "shown_attributes", "graphml_text", "csv_texts", "json_text", "neutralise", "csv_paths",

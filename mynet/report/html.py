@@ -14,7 +14,7 @@ from __future__ import annotations
 import html
 from typing import Any
 
-from ._text import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
+from .wording import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
 from .data import ReportData
 
 __all__ = ["render_html", "esc", "CSS"]

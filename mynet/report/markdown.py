@@ -14,7 +14,7 @@ import html
 import re
 from typing import Any
 
-from ._text import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
+from .wording import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
 from .data import ReportData
 
 __all__ = ["render_markdown", "md", "IMAGE_NAMES"]

@@ -10,7 +10,7 @@ original values as a safety net.
 
 Pseudonyms are consistent within one output: the same contact is always
 ``Person 17`` (its contact id), the same organisation (compared after
-:func:`mynet.normalise.normalise_org`) always ``Org 3``, the same tag ``Tag 2``,
+:func:`mynet.people.normalise.normalise_org`) always ``Org 3``, the same tag ``Tag 2``,
 the same place ``Place 5``, the same mail domain ``domain4.redacted.invalid``
 (``.invalid`` is reserved by RFC 2606, so no pseudonymous address can reach
 anyone). Numbers of organisations, tags, places and domains follow the first

@@ -3,7 +3,7 @@
 Each reader takes the file's bytes and its path and returns a
 :class:`mynet.model.ParseResult`; it never touches the workspace. A folder of
 message files (a Maildir, or saved messages without a suffix) is one source,
-read by :mod:`mynet.importers.maildir`.
+read by :mod:`mynet.sources.maildir`.
 """
 
 from __future__ import annotations
@@ -156,7 +156,7 @@ def iter_input_files(paths: Iterable[str | os.PathLike]) -> Iterator[Path]:
     whose content says they are an mbox, a vCard or a calendar; hidden files
     and folders are left out. A Maildir (and each Maildir++ subfolder), and a
     folder's own message files without a suffix, come out as the folder's
-    path: one source of many messages (see :mod:`mynet.importers.maildir`).
+    path: one source of many messages (see :mod:`mynet.sources.maildir`).
     Order: each directory's entries sorted by name.
     """
     for p in paths:

@@ -31,7 +31,7 @@ e-mails on ``;``, ``,`` and `` ::: ``; phones on ``;`` and `` ::: ``; URLs on
 
 Broken files
 ------------
-Bytes are decoded and rows read by :mod:`mynet.importers._csv_text` (bad bytes
+Bytes are decoded and rows read by :mod:`mynet.sources.csv_text` (bad bytes
 become U+FFFD with a warning naming their lines; a cell too large for the
 reader skips its row only). A quoted field may hold line breaks (RFC 4180
 section 2, rule 6); but a row whose quote is never closed, or closes on a
@@ -56,11 +56,11 @@ import pandas as pd
 
 from ..errors import InputError, RecordError
 from ..model import Address, ParseResult, Record, Related, Skipped
-from ._csv_headers import BLOCK as _BLOCK
-from ._csv_headers import QUALIFIERS as _QUALIFIERS
-from ._csv_headers import SUFFIX_OK as _SUFFIX_OK
-from ._csv_headers import SYNONYM_TEXT as _SYNONYM_TEXT
-from ._csv_text import NEWLINE, Lines, RawRow, decode_table, read_rows
+from .csv_headers import BLOCK as _BLOCK
+from .csv_headers import QUALIFIERS as _QUALIFIERS
+from .csv_headers import SUFFIX_OK as _SUFFIX_OK
+from .csv_headers import SYNONYM_TEXT as _SYNONYM_TEXT
+from .csv_text import NEWLINE, Lines, RawRow, decode_table, read_rows
 
 __all__ = ["parse_csv", "load_mapping_file", "classify_header", "MAPPABLE_FIELDS"]
 
@@ -426,7 +426,7 @@ _MULTILINE_SLOTS = frozenset({"notes", "street"})
 
 
 class _Rows:
-    """Turns chunks of rows (:class:`~mynet.importers._csv_text.RawRow`) into records and skips, in file order."""
+    """Turns chunks of rows (:class:`~mynet.sources.csv_text.RawRow`) into records and skips, in file order."""
 
     def __init__(self, header: list[str], plan: list[_Column], path: str, strict: bool, result: ParseResult,
                  delimiter: str = ","):

@@ -24,7 +24,7 @@ from vobject.base import ContentLine, VObjectError, textLineToContentLine
 
 from ..errors import InputError, RecordError
 from ..model import Interaction, ParseResult, Skipped
-from ._ics_text import (BEGIN_END, Block, GuardedZone, decode_bytes, decode_param, event_people, event_resources,
+from .ics_text import (BEGIN_END, Block, GuardedZone, decode_bytes, decode_param, event_people, event_resources,
                         logical_lines, scan_blocks, unescape_text)
 
 __all__ = ["parse_ics"]

@@ -1,7 +1,7 @@
 """What an e-mail address stands for: a person, or a list, relay, archive copy, role or machine.
 
 Pure functions over one address or one display name; the mail importer uses
-them on each message and :mod:`mynet.correspondence` over the whole workspace.
+them on each message and :mod:`mynet.people.correspondence` over the whole workspace.
 Every list of words here is a rule of thumb (common practice of mail servers,
 list managers and build services) except where an RFC is named.
 """

@@ -1,7 +1,7 @@
 """Folders of message files: Maildir folders and folders of saved messages without a suffix.
 
 A folder of message files is one source, like an mbox: its messages are read
-with the same per-message reader (:func:`mynet.importers.mbox.read_message`),
+with the same per-message reader (:func:`mynet.sources.mbox.read_message`),
 one :class:`mynet.model.Interaction` each, with the message file as the
 interaction's source and line 1 as its line.
 

@@ -4,7 +4,7 @@ Only the header block of each message is read (RFC 5322 section 2.2); bodies
 are skipped over byte by byte and never decoded, parsed or kept. Each message
 becomes one :class:`mynet.model.Interaction` of kind ``"message"``; no
 :class:`mynet.model.Record` is produced. Folders of message files (Maildir,
-saved messages) are read by :mod:`mynet.importers.maildir` with the same
+saved messages) are read by :mod:`mynet.sources.maildir` with the same
 per-message reader, :func:`read_message`.
 
 Choices made here (the rest of mynet relies on them)
@@ -29,7 +29,7 @@ Choices made here (the rest of mynet relies on them)
   Windows-1252, a superset of Latin-1 for printable text; a warning says so.
 * ``participants`` are the author and the addresses of To and Cc (not Bcc,
   not Reply-To), less the addresses that are lists, relays or robots
-  (``not_people``, see :func:`mynet.importers._mail_headers.message_roles`);
+  (``not_people``, see :func:`mynet.sources.mail_headers.message_roles`);
   the author is the From address, or the original one when a list relay
   rewrote From. ``recipients`` counts To and Cc for the bulk rule.
 * A header block of any size is read with bounded memory; a message with more
@@ -39,7 +39,7 @@ Choices made here (the rest of mynet relies on them)
   Auto-Submitted other than ``no`` (RFC 3834 section 5), a robot or no-reply
   author, or more recipients than ``max_recipients``. List and bulk-mailer
   mail is only marked (``mass``, ``list_id``): whether anyone answered is
-  known once every mailbox is read (see :mod:`mynet.correspondence`).
+  known once every mailbox is read (see :mod:`mynet.people.correspondence`).
 """
 
 from __future__ import annotations
@@ -51,7 +51,7 @@ from email.utils import parsedate_to_datetime
 
 from ..errors import InputError, RecordError
 from ..model import Interaction, ParseResult, Skipped
-from ._mail_headers import (
+from .mail_headers import (
     FIELD_CAP,
     Fields,
     addresses,
@@ -171,7 +171,7 @@ def bulk_reason(fields: Fields | dict[str, list[str]], recipients: int, max_reci
         section 5: any value other than ``no``), ``"N recipients (more than
         M)"`` for a broadcast, else ``""``. List fields and Precedence do not
         make a message bulk by themselves: a list thread someone answered is a
-        discussion (see :mod:`mynet.correspondence`).
+        discussion (see :mod:`mynet.people.correspondence`).
     """
     get = fields.get
     for value in get("auto-submitted") or []:

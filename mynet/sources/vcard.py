@@ -1,7 +1,7 @@
 """The vCard importer (versions 2.1, 3.0 and 4.0): one record per card.
 
 :func:`parse_vcard` reads a whole ``.vcf`` file. The text layer
-(:mod:`mynet.importers._vcard_text`) turns bytes into cards of decoded
+(:mod:`mynet.sources.vcard_text`) turns bytes into cards of decoded
 properties; this module undoes the escapes of each vCard version and maps the
 properties a network needs onto :class:`mynet.model.Record`.
 
@@ -14,7 +14,7 @@ only ``\\;`` is an escape: every other backslash and every comma is literal text
 (which 2.1 does not define) are split on commas as in 3.0.
 
 Several cards with the same UID (RFC 6350 §7.2.4) are returned as separate
-records with that UID; merging them is the job of :mod:`mynet.identity`.
+records with that UID; merging them is the job of :mod:`mynet.people.identity`.
 """
 
 from __future__ import annotations
@@ -23,7 +23,7 @@ import re
 
 from ..errors import RecordError
 from ..model import Address, ParseResult, Record, Related, Skipped
-from ._vcard_text import Card, Prop, read_cards
+from .vcard_text import Card, Prop, read_cards
 
 __all__ = ["parse_vcard", "split_value", "unescape"]
 

@@ -1,4 +1,4 @@
-"""The SQLite workspace: schema, migrations, transactions.
+"""The SQLite workspace file: opening it, migrating it, transactions, and every read and write mynet makes.
 
 One file holds everything: the imported records (inputs), the user's decisions
 (inputs that no re-import may lose), settings, the derived contacts and cached

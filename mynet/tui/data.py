@@ -145,7 +145,7 @@ class Snapshot:
     def search(self, text: str) -> list[Contact]:
         """Contacts matching ``text`` by name, e-mail, phone, organisation, title, tag or place.
 
-        The same fields and folding as :func:`mynet.workspace.search_contacts`, with
+        The same fields and folding as :func:`mynet.workspace.people.search_contacts`, with
         the folded text prepared once so each keystroke is a plain substring scan.
         """
         needle = fold_text(text)

@@ -1,4 +1,4 @@
-"""Screens opened from the views: a group's members, a group's connections, help, and a small question box."""
+"""Screens opened from the views: a group's members, a group's connections, and help."""
 
 from __future__ import annotations
 

@@ -1,6 +1,6 @@
 """The text layer of the vCard importer: bytes to cards of decoded properties.
 
-Kept apart from :mod:`mynet.importers.vcard` (properties to records). This
+Kept apart from :mod:`mynet.sources.vcard` (properties to records). This
 pre-pass decides what text the content-line parser of vobject sees, because
 vobject 0.9.9 loses text on many real exports:
 

@@ -1,6 +1,6 @@
 """The text layer of the CSV importer: bytes to text, text to rows with their physical lines.
 
-Kept apart from :mod:`mynet.importers.csv` (rows to records), as the vCard
+Kept apart from :mod:`mynet.sources.csv` (rows to records), as the vCard
 and iCalendar importers keep theirs:
 
 * :func:`decode_table` picks the encoding (a byte-order mark, a BOM-less

@@ -1,6 +1,6 @@
 """The text layer of the iCalendar importer: bytes to unfolded lines, blocks, people (and a guard on broken zones).
 
-Kept apart from :mod:`mynet.importers.ics` (dates, zones, recurrences) so each
+Kept apart from :mod:`mynet.sources.ics` (dates, zones, recurrences) so each
 file stays small. Nothing here is public API.
 """
 

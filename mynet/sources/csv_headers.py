@@ -1,7 +1,7 @@
 """Header words the CSV importer recognises, per field (several languages), and their qualifiers.
 
-Data only: :mod:`mynet.importers.csv` reads these tables to map column headers
-to record fields. Phrases are compared after :func:`mynet.importers.csv._tokens`.
+Data only: :mod:`mynet.sources.csv` reads these tables to map column headers
+to record fields. Phrases are compared after :func:`mynet.sources.csv._tokens`.
 """
 
 # Header words per slot. Phrases are reduced by _tokens(), so "E-mail" == "email".

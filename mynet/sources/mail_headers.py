@@ -304,7 +304,7 @@ def message_roles(fields: Fields, senders: list[tuple[str, str]], recipients: li
     * A list relay that rewrites From (common practice since DMARC) is undone:
       X-Original-From names the author; else, with a "Name via List" display
       name or a From that is the list itself, a single Reply-To that is not the
-      list; else a ``user=domain@relay`` From (:func:`mynet.mailaddr.reverse_relay`).
+      list; else a ``user=domain@relay`` From (:func:`mynet.sources.mailaddr.reverse_relay`).
     """
     not_people: dict[str, str] = {}
     post: set[str] = set()
