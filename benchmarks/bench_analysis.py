@@ -22,11 +22,12 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 import bench_ties  # noqa: E402
+
 from mynet.analysis.bridges import group_bridges, group_links  # noqa: E402
 from mynet.analysis.centrality import contact_measures  # noqa: E402
 from mynet.analysis.groups import detect_groups  # noqa: E402
-from mynet.model import Contact, Interaction  # noqa: E402
 from mynet.evidence.ties import TieModel, infer_ties  # noqa: E402
+from mynet.model import Contact, Interaction  # noqa: E402
 
 
 def graph(n: int, e: int) -> nx.Graph:
@@ -62,13 +63,16 @@ def main() -> None:
         gr = timed(f"mynet detect_groups ({backend})", lambda: detect_groups(G, backend=backend))
         measures, info = timed("mynet contact_measures (all measures)", lambda: contact_measures(G, gr.membership))
         sets = gr.as_sets()
-        timed("mynet group_bridges (top 200) + group_links", lambda: (group_bridges(G, sets, limit=200), group_links(G, sets)))
+        timed("mynet group_bridges (top 200) + group_links",
+              lambda: (group_bridges(G, sets, limit=200), group_links(G, sets)))
         total = time.perf_counter() - t0
         print(f"  {'mynet total':<44} {total:7.2f} s   (betweenness sampled: {info['betweenness_sampled']}, "
-              f"{info['betweenness_samples']} sources); peak RSS {resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024:.0f} MiB")
+              f"{info['betweenness_samples']} sources); peak RSS "
+              f"{resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024:.0f} MiB")
         if n <= 10_000:
             timed("networkx louvain_communities (plain)", lambda: nx.community.louvain_communities(G, seed=0))
-            timed("networkx betweenness k=256 (plain)", lambda: nx.betweenness_centrality(G, k=256, seed=0, weight="weight"))
+            timed("networkx betweenness k=256 (plain)",
+                  lambda: nx.betweenness_centrality(G, k=256, seed=0, weight="weight"))
 
 
 if __name__ == "__main__":

@@ -38,7 +38,14 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 import bench_analysis  # noqa: E402
 import bench_measures  # noqa: E402
-from mynet.analysis.centrality import betweenness_values, module_labels, pivot_sample, prepare_graph, contact_measures  # noqa: E402
+
+from mynet.analysis.centrality import (  # noqa: E402
+    betweenness_values,
+    contact_measures,
+    module_labels,
+    pivot_sample,
+    prepare_graph,
+)
 from mynet.analysis.estimate import adaptive_pivots  # noqa: E402
 from mynet.analysis.groups import detect_groups  # noqa: E402
 
@@ -78,7 +85,8 @@ def run(name: str, G: nx.Graph, groups: dict, seeds: int, with_nx: bool = True) 
         H.add_nodes_from(G)
         H.add_edges_from((u, v, {"d": 1.0 / w}) for u, v, w in G.edges(data="weight"))
         ref, t = timed(lambda: nx.betweenness_centrality(H, k=256, weight="d", seed=seed))
-        row(f"networkx betweenness_centrality(k=256), seed {seed}", t, overlap(T, np.array([ref[v] for v in prep.nodes])))
+        row(f"networkx betweenness_centrality(k=256), seed {seed}", t,
+            overlap(T, np.array([ref[v] for v in prep.nodes])))
     for seed in range(seeds):
         (measures, info), t = timed(lambda: contact_measures(G, groups, seed=seed))
         got = np.array([measures[v]["betweenness"] for v in prep.nodes])

@@ -161,7 +161,8 @@ def main() -> None:
         return cl.modularity, len(cl), time.perf_counter() - t
 
     sec, mb, (q, k, inner) = measure(ig_raw)
-    row("igraph community_multilevel (+ conversion)", sec, mb, f"Q={q:.4f}, {k} communities; {inner:.2f} s without conversion")
+    row("igraph community_multilevel (+ conversion)", sec, mb,
+        f"Q={q:.4f}, {k} communities; {inner:.2f} s without conversion")
 
     print("measures")
     groups = detect_groups(G, seed=args.seed, backend="igraph")

@@ -33,7 +33,8 @@ def people(n: int, seed: int = 5):
     rng = random.Random(seed)
     for i in range(n):
         first, last = rng.choice(FIRST), rng.choice(LAST)
-        yield {"first": first, "last": last, "email": f"{first}.{last}.{i}@{rng.choice(['q', 'v', 'c'])}.example".lower(),
+        yield {"first": first, "last": last,
+               "email": f"{first}.{last}.{i}@{rng.choice(['q', 'v', 'c'])}.example".lower(),
                "phone": f"+44 7700 9{i % 100000:05d}", "org": rng.choice(ORGS), "title": "Engineer",
                "note": "Met at the spring workshop, talked about rowing; follow up"}
 
@@ -55,9 +56,11 @@ def write_files(folder: Path, n: int) -> tuple[Path, Path]:
             if rng.random() < 0.2:
                 p = all_people[i]
             else:  # someone new: a fresh name draw, address and number
-                p = dict(next(people(1, seed=100000 + i)), email=f"new{i}@n.example", phone=f"+44 7700 8{i % 100000:05d}")
+                p = dict(next(people(1, seed=100000 + i)), email=f"new{i}@n.example",
+                         phone=f"+44 7700 8{i % 100000:05d}")
             email = p["email"].upper() if rng.random() < 0.5 else p["email"]
-            f.write(f"\"{p['last']}, {p['first']}\",{email},{p['phone'].replace(' ', '')},{p['org']} Ltd,{p['title']},\"{p['note']}\"\n")
+            f.write(f"\"{p['last']}, {p['first']}\",{email},{p['phone'].replace(' ', '')},{p['org']} "
+                    f"Ltd,{p['title']},\"{p['note']}\"\n")
     return vcf, csvp
 
 
@@ -71,7 +74,8 @@ def bare_vobject(path: str) -> dict:
     t = time.perf_counter()
     with open(path, encoding="utf-8") as f:
         n = sum(1 for _ in vobject.readComponents(f))
-    return {"what": "vobject.readComponents loop", "cards": n, "seconds": round(time.perf_counter() - t, 2), "peak_mib": round(peak_mib(), 1)}
+    return {"what": "vobject.readComponents loop", "cards": n, "seconds": round(time.perf_counter() - t, 2),
+            "peak_mib": round(peak_mib(), 1)}
 
 
 def bare_pandas(path: str) -> dict:
@@ -79,12 +83,13 @@ def bare_pandas(path: str) -> dict:
 
     t = time.perf_counter()
     df = pd.read_csv(path, dtype=str, keep_default_na=False)
-    return {"what": "pandas.read_csv", "rows": len(df), "seconds": round(time.perf_counter() - t, 2), "peak_mib": round(peak_mib(), 1)}
+    return {"what": "pandas.read_csv", "rows": len(df), "seconds": round(time.perf_counter() - t, 2),
+            "peak_mib": round(peak_mib(), 1)}
 
 
 def mynet_import(*paths: str) -> dict:
-    from mynet.workspace.importing import import_paths
     from mynet.store import Store
+    from mynet.workspace.importing import import_paths
 
     ws = Path(tempfile.mkdtemp()) / "ws.sqlite"
     t = time.perf_counter()

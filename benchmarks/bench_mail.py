@@ -36,8 +36,8 @@ import sys
 import tarfile
 import tempfile
 import time
-from email.utils import format_datetime
 from datetime import datetime, timedelta, timezone
+from email.utils import format_datetime
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -78,7 +78,8 @@ def messages(n: int, seed: int = 7) -> list[bytes]:
             else:
                 to = [w for w in writers if w[1] != addr]
                 lines.append("To: " + ", ".join(f"{w[0]} <{w[1]}>" for w in to))
-            lines += [f"Date: {format_datetime(when)}", f"Subject: {'Re: ' if j else ''}Topic {k}", f"Message-ID: {mid}"]
+            lines += [f"Date: {format_datetime(when)}", f"Subject: {'Re: ' if j else ''}Topic {k}",
+                      f"Message-ID: {mid}"]
             if refs:
                 lines += [f"In-Reply-To: {refs[-1]}", "References: " + " ".join(refs)]
             lines += ["MIME-Version: 1.0", "Content-Type: text/plain; charset=UTF-8", "", "A short body line.", ""]
@@ -162,8 +163,8 @@ def reader(path: str, label: str) -> dict:
 
 
 def full_import(path: str, label: str) -> dict:
-    from mynet.workspace.importing import import_paths
     from mynet.store import Store
+    from mynet.workspace.importing import import_paths
     from mynet.workspace.people import set_me
 
     ws = Path(tempfile.mkdtemp()) / "ws.sqlite"

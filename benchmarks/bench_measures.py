@@ -117,9 +117,11 @@ def main() -> None:
             row(f"betweenness_centrality(k={args.nx_k}, weight=1/w)", t, peak, "peak from a traced k=8 run")
         nodes = sorted(G)[: args.nx_subset]
         _, t = timed(nx.constraint, G, nodes=nodes, weight="weight")
-        row(f"constraint, {len(nodes)} nodes -> x{n // len(nodes)}", t * n / len(nodes), None, f"measured {t:.1f} s, extrapolated")
+        row(f"constraint, {len(nodes)} nodes -> x{n // len(nodes)}", t * n / len(nodes), None,
+            f"measured {t:.1f} s, extrapolated")
         _, t = timed(nx.effective_size, G, nodes=nodes, weight="weight")
-        row(f"effective_size, {len(nodes)} nodes -> x{n // len(nodes)}", t * n / len(nodes), None, f"measured {t:.1f} s, extrapolated")
+        row(f"effective_size, {len(nodes)} nodes -> x{n // len(nodes)}", t * n / len(nodes), None,
+            f"measured {t:.1f} s, extrapolated")
         if n <= 20_000:
             _, t = timed(nx.constraint, G, weight="weight")
             row("constraint(nodes=None) [networkx sparse path]", t, traced_peak(nx.constraint, G, weight="weight"))
@@ -129,7 +131,8 @@ def main() -> None:
         row("clustering (unweighted)", t)
         src = nodes[:4]
         _, t = timed(nx.harmonic_centrality, G, sources=src, distance="distance")
-        row(f"harmonic_centrality, {len(src)} sources -> all {n}", t * n / len(src), None, f"measured {t:.1f} s, extrapolated")
+        row(f"harmonic_centrality, {len(src)} sources -> all {n}", t * n / len(src), None,
+            f"measured {t:.1f} s, extrapolated")
     print(f"roles: {dict(sorted(roles.items(), key=lambda kv: -kv[1]))}")
     rss = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
     print(f"process peak resident size: {rss:.0f} MiB (includes the networkx graph itself)")

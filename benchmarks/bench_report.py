@@ -30,14 +30,15 @@ import numpy as np
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 from mynet.analysis.snapshot import analyse  # noqa: E402
-from mynet.report.export import export_network  # noqa: E402
 from mynet.evidence.network import load_network  # noqa: E402
 from mynet.report import write_report  # noqa: E402
-from mynet.workspace.importing import import_paths  # noqa: E402
+from mynet.report.export import export_network  # noqa: E402
 from mynet.store import Store  # noqa: E402
+from mynet.workspace.importing import import_paths  # noqa: E402
 from mynet.workspace.people import set_me  # noqa: E402
 
-SYLLABLES = "ka lo mi ra ten vo sel dun mar is bel cor fen gal hol jun lin nor pel quin ros tal ul ver wyn yar zed".split()
+SYLLABLES = ("ka lo mi ra ten vo sel dun mar is bel cor fen gal hol jun lin nor pel quin ros tal ul ver wyn yar "
+             "zed").split()
 YOU = "you@example.org"
 
 
@@ -87,7 +88,8 @@ def sample_workspace(folder: Path):
     truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
     store = Store(folder / "sample.sqlite")
     set_me(store, truth["you"]["emails"], [truth["you"]["name"]])
-    update_list_setting(store, "webmail_domains", ",".join(d for d in truth["personal_email_domains"] if d != "example.org"))
+    update_list_setting(store, "webmail_domains",
+                        ",".join(d for d in truth["personal_email_domains"] if d != "example.org"))
     import_paths(store, [src / f for f in SOURCE_FILES], region="GB")
     return store
 
@@ -100,12 +102,14 @@ def timed(func, *args, **kwargs) -> tuple[float, object]:
 
 def bench(name: str, store, out: Path) -> None:
     cold, _ = timed(lambda: analyse(store, load_network(store)))
-    print(f"\n{name}: {len(store.contacts()):,} contacts (ties, warmth and analysis computed in {cold:.2f} s, then cached)")
+    print(f"\n{name}: {len(store.contacts()):,} contacts (ties, warmth and analysis computed in {cold:.2f} s, then "
+          f"cached)")
     for label, kwargs, suffix in (("HTML report", {}, "html"), ("HTML report, redacted", {"redact": True}, "html"),
                                   ("Markdown report", {"markdown": True}, "md")):
         steps: list[tuple[str, float]] = []
         t0 = time.perf_counter()
-        secs, path = timed(write_report, store, out / f"{name}-{label.split(',')[0][:4]}{'-r' if kwargs.get('redact') else ''}.{suffix}",
+        secs, path = timed(write_report, store,
+                           out / f"{name}-{label.split(',')[0][:4]}{'-r' if kwargs.get('redact') else ''}.{suffix}",
                            progress=lambda s: steps.append((s, time.perf_counter() - t0)), **kwargs)
         marks = [f"{s} {t:.2f}" for s, t in steps]
         print(f"  {label:<24} {secs:6.2f} s  {path.stat().st_size / 1e6:5.2f} MB   (step starts: {', '.join(marks)})")

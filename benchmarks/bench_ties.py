@@ -27,7 +27,8 @@ def make_events(n_contacts: int, n_events: int, seed: int = 7):
     circle, the rest from anyone. Sizes are mostly 2-6 with a heavy tail to 200 (1% of events).
     """
     rng = np.random.default_rng(seed)
-    sizes = np.where(rng.random(n_events) < 0.99, rng.integers(2, 7, n_events), np.minimum(200, 6 + rng.zipf(1.8, n_events)))
+    sizes = np.where(rng.random(n_events) < 0.99, rng.integers(2, 7, n_events),
+                     np.minimum(200, 6 + rng.zipf(1.8, n_events)))
     bounds = [0]
     while bounds[-1] < n_contacts:
         bounds.append(min(n_contacts, bounds[-1] + int(rng.integers(10, 61))))
@@ -45,8 +46,8 @@ def make_events(n_contacts: int, n_events: int, seed: int = 7):
 
 
 def run_mynet(n_contacts: int, n_events: int) -> dict:
-    from mynet.model import Contact, Interaction
     from mynet.evidence.ties import TieModel, infer_ties
+    from mynet.model import Contact, Interaction
 
     events = make_events(n_contacts, n_events)
     t0 = time.perf_counter()
@@ -73,7 +74,8 @@ def run_scipy(n_contacts: int, n_events: int) -> dict:
     C = sp.triu((B @ sp.diags(w)) @ B.T, k=1)
     t1 = time.perf_counter()
     return {"what": "bare scipy product", "contacts": n_contacts, "events": n_events, "ties": int(C.nnz),
-            "tie_step_s": round(t1 - t0, 2), "peak_mib": round(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024, 1)}
+            "tie_step_s": round(t1 - t0, 2),
+            "peak_mib": round(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024, 1)}
 
 
 def run_networkx(n_contacts: int, n_events: int) -> dict:
@@ -95,7 +97,8 @@ def run_networkx(n_contacts: int, n_events: int) -> dict:
 
 
 def in_subprocess(kind: str, n: int, e: int, timeout: float) -> dict:
-    code = f"import json, sys; sys.path.insert(0, 'benchmarks'); import bench_ties as b; print(json.dumps(b.run_{kind}({n}, {e})))"
+    code = (f"import json, sys; sys.path.insert(0, 'benchmarks'); import bench_ties as b; "
+            f"print(json.dumps(b.run_{kind}({n}, {e})))")
     try:
         out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=timeout, check=True)
         return json.loads(out.stdout.strip().splitlines()[-1])
@@ -115,7 +118,8 @@ def main() -> None:
             print(json.dumps(r))
         nx_s = rows[2]["tie_step_s"]
         if isinstance(nx_s, float):
-            print(f"  -> at {n} contacts mynet is {nx_s / max(rows[0]['tie_step_s'], 1e-9):.0f}x faster than the networkx projection")
+            print(f"  -> at {n} contacts mynet is {nx_s / max(rows[0]['tie_step_s'], 1e-9):.0f}x faster than the "
+                  f"networkx projection")
         else:
             print(f"  -> at {n} contacts the networkx projection did not finish ({nx_s} s)")
 

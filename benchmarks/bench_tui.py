@@ -35,9 +35,9 @@ from textual import events
 
 from mynet.analysis.snapshot import analyse
 from mynet.evidence.network import load_network
+from mynet.store import Store
 from mynet.tui import create_app
 from mynet.workspace.importing import import_paths
-from mynet.store import Store
 from mynet.workspace.people import set_me
 
 TODAY = date(2026, 12, 1)
@@ -52,7 +52,8 @@ def _word(rng: random.Random, parts: int) -> str:
 def write_inputs(folder: Path, n: int, seed: int = 11) -> list[Path]:
     """An invented CSV of ``n`` people and a calendar of meetings with you."""
     rng = random.Random(seed)
-    orgs = [f"{_word(rng, 2)} {rng.choice(['Labs', 'Works', 'Partners', 'Systems', 'Freight', 'Studio'])}" for _ in range(400)]
+    orgs = [f"{_word(rng, 2)} {rng.choice(['Labs', 'Works', 'Partners', 'Systems', 'Freight', 'Studio'])}"
+            for _ in range(400)]
     tags = [f"{_word(rng, 2).lower()}-circle" for _ in range(600)]
     rows = ['"Full name","Email","Company","Job title","City","Tags"']
     people = []
@@ -93,7 +94,8 @@ def build(ws: Path, n: int) -> None:
             t = time.perf_counter()
             net = load_network(store, today=TODAY)
             a = analyse(store, net)
-            print(f"ties and analysis: {len(net.ties):,} ties, {len(a.groups)} groups in {time.perf_counter() - t:.1f} s")
+            print(f"ties and analysis: {len(net.ties):,} ties, {len(a.groups)} groups in {time.perf_counter() - t:.1f} "
+                  f"s")
 
 
 def _ms(xs: list[float]) -> str:

@@ -55,16 +55,22 @@ HOSTILE = [ESC_SEQ, "\x1b[31m", "\x00", "\x07", "\x08\x08", "\x9b2J", "\x9d0;t\x
            "\u2028", "\x1b]8;;http://x.example\x07", "\x0c", "\x1b"]
 
 BASE_VCF = (
-    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Lind;Ana;;;\r\nFN:Ana Lind\r\nEMAIL:ana@quillon.example\r\nORG:Quillon Labs\r\nEND:VCARD\r\n"
-    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Reyes;Tom;;;\r\nFN:Tom Reyes\r\nEMAIL:tom@quillon.example\r\nORG:Quillon Labs\r\nEND:VCARD\r\n"
-    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Ek;Bo;;;\r\nFN:Bo Ek\r\nEMAIL:bo@velvane.example\r\nORG:Velvane Robotics\r\nEND:VCARD\r\n"
+    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Lind;Ana;;;\r\nFN:Ana Lind\r\nEMAIL:ana@quillon.example\r\nORG:Quillon "
+    "Labs\r\nEND:VCARD\r\n"
+    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Reyes;Tom;;;\r\nFN:Tom Reyes\r\nEMAIL:tom@quillon.example\r\nORG:Quillon "
+    "Labs\r\nEND:VCARD\r\n"
+    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Ek;Bo;;;\r\nFN:Bo Ek\r\nEMAIL:bo@velvane.example\r\nORG:Velvane "
+    "Robotics\r\nEND:VCARD\r\n"
 )
 
 SEED_VCF = (
-    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Moss;Cara;;;\r\nFN:Cara Moss\r\nEMAIL:cara@post.example\r\nORG:Velvane Robotics\r\n"
+    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Moss;Cara;;;\r\nFN:Cara Moss\r\nEMAIL:cara@post.example\r\nORG:Velvane "
+    "Robotics\r\n"
     "TITLE:Engineer\r\nNOTE:Met at the workshop\r\nCATEGORIES:rowing\r\nEND:VCARD\r\n"
-    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Park;Di;;;\r\nFN:Di Park\r\nEMAIL:di@quillon.example\r\nORG:Quillon Labs\r\nEND:VCARD\r\n"
-    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Vale;Ed;;;\r\nFN:Ed Vale\r\nTEL:+44 7700 900123\r\nORG:Corrimont Labs\r\nEND:VCARD\r\n"
+    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Park;Di;;;\r\nFN:Di Park\r\nEMAIL:di@quillon.example\r\nORG:Quillon "
+    "Labs\r\nEND:VCARD\r\n"
+    "BEGIN:VCARD\r\nVERSION:3.0\r\nN:Vale;Ed;;;\r\nFN:Ed Vale\r\nTEL:+44 7700 900123\r\nORG:Corrimont "
+    "Labs\r\nEND:VCARD\r\n"
 )
 SEED_CSV = (
     "Full name,Email,Company,Job title,Tags\n"
@@ -94,7 +100,8 @@ def _message(n: int, subject: str, name: str, email: str, extra: str = "") -> st
             f"Date: Mon, 0{n} Jan 2026 10:00:00 +0000\nSubject: {subject}\nMessage-ID: <m{n}@mail.example>\n\nbody\n\n")
 
 
-SEED_MBOX = (_message(1, "Plans", "Bo Ek", "bo@velvane.example") + _message(2, "Re: Plans", "Cara Moss", "cara@post.example")
+SEED_MBOX = (_message(1, "Plans", "Bo Ek", "bo@velvane.example")
+             + _message(2, "Re: Plans", "Cara Moss", "cara@post.example")
              + _message(3, "Lunch", "Di Park", "di@quillon.example"))
 SEEDS = {"vcard": ("seed.vcf", SEED_VCF, 3), "csv": ("seed.csv", SEED_CSV, 4), "ics": ("seed.ics", SEED_ICS, 3),
          "mbox": ("seed.mbox", SEED_MBOX, 3)}
@@ -122,17 +129,20 @@ def hand_made() -> list[Case]:
     # -- vCard
     add("vcf: escape sequences in FN", "vcard", "e.vcf", u8(_card(f"{ESC_SEQ}X", "x@e.example")), 1)
     add("vcf: escapes in ORG, TITLE, NOTE", "vcard", "e2.vcf",
-        u8(_card("Ana Vik", "av@e.example", f"ORG:\x1b[8mAcme\r\nTITLE:\x1b]0;t\x07Boss\r\nNOTE:\x1b[2Jnote")), 1)
+        u8(_card("Ana Vik", "av@e.example", "ORG:\x1b[8mAcme\r\nTITLE:\x1b]0;t\x07Boss\r\nNOTE:\x1b[2Jnote")), 1)
     add("vcf: NUL in FN", "vcard", "nul.vcf", u8(_card("Ana\x00Lind", "al@e.example")), 1)
     add("vcf: C1 CSI in FN (UTF-8)", "vcard", "c1.vcf", u8(_card("Ana\x9b2JVik", "c1@e.example")), 1)
     add("vcf: bidi override in FN", "vcard", "bidi.vcf", u8(_card("\u202eAna Vik", "bd@e.example")), 1)
     add("vcf: DEL and backspaces in FN", "vcard", "del.vcf", u8(_card("Ana\x7f\x08\x08Vik", "dl@e.example")), 1)
     add("vcf: line separator in FN", "vcard", "ls.vcf", u8(_card("Ana\u2028Vik", "ls@e.example")), 1)
     add("vcf: escapes in a quoted-printable FN", "vcard", "qp.vcf",
-        b"BEGIN:VCARD\r\nVERSION:2.1\r\nFN;ENCODING=QUOTED-PRINTABLE:=1B[2J=1B]0;x=07Ana\r\nEMAIL:qp@e.example\r\nEND:VCARD\r\n", 1)
-    add("vcf: escape sequence in the file name", "vcard", "\x1b]0;pwned\x07\x1b[2Jname.vcf", u8(_card("Ana Vik", "fn@e.example")), 1)
+        b"BEGIN:VCARD\r\nVERSION:2.1\r\nFN;ENCODING=QUOTED-PRINTABLE:=1B[2J=1B]0;x=07Ana\r\n"
+        b"EMAIL:qp@e.example\r\nEND:VCARD\r\n", 1)
+    add("vcf: escape sequence in the file name", "vcard", "\x1b]0;pwned\x07\x1b[2Jname.vcf",
+        u8(_card("Ana Vik", "fn@e.example")), 1)
     add("vcf: CR-only card after CRLF cards", "vcard", "mixed.vcf",
-        u8(_card("Ana One", "a1@e.example") + _card("Bo Two", "b2@e.example") + _card("Cy Three", "c3@e.example", eol="\r")), 3)
+        u8(_card("Ana One", "a1@e.example") + _card("Bo Two", "b2@e.example")
+           + _card("Cy Three", "c3@e.example", eol="\r")), 3)
     add("vcf: LF, CRLF and CR cards mixed", "vcard", "mixed2.vcf",
         u8(_card("Ana One", "a1@e.example", eol="\n") + _card("Bo Two", "b2@e.example", eol="\r")
            + _card("Cy Three", "c3@e.example", eol="\r\n") + _card("Di Four", "d4@e.example", eol="\r")), 4)
@@ -141,11 +151,13 @@ def hand_made() -> list[Case]:
     add("vcf: card without END, then a good one", "vcard", "trunc.vcf",
         u8("BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Ana Cut\r\n" + _card("Bo Whole", "bw@e.example")), 1)
     add("vcf: one bad byte in a UTF-8 card", "vcard", "badbyte.vcf",
-        u8(_card("Ana Vik", "v1@e.example")) + b"BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Bo \xff Ek\r\nEMAIL:v2@e.example\r\nEND:VCARD\r\n", 2)
+        u8(_card("Ana Vik", "v1@e.example"))
+        + b"BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Bo \xff Ek\r\nEMAIL:v2@e.example\r\nEND:VCARD\r\n", 2)
     add("vcf: 1 MiB value", "vcard", "big.vcf", u8(_card("Ana Big", "big@e.example", "NOTE:" + "x" * (1 << 20))), 1)
     add("vcf: AGENT nested 40 deep", "vcard", "deep.vcf",
         u8("BEGIN:VCARD\r\nVERSION:2.1\r\nFN:Top\r\nAGENT:\r\n" * 40 + "END:VCARD\r\n" * 40), None)
-    add("vcf: binary with a .vcf name", "vcard", "bin.vcf", bytes(random.Random(1).randrange(256) for _ in range(4096)), 0)
+    add("vcf: binary with a .vcf name", "vcard", "bin.vcf",
+        bytes(random.Random(1).randrange(256) for _ in range(4096)), 0)
     add("vcf: UTF-16 with a lone surrogate", "vcard", "u16.vcf",
         b"\xff\xfe" + _card("Ana Vik", "u16@e.example").encode("utf-16-le") + b"\x00\xd8A\x00", 1)
     # -- CSV
@@ -163,36 +175,45 @@ def hand_made() -> list[Case]:
     add("csv: UTF-16 BOM and a cut-off last unit", "csv", "u16.csv",
         b"\xff\xfe" + "Full name,Email\nAna Vik,a@e.example\nBo Ek,b@e.example\n".encode("utf-16-le") + b"A", 2)
     add("csv: 200 KiB field in one row", "csv", "wide.csv",
-        u8("Full name,Email,Notes\nAna Vik,a@e.example,short\nBo Ek,b@e.example,\"" + "y" * 200_000 + "\"\nCy Moss,c@e.example,\n"), 2)
+        u8("Full name,Email,Notes\nAna Vik,a@e.example,short\nBo Ek,b@e.example,\"" + "y" * 200_000
+           + "\"\nCy Moss,c@e.example,\n"), 2)
     add("csv: NUL in a cell", "csv", "nul.csv", u8("Full name,Email\nAna\x00Vik,a@e.example\nBo Ek,b@e.example\n"), 2)
-    add("csv: latin-1 C1 byte in a name", "csv", "c1.csv", b"Full name,Email\nAna \x81Vik,a@e.example\nBo \xe9k,b@e.example\n", 2)
+    add("csv: latin-1 C1 byte in a name", "csv", "c1.csv",
+        b"Full name,Email\nAna \x81Vik,a@e.example\nBo \xe9k,b@e.example\n", 2)
     add("csv: bidi override and line separator", "csv", "bidi.csv",
         u8("Full name,Email\n\u202eAna Vik,a@e.example\nBo\u2028Ek,b@e.example\n"), 2)
     add("csv: formulas in cells", "csv", "formula.csv",
         u8("Full name,Email,Company\n=cmd|' /C calc'!A0,f@e.example,+Acme\n@SUM(1),g@e.example,-x\n"), 2)
     add("csv: unclosed quote on the last row", "csv", "open.csv",
         u8('Full name,Email\nAna Vik,a@e.example\nBo Ek,b@e.example\n"Cy Moss,c@e.example\n'), 2)
-    add("csv: escape sequence in the file name", "csv", "\x1b[2J\x1b]0;x\x07.csv", u8("Full name,Email\nAna Vik,a@e.example\n"), 1)
-    add("csv: ragged rows", "csv", "ragged.csv", u8("Full name,Email\nAna Vik,a@e.example,x,y,z\nBo Ek\nCy Moss,c@e.example\n"), None)
+    add("csv: escape sequence in the file name", "csv", "\x1b[2J\x1b]0;x\x07.csv",
+        u8("Full name,Email\nAna Vik,a@e.example\n"), 1)
+    add("csv: ragged rows", "csv", "ragged.csv",
+        u8("Full name,Email\nAna Vik,a@e.example,x,y,z\nBo Ek\nCy Moss,c@e.example\n"), None)
     add("csv: header only", "csv", "head.csv", u8("Full name,Email\n"), 0)
     # -- iCalendar
     add("ics: escape sequences in SUMMARY and CN", "ics", "e.ics",
-        u8(SEED_ICS.replace("SUMMARY:Planning", f"SUMMARY:{ESC_SEQ}Planning").replace("CN=Bo Ek", "CN=\x1b[31mBo Ek")), 3)
+        u8(SEED_ICS.replace("SUMMARY:Planning", f"SUMMARY:{ESC_SEQ}Planning").replace("CN=Bo Ek", "CN=\x1b[31mBo Ek")),
+        3)
     add("ics: NUL and C1 in CN", "ics", "nul.ics", u8(SEED_ICS.replace("CN=Cara Moss", "CN=Cara\x00\x9bMoss")), 3)
     add("ics: CR-only line ends", "ics", "cr.ics", u8(SEED_ICS.replace("\r\n", "\r")), 3)
     add("ics: event without END", "ics", "trunc.ics", u8(SEED_ICS.rsplit("END:VEVENT", 1)[0]), 2)
-    add("ics: bidi override in the organizer's name", "ics", "bidi.ics", u8(SEED_ICS.replace("CN=Ana Lind", "CN=\u202eAna Lind")), 3)
+    add("ics: bidi override in the organizer's name", "ics", "bidi.ics",
+        u8(SEED_ICS.replace("CN=Ana Lind", "CN=\u202eAna Lind")), 3)
     # -- mail
     add("mbox: escapes in From name and Subject", "mbox", "e.mbox",
-        u8(SEED_MBOX.replace("From: Bo Ek", f"From: {ESC_SEQ}Bo Ek").replace("Subject: Lunch", "Subject: \x1b]0;x\x07Lunch")), 3)
+        u8(SEED_MBOX.replace("From: Bo Ek",
+                             f"From: {ESC_SEQ}Bo Ek").replace("Subject: Lunch", "Subject: \x1b]0;x\x07Lunch")), 3)
     add("mbox: escape in an encoded word", "mbox", "ew.mbox",
         u8(SEED_MBOX.replace("Subject: Plans", "Subject: =?utf-8?b?G1sySkcbXTA7eAdv?=")), 3)
     add("mbox: NUL in a header", "mbox", "nul.mbox", u8(SEED_MBOX.replace("Subject: Lunch", "Subject: Lu\x00nch")), 3)
     add("mbox: 100,000 recipients in To", "mbox", "wide.mbox",
         u8(_message(1, "All hands", "Bo Ek", "bo@velvane.example",
-                    "," + ",".join(f" p{i}@big.example" for i in range(100_000))) + _message(2, "Small", "Di Park", "di@quillon.example")), 2)
+                    "," + ",".join(f" p{i}@big.example" for i in range(100_000)))
+                    + _message(2, "Small", "Di Park", "di@quillon.example")), 2)
     add("eml: escapes in Subject", "mbox", "e.eml",
-        u8("From: Bo Ek <bo@velvane.example>\nTo: Ana Lind <ana@quillon.example>\nDate: Mon, 05 Jan 2026 10:00:00 +0000\n"
+        u8("From: Bo Ek <bo@velvane.example>\nTo: Ana Lind <ana@quillon.example>\nDate: Mon, 05 Jan 2026 10:00:00 "
+           "+0000\n"
            f"Subject: {ESC_SEQ}hi\nMessage-ID: <x@mail.example>\n\nbody\n"), 1)
     # -- anything
     add("empty file", "csv", "empty.csv", b"", 0)
@@ -208,7 +229,8 @@ def _mutate_values(text: str, kind: str, rng: random.Random) -> str:
         bare = ln.rstrip("\r\n")
         end = ln[len(bare):]
         if rng.random() < 0.5 and bare:
-            if kind in ("vcard", "ics") and ":" in bare and not bare.upper().startswith(("BEGIN", "END", "VERSION", "DT", "UID", "EMAIL", "ATTENDEE", "ORGANIZER")):
+            keep = ("BEGIN", "END", "VERSION", "DT", "UID", "EMAIL", "ATTENDEE", "ORGANIZER")
+            if kind in ("vcard", "ics") and ":" in bare and not bare.upper().startswith(keep):
                 head, _, val = bare.partition(":")
                 pos = rng.randrange(len(val) + 1)
                 bare = head + ":" + val[:pos] + rng.choice(HOSTILE).replace("\u2028", " ") + val[pos:]
@@ -241,8 +263,9 @@ def _mutate_bytes(data: bytes, rng: random.Random) -> bytes:
         elif op == 2 and buf:
             del buf[pos:pos + rng.randint(1, 40)]
         elif op == 3:
-            buf[pos:pos] = rng.choice([b'"', b"\r", b"\n", b"\x00", b"=", b";", b",", b":", b"\\", b"BEGIN:VCARD\r\n",
-                                       b"END:VEVENT\r\n", b"\nFrom x@y Mon Jan  1 00:00:00 2026\n", b"\xef\xbb\xbf", b"\xff\xfe"])
+            buf[pos:pos] = rng.choice([b'"', b"\r", b"\n", b"\x00", b"=", b";", b",", b":", b"\\",
+                                       b"BEGIN:VCARD\r\n", b"END:VEVENT\r\n", b"\nFrom x@y Mon Jan  1 00:00:00 2026\n",
+                                       b"\xef\xbb\xbf", b"\xff\xfe"])
         elif op == 4 and buf:
             del buf[pos:]
         elif op == 5 and buf:

@@ -17,7 +17,15 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING, Any
 
-from .errors import AmbiguousError, InputError, MynetError, NotFoundError, RecordError, UnknownFormatError, WorkspaceError
+from .errors import (
+    AmbiguousError,
+    InputError,
+    MynetError,
+    NotFoundError,
+    RecordError,
+    UnknownFormatError,
+    WorkspaceError,
+)
 
 if TYPE_CHECKING:
     from .workspace import ImportReport, Workspace, open_workspace

@@ -161,7 +161,8 @@ def clean_imported(text: str, *, multiline: bool = False) -> tuple[str, str]:
         code = ord(ch)
         if ch in "\n\t":
             out.append(ch if multiline else " ")
-        elif code < 0x20 or 0x7F <= code <= 0x9F or ch in BIDI_CONTROLS or 0xD800 <= code <= 0xDFFF or code in (0xFFFE, 0xFFFF):
+        elif (code < 0x20 or 0x7F <= code <= 0x9F or ch in BIDI_CONTROLS or 0xD800 <= code <= 0xDFFF
+              or code in (0xFFFE, 0xFFFF)):
             removed.append(ch)
         else:
             out.append(ch)
@@ -267,7 +268,8 @@ def clean_result(result: Any) -> int:
             notes.append(f"{shown(name, one_line=True)}:{item.line}: removed control characters ({what}) from "
                          f"{', '.join(words)}; they could act on a terminal")
     if changed > len(notes):
-        notes.append(f"{shown(name, one_line=True)}: {changed - len(notes)} more record(s) had control characters removed")
+        notes.append(f"{shown(name, one_line=True)}: {changed - len(notes)} more record(s) had control characters "
+                     f"removed")
     result.warnings.extend(notes)
     return changed
 

@@ -16,7 +16,8 @@ A setting is declared once, in one of two ways:
 :func:`mynet.workspace.settings.schema` collects both into one table (name ->
 :class:`Spec`). ``mynet settings`` lists it, :func:`mynet.workspace.settings.parse`
 checks what a user types (a clear error naming the setting and what it accepts),
-and :meth:`SettingsGroup.from_settings` checks what is stored, so a value that is out of range or of the wrong type never reaches the
+and :meth:`SettingsGroup.from_settings` checks what is stored, so a value that is out of range or of the wrong type
+never reaches the
 analysis. Adding a setting is one entry: a field with :func:`setting`, or one
 :func:`declare` call.
 """
@@ -165,7 +166,8 @@ class Spec:
                 raise self._bad(value)
             return value
         if self.kind == "aliases":
-            if not isinstance(value, dict) or not all(isinstance(k, str) and isinstance(v, str) for k, v in value.items()):
+            if not isinstance(value,
+                              dict) or not all(isinstance(k, str) and isinstance(v, str) for k, v in value.items()):
                 raise self._bad(value)
             return dict(value)
         if not isinstance(value, list) or not all(isinstance(v, str) for v in value):

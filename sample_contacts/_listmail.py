@@ -88,7 +88,8 @@ def build_list_mail(act: Activity) -> dict:
             act.strangers[author[0]]["count"] += 1
         act.messages.append(Message(author, [LIST], list(cc), when, subject, msgid,
                                     in_reply_to=refs[-1] if refs else "", references=list(refs), list_id=LIST_ID,
-                                    shown_from=shown, headers=headers + list(fields), thread=refs[0] if refs else msgid))
+                                    shown_from=shown, headers=headers + list(fields), thread=refs[0] if refs
+                                    else msgid))
         return msgid
 
     # Discussions, half of them with you writing.

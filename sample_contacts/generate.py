@@ -20,8 +20,8 @@ import sys
 from pathlib import Path
 
 from _activity import Activity, ics_text, mbox_text
-from _listmail import build_list_mail
 from _formats import fold, vcard21, vcard30, vcard40
+from _listmail import build_list_mail
 from _names import PERSONAL_DOMAINS, name_key
 from _scenario import World, build_world
 from _sources import (

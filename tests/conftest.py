@@ -46,8 +46,8 @@ def import_sample(ws_path: Path):
     import json
 
     from mynet.cli.demo import SOURCE_FILES, sample_dir
-    from mynet.workspace.importing import import_paths
     from mynet.store import Store
+    from mynet.workspace.importing import import_paths
     from mynet.workspace.people import set_me
     from mynet.workspace.settings import update_list_setting
 

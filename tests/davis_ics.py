@@ -77,8 +77,8 @@ def davis_expected() -> dict[str, set[str]]:
 
 def davis_workspace(folder):
     """A workspace holding the women (a CSV of names and addresses) and the events (this file), imported."""
-    from mynet.workspace.importing import import_paths
     from mynet.store import Store
+    from mynet.workspace.importing import import_paths
 
     women = sorted(davis_graph().graph["top"])
     people = folder / "women.csv"

@@ -9,13 +9,13 @@ from conftest import import_sample, person_of
 
 from mynet.analysis.audit import audit, blau_index, shannon_evenness
 from mynet.analysis.groups import normalised_mutual_information
+from mynet.analysis.intro_routes import reach, resolve_targets
 from mynet.analysis.snapshot import analyse
-from mynet.workspace.decisions import name_group
 from mynet.cli import main
 from mynet.evidence.network import load_network
-from mynet.analysis.intro_routes import reach, resolve_targets
-from mynet.workspace.importing import import_paths
 from mynet.store import Store
+from mynet.workspace.decisions import name_group
+from mynet.workspace.importing import import_paths
 
 
 def run(capsys, *args):
@@ -73,7 +73,7 @@ def _fresh(store):
     """The analysis computed from scratch, without touching the cache or the stored group ids."""
     import json as _json
 
-    from mynet.analysis.snapshot import AnalysisModel, apply_user_decisions, compute_analysis, cache_inputs
+    from mynet.analysis.snapshot import AnalysisModel, apply_user_decisions, cache_inputs, compute_analysis
 
     state = store.meta("groups_state", "{}")
     net = load_network(store)
@@ -230,7 +230,8 @@ def test_cli_groups_json_contract_and_contacts_group(sample_ws, capsys):
     paths = json.loads(out)
     assert paths and paths[0]["steps"][0]["from"] == "you"
     assert [p["score"] for p in paths] == sorted((p["score"] for p in paths), reverse=True)
-    assert all({"score", "path", "steps"} <= set(p) and all({"from", "to", "strength", "why"} <= set(s) for s in p["steps"]) for p in paths)
+    assert all({"score", "path", "steps"} <= set(p)
+               and all({"from", "to", "strength", "why"} <= set(s) for s in p["steps"]) for p in paths)
     code, out, _ = run(capsys, "--workspace", ws, "brokers", "--json")
     brokers = json.loads(out)["contacts"]
     assert brokers and all(0 <= b["eigenvector"] <= 1 for b in brokers)
@@ -269,7 +270,8 @@ def test_audit_finds_dormant_ties_as_of_today(tmp_path):
     ids = {c.name: c.id for c in net.contacts}
     net.warmth[ids["Ana Lind"]] = Warmth(ids["Ana Lind"], warmth=0.4, computed=0.4, meetings=4, last="2024-03-01")
     net.warmth[ids["Bo Ek"]] = Warmth(ids["Bo Ek"], warmth=0.5, computed=0.5, meetings=5, last="2025-01-15")
-    net.warmth[ids["Fay Ro"]] = Warmth(ids["Fay Ro"], warmth=0.1, computed=0.1, meetings=2, last="2023-01-01")  # never active
+    net.warmth[ids["Fay Ro"]] = Warmth(ids["Fay Ro"], warmth=0.1, computed=0.1, meetings=2,
+                                       last="2023-01-01")  # never active
     a = analyse(store, net)
 
     def dormant(today):

@@ -10,8 +10,8 @@ import pytest
 
 from mynet.cli import main
 from mynet.evidence.network import load_network, resolve_as_of
-from mynet.workspace.importing import import_paths
 from mynet.store import Store
+from mynet.workspace.importing import import_paths
 from mynet.workspace.people import set_me
 
 ME = "you@example.org"

@@ -9,15 +9,14 @@ from __future__ import annotations
 
 import itertools
 
-import numpy as np
 import pytest
 from conftest import import_sample, person_of
 
 from mynet.analysis.groups import normalised_mutual_information
 from mynet.analysis.snapshot import analyse, tie_graph
-from mynet.model import Contact, Interaction
 from mynet.evidence.network import load_network
 from mynet.evidence.ties import TieModel, infer_ties
+from mynet.model import Contact, Interaction
 
 ME = "you@example.org"
 
@@ -114,8 +113,9 @@ def team_world():
 
 
 def test_a_large_organisation_is_no_longer_one_clique_and_its_teams_show():
-    from mynet.analysis.groups import detect_groups
     import networkx as nx
+
+    from mynet.analysis.groups import detect_groups
 
     cs, its = team_world()
     domain_off = {"domain": 0.0}

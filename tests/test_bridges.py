@@ -183,7 +183,8 @@ def test_group_bridges_ranking():
     assert by[(7, 9)]["groups"] == (1, 2)
     # Any int ids work (stable ids from match_groups need not start at 0).
     renamed = group_bridges(G, {40: groups[0], -3: groups[1], 7: groups[2]})
-    assert [(r["a"], r["b"], r["groups"]) for r in renamed] == [(7, 9, (-3, 7)), (1, 5, (40, -3)), (4, 8, (40, -3)), (2, 5, (40, -3))]
+    assert [(r["a"], r["b"], r["groups"])
+            for r in renamed] == [(7, 9, (-3, 7)), (1, 5, (40, -3)), (4, 8, (40, -3)), (2, 5, (40, -3))]
 
 
 def test_group_bridges_accepts_a_group_result():

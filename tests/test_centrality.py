@@ -280,7 +280,8 @@ def test_adaptive_estimate_states_its_error_honestly():
         prep = prepare_graph(G, "weight")
         labels = module_labels(prep.nodes, detect_groups(G).membership)
         exact = betweenness_values(prep, None)
-        est, pivots, stated = adaptive_pivots(lambda p: betweenness_values(prep, p), labels, seed, 1400, exact_share=1.0)
+        est, pivots, stated = adaptive_pivots(lambda p: betweenness_values(prep, p), labels, seed, 1400,
+                                              exact_share=1.0)
         assert est is not None and len(pivots) < 1400
         T = top_share(dict(enumerate(exact)))
         kept = len(T & top_share(dict(enumerate(est)))) / len(T)
@@ -379,7 +380,8 @@ def test_roles_on_a_built_network():
     assert measures[1]["role"] == "peripheral"
     assert measures[200]["role"] == "isolated"
     assert math.isnan(measures[200]["constraint"]) and math.isnan(measures[200]["effective_size"])
-    expected_keys = {"degree", "strength", "betweenness", "closeness", "pagerank", "eigenvector", "clustering", "constraint",
+    expected_keys = {"degree", "strength", "betweenness", "closeness", "pagerank", "eigenvector", "clustering",
+                     "constraint",
                      "effective_size", "participation", "within_z", "role"}
     assert set(measures[0]) == expected_keys
 

@@ -229,7 +229,8 @@ def test_every_command_is_a_module_level_function_of_its_family():
     for name, cmd in cli.commands.items():
         module = importlib.import_module(cmd.callback.__module__)
         assert module is listed[name], name
-        assert getattr(module, cmd.callback.__name__) is cmd, f"{name} is not a module-level command of {module.__name__}"
+        assert getattr(module,
+                       cmd.callback.__name__) is cmd, f"{name} is not a module-level command of {module.__name__}"
 
 
 def test_every_command_function_is_short():

@@ -1,4 +1,4 @@
-"""The core never imports the views (DESIGN.md: dependencies point one way): the command line, the browser, the report."""
+"""The core never imports the views (dependencies point one way): the command line, the browser, the report."""
 
 from __future__ import annotations
 

@@ -15,10 +15,10 @@ from pathlib import Path
 import pytest
 
 from mynet.errors import InputError
-from mynet.sources import iter_input_files, parse_file
 from mynet.people.mailpeople import evidence_interactions, mail_facts
-from mynet.workspace.importing import import_paths
+from mynet.sources import iter_input_files, parse_file
 from mynet.store import Store
+from mynet.workspace.importing import import_paths
 from mynet.workspace.people import set_me
 
 pytestmark = pytest.mark.corpus

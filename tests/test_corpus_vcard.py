@@ -9,17 +9,15 @@ the file they read (its path under ``corpus/wild``) beside each check.
 from __future__ import annotations
 
 import time
-from pathlib import Path
 
 import pytest
-
 from conftest import CORPUS
 
 from mynet.errors import InputError, RecordError
-from mynet.sources import parse_file
-from mynet.sources.vcard_text import read_cards
-from mynet.sources.vcard import parse_vcard, unescape
 from mynet.model import ParseResult
+from mynet.sources import parse_file
+from mynet.sources.vcard import parse_vcard, unescape
+from mynet.sources.vcard_text import read_cards
 
 pytestmark = pytest.mark.corpus
 
@@ -166,7 +164,8 @@ def test_v21_nest_and_multiple_entries():
     assert result.records[0].phones == ["1"]
     result = load(f"{ANDROID}/v21_multiple_entry.vcf")
     # v21_multiple_entry.vcf: three cards separated by blank lines, vendor TEL types
-    assert [r.phones for r in result.records] == [["9", "10", "11", "12"], ["13", "14", "15", "16"], ["17", "18", "19", "20"]]
+    assert [r.phones
+            for r in result.records] == [["9", "10", "11", "12"], ["13", "14", "15", "16"], ["17", "18", "19", "20"]]
 
 
 def test_v21_pref_handling_and_adr_lines():

@@ -8,19 +8,19 @@ from datetime import date
 
 import numpy as np
 import pytest
+from davis_ics import davis_email, davis_graph, davis_workspace
 from networkx.algorithms import bipartite
 
-from davis_ics import davis_email, davis_graph, davis_workspace
-from mynet.workspace import Workspace
-from mynet.cli import main
-from mynet.model import Contact, Interaction
-from mynet.evidence.network import Network, load_network
-from mynet.evidence.explain import evidence_summary, explain_tie, tie_words
 from mynet.analysis.intro_routes import Targets, reach
+from mynet.cli import main
+from mynet.evidence.explain import evidence_summary, explain_tie, tie_words
+from mynet.evidence.network import Network, load_network
 from mynet.evidence.ties import EventIndex, TieModel, evidence_events, infer_ties
 from mynet.evidence.warmth import Warmth, WarmthModel
-from mynet.workspace.importing import import_paths
+from mynet.model import Contact, Interaction
 from mynet.store import Store
+from mynet.workspace import Workspace
+from mynet.workspace.importing import import_paths
 from mynet.workspace.people import set_me
 
 ME = "you@example.org"
@@ -104,7 +104,8 @@ def test_assumed_only_ties_read_may_know_everywhere(tmp_path, capsys, monkeypatc
 def test_tie_words_and_export_basis(tmp_path):
     cs = [person(1, "A", ["Quillon"]), person(2, "B", ["Quillon"]), person(3, "C")]
     net = network(cs, [meeting(0, [2, 3])], {})
-    words = {(int(a), int(b)): tie_words(evidence_summary(net, i)) for i, (a, b) in enumerate(zip(net.ties.a, net.ties.b))}
+    words = {(int(a), int(b)): tie_words(evidence_summary(net, i))
+             for i, (a, b) in enumerate(zip(net.ties.a, net.ties.b))}
     assert words[(1, 2)] == "may know (both at Quillon)"
     assert words[(2, 3)] == "1 meeting together"
 
@@ -247,7 +248,8 @@ def test_ties_why_tui_and_report_count_alike(tmp_path, capsys):
         assert {e["kind"]: e.get("count") for e in ex["evidence"] if e["kind"] in ("meeting", "thread")} == \
             {k: v for k, v in counts.items() if k in ("meeting", "thread")}
         row = next(r for o, _s, r in snap.ties_of(a) if o == b)
-        assert {e["kind"]: e.get("count") for e in evidence_summary(snap.net, row) if e["kind"] in ("meeting", "thread")} \
+        assert {e["kind"]: e.get("count") for e in evidence_summary(snap.net, row)
+                if e["kind"] in ("meeting", "thread")} \
             == {k: v for k, v in counts.items() if k in ("meeting", "thread")}
     ids = {c.name: c.id for c in net.contacts}
     ab = listed[tuple(sorted((ids["Ana"], ids["Bo"])))]

@@ -14,14 +14,14 @@ from conftest import import_sample
 from hypothesis import given
 from hypothesis import strategies as st
 
-from mynet.workspace import Workspace
 from mynet.analysis.snapshot import analyse, tie_graph
 from mynet.errors import MynetError
-from mynet.report.export import CONTACT_COLUMNS, TIE_COLUMNS, csv_paths, export_network, neutralise
-from mynet.workspace.frames import network_graph
 from mynet.evidence.network import load_network
-from mynet.workspace.importing import import_paths
+from mynet.report.export import CONTACT_COLUMNS, TIE_COLUMNS, csv_paths, export_network, neutralise
 from mynet.store import Store
+from mynet.workspace import Workspace
+from mynet.workspace.frames import network_graph
+from mynet.workspace.importing import import_paths
 
 TODAY = date(2026, 9, 1)
 RISKY = ("=", "+", "-", "@", "\t", "\r")
@@ -111,7 +111,8 @@ def test_csv_neutralises_formulas_in_text_cells(injection, tmp_path):
             assert not cell.startswith(RISKY), (col, cell)
     tie_rows = list(csv.DictReader(io.StringIO(ties.read_text(encoding="utf-8-sig"))))
     assert tie_rows and all(not c.startswith(RISKY) for r in tie_rows for c in r.values())
-    assert any(r["source_label"].startswith("'=HYPERLINK") or r["target_label"].startswith("'=HYPERLINK") for r in tie_rows)
+    assert any(r["source_label"].startswith("'=HYPERLINK") or r["target_label"].startswith("'=HYPERLINK")
+               for r in tie_rows)
     assert list(rows[0]) == list(CONTACT_COLUMNS) and list(tie_rows[0]) == list(TIE_COLUMNS)
 
 

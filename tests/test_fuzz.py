@@ -30,11 +30,11 @@ from hypothesis import strategies as st
 
 from mynet.cli import main
 from mynet.errors import InputError
-from mynet.sources import parse_file
-from mynet.safetext import BIDI_CONTROLS
-from mynet.workspace.importing import import_paths
-from mynet.store import Store
 from mynet.people.refresh import refresh_contacts
+from mynet.safetext import BIDI_CONTROLS
+from mynet.sources import parse_file
+from mynet.store import Store
+from mynet.workspace.importing import import_paths
 
 RAW = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f\ud800-\udfff" + BIDI_CONTROLS + "]")
 PIECES = ["\x1b[2J", "\x1b]0;pwned\x07", "\x1b", "\x00", "\x07", "\x08", "\x7f", "\x9b", "\x9d0;x\x9c", "\x85",
@@ -146,7 +146,8 @@ def base_workspace(tmp_path_factory):
     folder = tmp_path_factory.mktemp("fuzz-ws")
     src = folder / "people.csv"
     src.write_text("Full name,Email,Company,Tags\n" + "".join(
-        f"Person {i},p{i}@fuzz.example,{'Quillon Labs' if i < 4 else 'Velvane Robotics'},{'rowing' if i % 2 else 'chess'}\n"
+        f"Person "
+        f"{i},p{i}@fuzz.example,{'Quillon Labs' if i < 4 else 'Velvane Robotics'},{'rowing' if i % 2 else 'chess'}\n"
         for i in range(8)), encoding="utf-8")
     ws = folder / "ws.sqlite"
     with Store(ws) as store:

@@ -19,12 +19,12 @@ import networkx as nx
 import pytest
 
 from mynet.cli import main
-from mynet.sources import parse_file
-from mynet.safetext import BIDI_CONTROLS, clean_imported, json_escape, shown
-from mynet.workspace.importing import import_paths
-from mynet.store import Store
-from mynet.workspace.location import resolve_workspace_path
 from mynet.people.refresh import refresh_contacts
+from mynet.safetext import BIDI_CONTROLS, clean_imported, json_escape, shown
+from mynet.sources import parse_file
+from mynet.store import Store
+from mynet.workspace.importing import import_paths
+from mynet.workspace.location import resolve_workspace_path
 
 ROOT = Path(__file__).resolve().parents[1]
 ESC_SEQ = "\x1b[2J\x1b]0;pwned\x07"
@@ -136,7 +136,8 @@ HOSTILE_CSV = (
     "Di Park,di@velvane.example,Velvane Robotics,chess,\n"
 )
 #: Names as a workspace written before import cleaning may hold them.
-LEGACY = {"Ana Lind": f"{ESC_SEQ}Ana\x00 Lind\u202e", "Bo Ek": "Bo\x9b2J Ek\x7f\x08", "Cy Moss": "Cy\rMoss\x1b]8;;x\x07"}
+LEGACY = {"Ana Lind": f"{ESC_SEQ}Ana\x00 Lind\u202e", "Bo Ek": "Bo\x9b2J Ek\x7f\x08",
+          "Cy Moss": "Cy\rMoss\x1b]8;;x\x07"}
 
 
 @pytest.fixture
@@ -168,8 +169,8 @@ def hostile(tmp_path):
             store.bump_data_version()
         refresh_contacts(store)
         from mynet.analysis.snapshot import analyse
-        from mynet.workspace.decisions import name_group
         from mynet.evidence.network import load_network
+        from mynet.workspace.decisions import name_group
 
         a = analyse(store, load_network(store))
         name_group(store, a.groups[0].id, "\x1b[2J[b]Team[/b] \u202eexcept")
@@ -223,9 +224,11 @@ def test_only_the_common_helpers_print():
                 f = node.func
                 name = f.attr if isinstance(f, ast.Attribute) else getattr(f, "id", "")
                 base = getattr(f.value, "id", "") if isinstance(f, ast.Attribute) else ""
-                assert not (base == "click" and name in ("echo", "secho", "confirm", "prompt")), (path.name, node.lineno)
+                assert not (base == "click"
+                            and name in ("echo", "secho", "confirm", "prompt")), (path.name, node.lineno)
                 assert name != "print", (path.name, node.lineno)
-                assert not (base in ("stdout", "stderr") or name == "write" and "std" in ast.unparse(f)), (path.name, node.lineno)
+                assert not (base in ("stdout", "stderr") or name == "write"
+                            and "std" in ast.unparse(f)), (path.name, node.lineno)
 
 
 def test_the_browser_uses_only_our_text_widgets():

@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import pytest
 
-from mynet.people.identity import Decisions, Me, StoredRecord, names_compatible, record_keys, resolve, suggest_merges
 from mynet.model import Record
+from mynet.people.identity import Decisions, Me, StoredRecord, names_compatible, record_keys, resolve, suggest_merges
 
 
 def rec(i, name="", emails=(), phones=(), orgs=(), source="a.vcf", uid="", rev=""):
@@ -41,7 +41,8 @@ def test_shared_phone_with_different_names_is_held_back():
 
 
 def test_ids_are_stable_and_decisions_win():
-    rs = stored([rec(0, "Ana Lind", ["ana@q.example"]), rec(1, "A. Lind", ["ana@q.example"]), rec(2, "Bo Ek", ["bo@q.example"])])
+    rs = stored([rec(0, "Ana Lind", ["ana@q.example"]), rec(1, "A. Lind", ["ana@q.example"]),
+                 rec(2, "Bo Ek", ["bo@q.example"])])
     first = resolve(rs, {}, Decisions(), Me())
     ids = dict(first.mapping)
     # Re-resolving with the previous map keeps the ids.
@@ -59,7 +60,8 @@ def test_ids_are_stable_and_decisions_win():
 
 
 def test_you_are_not_a_contact():
-    rs = stored([rec(0, "Robin Vale", ["you@example.org"]), rec(1, "Robin Vale", ["robin@work.example"], ["+44 7700 900001"]),
+    rs = stored([rec(0, "Robin Vale", ["you@example.org"]),
+                 rec(1, "Robin Vale", ["robin@work.example"], ["+44 7700 900001"]),
                  rec(2, "Robin V.", [], ["+44 7700 900001"]), rec(3, "Ana Lind", ["ana@q.example"])])
     res = resolve(rs, {}, Decisions(), Me(emails={"you@example.org"}))
     assert [c.name for c in res.contacts] == ["Robin Vale", "Ana Lind"] and len(res.me_keys) == 1
@@ -69,8 +71,10 @@ def test_you_are_not_a_contact():
 
 def test_current_and_past_organisations():
     rs = [
-        StoredRecord(1, "k1", "old.vcf", "2019-05-01", "", rec(0, "Ana Lind", ["ana@x.example"], orgs=["Corrimont Labs"])),
-        StoredRecord(2, "k2", "new.vcf", "2026-01-01", "", rec(0, "Ana Lind", ["ana@x.example"], orgs=["Quillon Labs Inc."])),
+        StoredRecord(1, "k1", "old.vcf", "2019-05-01", "",
+                     rec(0, "Ana Lind", ["ana@x.example"], orgs=["Corrimont Labs"])),
+        StoredRecord(2, "k2", "new.vcf", "2026-01-01", "",
+                     rec(0, "Ana Lind", ["ana@x.example"], orgs=["Quillon Labs Inc."])),
     ]
     c = resolve(rs, {}, Decisions(), Me()).contacts[0]
     assert c.orgs == ["Quillon Labs Inc."] and c.past_orgs == ["Corrimont Labs"]
@@ -114,7 +118,8 @@ def test_record_keys_stable_under_edits():
 def test_canonical_orgs_short_forms_and_aliases():
     from mynet.people.identity import canonical_orgs
 
-    m = canonical_orgs(["Quillon Labs", "Quillon Labs Ltd", "Quillon", "QUILLON LABS", "Corrimont Labs", "Corrimont Bank",
+    m = canonical_orgs(["Quillon Labs", "Quillon Labs Ltd", "Quillon", "QUILLON LABS", "Corrimont Labs",
+                        "Corrimont Bank",
                         "Corrimont", "Velvane Robotics GmbH"])
     assert m["quillon"] == "Quillon Labs" and m["quillon labs"] == "Quillon Labs"
     assert m["corrimont"] == "Corrimont"  # two longer names start the same way: left alone
@@ -133,10 +138,10 @@ def test_organisation_and_group_cards_are_not_contacts():
 
 
 def test_calendar_addresses_link_to_the_one_contact_with_that_name():
+    from mynet.model import Contact, Interaction
     from mynet.people.correspondence import MailFacts
     from mynet.people.identity import Me
     from mynet.people.mailpeople import attach_by_name
-    from mynet.model import Contact, Interaction
 
     ana = Contact(id=1, name="Ana Lind", emails=["ana@home.example"], record_ids=[1])
     bo1 = Contact(id=2, name="Bo Ek", emails=["bo@a.example"], record_ids=[2])
@@ -145,16 +150,17 @@ def test_calendar_addresses_link_to_the_one_contact_with_that_name():
                      participants=["ana.lind@work.example", "bo@c.example", "you@example.org"],
                      names={"ana.lind@work.example": "Lind, Ana", "bo@c.example": "Bo Ek", "you@example.org": "Me"})
     contacts, where = attach_by_name([ana, bo1, bo2], {}, [it], Me(emails={"you@example.org"}), MailFacts())
-    assert len(contacts) == 3 and list(where) == ["ana.lind@work.example"] and "c.ics:1" in where["ana.lind@work.example"]
+    assert len(contacts) == 3 and list(where) == ["ana.lind@work.example"]
+    assert "c.ics:1" in where["ana.lind@work.example"]
     assert ana.emails == ["ana@home.example", "ana.lind@work.example"]
     assert bo1.emails == ["bo@a.example"] and bo2.emails == ["bo@b.example"]  # ambiguous name: not linked
 
 
 def test_role_and_list_addresses_are_never_linked_by_name():
+    from mynet.model import Contact, Interaction
     from mynet.people.correspondence import MailFacts
     from mynet.people.identity import Me
     from mynet.people.mailpeople import attach_by_name
-    from mynet.model import Contact, Interaction
 
     ana = Contact(id=1, name="Ana Lind", emails=["ana@home.example"], record_ids=[1])
     it = Interaction(kind="message", source="m.mbox", index=0, line=1, when="2026-01-01", sender="trivial@proj.example",
@@ -174,7 +180,8 @@ def test_a_card_whose_fn_is_an_address_takes_its_name_from_n():
                given="Ana", family="Lind", emails=["ana.lind@quillon.example"])
     assert r.display_name() == "Ana Lind"
     # Without N parts the address stays the only name it has; a real FN always wins.
-    assert Record(kind="vcard", source="p.vcf", index=0, line=1, full_name="ana@q.example").display_name() == "ana@q.example"
+    assert Record(kind="vcard", source="p.vcf", index=0, line=1,
+                  full_name="ana@q.example").display_name() == "ana@q.example"
     assert Record(kind="vcard", source="p.vcf", index=0, line=1, full_name="Ana L.", given="Ana",
                   family="Lind").display_name() == "Ana L."
 

@@ -97,8 +97,8 @@ def test_each_delimiter(delimiter):
 def test_rfc4180_section_2_examples():
     # RFC 4180 section 2, rules 1-7 with their examples (CRLF line breaks; an optional header line;
     # fields in double quotes may hold commas, line breaks and doubled double quotes).
-    from mynet.sources.csv_text import read_rows
     from mynet.sources.csv import detect_delimiter
+    from mynet.sources.csv_text import read_rows
 
     def cells(text):
         delimiter, start, first = detect_delimiter(text)
@@ -107,14 +107,16 @@ def test_rfc4180_section_2_examples():
 
     assert cells("aaa,bbb,ccc\r\nzzz,yyy,xxx\r\n") == [["aaa", "bbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 1
     assert cells("aaa,bbb,ccc\r\nzzz,yyy,xxx") == [["aaa", "bbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 2
-    assert cells("field_name,field_name,field_name\r\naaa,bbb,ccc\r\nzzz,yyy,xxx\r\n")[0] == ["field_name"] * 3  # rule 3
+    # rule 3
+    assert cells("field_name,field_name,field_name\r\naaa,bbb,ccc\r\nzzz,yyy,xxx\r\n")[0] == ["field_name"] * 3
     assert cells('"aaa","bbb","ccc"\r\nzzz,yyy,xxx') == [["aaa", "bbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 5
     assert cells('"aaa","b\r\nbb","ccc"\r\nzzz,yyy,xxx') == [["aaa", "b\r\nbb", "ccc"], ["zzz", "yyy", "xxx"]]  # rule 6
     assert cells('"aaa","b""bb","ccc"') == [["aaa", 'b"bb', "ccc"]]  # rule 7
     # The same rules through the whole importer, with a header it knows.
     data = b'Name,Email,Notes\r\n"Lind, Ana",ana@example.org,"said ""hello""\r\non two lines"\r\n'
     (rec,) = parse_csv(data, "rfc.csv").records
-    assert (rec.full_name, rec.emails, rec.notes) == ("Lind, Ana", ["ana@example.org"], ['said "hello"\r\non two lines'])
+    assert (rec.full_name, rec.emails,
+            rec.notes) == ("Lind, Ana", ["ana@example.org"], ['said "hello"\r\non two lines'])
 
 
 def test_delimiter_is_the_one_rows_agree_with_not_the_widest_header():
@@ -126,7 +128,8 @@ def test_delimiter_is_the_one_rows_agree_with_not_the_widest_header():
     from mynet.sources.csv import detect_delimiter
 
     assert detect_delimiter(data.decode())[0] == ";"
-    result = parse_csv(data, "semi.csv", mapping={"full_name": "Name, full", "emails": "Email", "notes": "Notes, remarks, more"})
+    result = parse_csv(data, "semi.csv",
+                       mapping={"full_name": "Name, full", "emails": "Email", "notes": "Notes, remarks, more"})
     assert [(r.full_name, r.emails, r.notes) for r in result.records] == [
         ("Lind, Ana", ["ana@example.org"], ["tea"]), ("Ek, Bo", ["bo@example.org"], ["coffee"])]
 
@@ -211,11 +214,15 @@ def test_synonyms_of_an_invented_multilingual_export():
     ]
     rec = parse_csv(table(rows, ";").encode(), "de.csv").records[0]
     assert (rec.given, rec.family, rec.emails, rec.phones) == ("Jörg", "Übel", ["joerg@example.de"], ["+49 30 000000"])
-    assert (rec.orgs, rec.org_units, rec.titles, rec.tags) == (["Beispiel GmbH"], [["Einkauf"]], ["Leiter"], ["Messe", "Kunden"])
-    assert (rec.addresses[0].postcode, rec.addresses[0].locality, rec.addresses[0].country) == ("10115", "Beispielstadt", "Beispielland")
-    fr = [["Prénom", "Nom", "Courriel", "Téléphone portable", "Société"], ["Zoé", "Lacroix", "zoe@example.fr", "06 00 00 00 00", "Exemple SA"]]
+    assert (rec.orgs, rec.org_units, rec.titles,
+            rec.tags) == (["Beispiel GmbH"], [["Einkauf"]], ["Leiter"], ["Messe", "Kunden"])
+    assert (rec.addresses[0].postcode, rec.addresses[0].locality,
+            rec.addresses[0].country) == ("10115", "Beispielstadt", "Beispielland")
+    fr = [["Prénom", "Nom", "Courriel", "Téléphone portable", "Société"],
+          ["Zoé", "Lacroix", "zoe@example.fr", "06 00 00 00 00", "Exemple SA"]]
     rec = parse_csv(table(fr).encode(), "fr.csv").records[0]
-    assert (rec.given, rec.family, rec.emails, rec.phones, rec.orgs) == ("Zoé", "Lacroix", ["zoe@example.fr"], ["06 00 00 00 00"], ["Exemple SA"])
+    assert (rec.given, rec.family, rec.emails, rec.phones,
+            rec.orgs) == ("Zoé", "Lacroix", ["zoe@example.fr"], ["06 00 00 00 00"], ["Exemple SA"])
 
 
 @pytest.mark.parametrize(
@@ -288,7 +295,8 @@ def test_department_without_company_warns_on_the_record():
 
 def test_mapping_overrides_and_adds_columns():
     rows = [["Name", "Alias name", "Reach me", "Shop"], ["A. One", "Ann One", "ann@example.org", "Kiosk Example"]]
-    result = parse_csv(table(rows).encode(), "m.csv", mapping={"name": "Alias name", "email": "reach me", "org": "Shop"})
+    result = parse_csv(table(rows).encode(), "m.csv",
+                       mapping={"name": "Alias name", "email": "reach me", "org": "Shop"})
     rec = result.records[0]
     assert (rec.full_name, rec.emails, rec.orgs) == ("Ann One", ["ann@example.org"], ["Kiosk Example"])
     # The automatically found "Name" column lost to the override and is reported.
@@ -458,7 +466,8 @@ def test_quote_closing_on_a_later_line_keeps_the_rows_it_would_merge():
 
 def test_quote_swallowing_many_rows_keeps_each_of_them():
     body = "".join(f"P{i} Vik,p{i}@e.example\n" for i in range(8))
-    data = f'Full name,Email\nAna Lind,a@e.example\n"Bo Ek,b@e.example\n{body}Cy Moss",c@e.example\nDi Park,d@e.example\n'
+    data = (f'Full name,Email\nAna Lind,a@e.example\n"Bo Ek,b@e.example\n{body}Cy Moss",c@e.example\n'
+            "Di Park,d@e.example\n")
     result = parse_csv(data.encode(), "u2.csv")
     names = [r.full_name for r in result.records]
     assert names == ["Ana Lind", "Bo Ek", *[f"P{i} Vik" for i in range(8)], "Cy Moss", "Di Park"]
@@ -482,7 +491,8 @@ def test_a_legitimate_quoted_line_break_stays_one_field(column):
 
 
 def test_utf8_bom_file_with_one_bad_byte_keeps_every_row_and_names_the_line():
-    data = b"\xef\xbb\xbfFull name,Email\r\nZo\xc3\xab Vik,a@e.example\r\nBo \xff Ek,b@e.example\r\nCy Moss,c@e.example\r\n"
+    data = (b"\xef\xbb\xbfFull name,Email\r\nZo\xc3\xab Vik,a@e.example\r\nBo \xff Ek,b@e.example\r\n"
+            b"Cy Moss,c@e.example\r\n")
     result = parse_csv(data, "bom.csv")
     assert [r.full_name for r in result.records] == ["Zoë Vik", "Bo \ufffd Ek", "Cy Moss"]
     assert [w for w in result.warnings if w.startswith("line 3:") and "UTF-8" in w and "U+FFFD" in w]

@@ -13,10 +13,10 @@ import time
 
 import networkx as nx
 import pytest
+from davis_ics import davis_email, davis_expected, davis_graph, davis_ics_bytes
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from davis_ics import davis_email, davis_expected, davis_graph, davis_ics_bytes
 from mynet.errors import InputError, RecordError
 from mynet.sources import parse_file
 from mynet.sources.ics import parse_ics
@@ -169,7 +169,8 @@ def test_monthly_first_monday_until():
     # the next (Jul 7) is after UNTIL.
     data = ics(event("m@example.org", ":20250106T090000Z", "RRULE:FREQ=MONTHLY;BYDAY=1MO;UNTIL=20250630T235959Z"))
     res = parse(data, today=dt.date(2025, 12, 31))
-    assert [w[:10] for w in whens(res)] == ["2025-01-06", "2025-02-03", "2025-03-03", "2025-04-07", "2025-05-05", "2025-06-02"]
+    assert [w[:10]
+            for w in whens(res)] == ["2025-01-06", "2025-02-03", "2025-03-03", "2025-04-07", "2025-05-05", "2025-06-02"]
 
 
 def test_endless_rule_stops_at_today_and_at_the_cap():
@@ -191,7 +192,8 @@ def test_rdate_adds_and_dtstart_counts():
     data = ics(event("r@example.org", ":20250303T100000Z", "RDATE:20250310T100000Z,20250317T140000Z",
                      "RDATE;VALUE=PERIOD:20250401T080000Z/20250401T090000Z"))
     assert whens(parse(data)) == [
-        "2025-03-03T10:00:00+00:00", "2025-03-10T10:00:00+00:00", "2025-03-17T14:00:00+00:00", "2025-04-01T08:00:00+00:00",
+        "2025-03-03T10:00:00+00:00", "2025-03-10T10:00:00+00:00", "2025-03-17T14:00:00+00:00",
+        "2025-04-01T08:00:00+00:00",
     ]
 
 
@@ -272,7 +274,8 @@ def test_attendees_declined_delegated_rooms_and_alarms():
     (m,) = parse(ics(body)).interactions
     assert m.organizer == "lena@example.org"
     assert m.participants == ["ana@example.org", "dan@example.com", "eve@example.net", "lena@example.org"]
-    assert m.names == {"lena@example.org": "Lena Organiser", "ana@example.org": "Ana Ortiz", "dan@example.com": "Bare Address"}
+    assert m.names == {"lena@example.org": "Lena Organiser", "ana@example.org": "Ana Ortiz",
+                       "dan@example.com": "Bare Address"}
 
 
 def test_cn_rfc6868_escapes_and_quotes():
@@ -290,7 +293,8 @@ def test_cn_rfc6868_escapes_and_quotes():
 
 
 def test_summary_text_escapes_and_unescaped_commas_are_kept():
-    (m,) = parse(ics(event("s@example.org", ":20250301T100000Z", summary="Plan\\, review\\; next, then lunch\\nand more"))).interactions
+    (m,) = parse(ics(event("s@example.org", ":20250301T100000Z",
+                           summary="Plan\\, review\\; next, then lunch\\nand more"))).interactions
     assert m.title == "Plan, review; next, then lunch\nand more"
 
 
@@ -340,13 +344,15 @@ def test_olson_tzid_without_vtimezone_and_dst_in_a_recurrence():
 
 
 def test_vtimezone_in_the_file_wins_over_the_olson_name():
-    fixed = "BEGIN:VTIMEZONE\nTZID:Europe/Berlin\nBEGIN:STANDARD\nDTSTART:19700101T000000\nTZOFFSETFROM:+0300\nTZOFFSETTO:+0300\nEND:STANDARD\nEND:VTIMEZONE"
+    fixed = ("BEGIN:VTIMEZONE\nTZID:Europe/Berlin\nBEGIN:STANDARD\nDTSTART:19700101T000000\nTZOFFSETFROM:+0300\n"
+             "TZOFFSETTO:+0300\nEND:STANDARD\nEND:VTIMEZONE")
     (m,) = parse(ics(fixed, event("f@example.org", ";TZID=Europe/Berlin:20250115T090000"))).interactions
     assert m.when == "2025-01-15T06:00:00+00:00"
 
 
 def test_floating_and_unknown_zones_are_read_as_utc_with_a_warning():
-    res = parse(ics(event("fl@example.org", ":20250115T090000"), event("uk@example.org", ";TZID=Nowhere/Special:20250115T090000")))
+    res = parse(ics(event("fl@example.org", ":20250115T090000"),
+                    event("uk@example.org", ";TZID=Nowhere/Special:20250115T090000")))
     assert whens(res) == ["2025-01-15T09:00:00+00:00", "2025-01-15T09:00:00+00:00"]
     assert any("floating" in w for w in res.warnings)
     assert any("Nowhere/Special" in w for w in res.warnings)
@@ -415,7 +421,8 @@ def test_mixed_line_ends_within_one_file():
     first = event("m1@example.org", ":20250101T100000Z", "ORGANIZER:mailto:o@example.org").replace("\n", "\r\n")
     second = event("m2@example.org", ":20250102T100000Z", "ORGANIZER:mailto:o@example.org").replace("\n", "\r")
     third = event("m3@example.org", ":20250103T100000Z", "ORGANIZER:mailto:o@example.org")
-    data = ("BEGIN:VCALENDAR\r\nVERSION:2.0\r\n" + first + "\r\n" + second + "\r" + third + "\nEND:VCALENDAR\r\n").encode()
+    data = ("BEGIN:VCALENDAR\r\nVERSION:2.0\r\n" + first + "\r\n" + second + "\r" + third
+            + "\nEND:VCALENDAR\r\n").encode()
     res = parse(data)
     assert [i.key.split("#")[0] for i in res.interactions] == ["m1@example.org", "m2@example.org", "m3@example.org"]
     assert [i.line for i in res.interactions] == [3, 9, 15]
@@ -423,7 +430,8 @@ def test_mixed_line_ends_within_one_file():
 
 
 def test_bare_vevent_and_utf16_files():
-    bare = event("bare@example.org", ":20250101T100000Z", "ORGANIZER:mailto:o@example.org").replace("\n", "\r\n").encode()
+    bare = event("bare@example.org", ":20250101T100000Z",
+                 "ORGANIZER:mailto:o@example.org").replace("\n", "\r\n").encode()
     assert parse(bare).interactions[0].participants == ["o@example.org"]
     utf16 = ics(event("u16@example.org", ":20250101T100000Z")).decode().encode("utf-16")
     assert len(parse(utf16).interactions) == 1
@@ -438,7 +446,8 @@ def test_empty_calendar_and_todo_only_calendar_warn():
 
 
 def test_stray_end_lines_do_not_stop_the_file():
-    data = ics("END:VALARM", event("a@example.org", ":20250101T100000Z"), "END:VTODO", event("b@example.org", ":20250102T100000Z"))
+    data = ics("END:VALARM", event("a@example.org", ":20250101T100000Z"), "END:VTODO",
+               event("b@example.org", ":20250102T100000Z"))
     res = parse(data)
     assert len(res.interactions) == 2 and sum("without a matching BEGIN" in w for w in res.warnings) == 2
 
@@ -469,7 +478,9 @@ def test_mangled_files_never_raise_anything_but_input_errors(data):
         if op == "delete":
             del raw[pos:pos + data.draw(st.integers(1, 40))]
         elif op == "insert":
-            raw[pos:pos] = data.draw(st.sampled_from([b"\r\n", b"\r\n ", b":", b";", b"\xff", b"^", b"\\", b"BEGIN:VEVENT\r\n", b"END:VEVENT\r\n", b"Z", b"RRULE:FREQ=DAILY\r\n"]))
+            raw[pos:pos] = data.draw(st.sampled_from([b"\r\n", b"\r\n ", b":", b";", b"\xff", b"^", b"\\",
+                                                      b"BEGIN:VEVENT\r\n", b"END:VEVENT\r\n", b"Z",
+                                                      b"RRULE:FREQ=DAILY\r\n"]))
         elif raw:
             raw[min(pos, len(raw) - 1)] ^= data.draw(st.integers(1, 255))
     try:

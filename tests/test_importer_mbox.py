@@ -18,8 +18,8 @@ from mynet.sources import iter_input_files, parse_file
 from mynet.sources.mbox import FIELD_CAP, MAX_KEPT, bulk_reason, decode_words, iter_mbox_messages, parse_mail
 
 
-
-def msg(*headers: str, body: str = "Hello.\n", envelope: str = "From sender@example.org Mon Jan  1 09:00:00 2024") -> str:
+def msg(*headers: str, body: str = "Hello.\n",
+        envelope: str = "From sender@example.org Mon Jan  1 09:00:00 2024") -> str:
     """One mbox message: envelope line, header lines, blank line, body."""
     lines = ([envelope] if envelope else []) + list(headers)
     return "\n".join(lines) + "\n\n" + body + ("" if body.endswith("\n") else "\n") + "\n"
@@ -72,7 +72,8 @@ def test_rfc2047_section8_second_example_names():
     (m,) = parse_mail(data, "a.eml", single=True).interactions
     assert m.names == {"ojarnef@admin.kth.se": "Olle Järnefors"}  # RFC 2047 §8
     assert m.participants == ["ietf-822@dimacs.rutgers.edu", "ojarnef@admin.kth.se"]  # RFC 2047 §8
-    data = b"From: Nathaniel Borenstein <nsb@thumper.bellcore.com>\n    (=?iso-8859-8?b?7eXs+SDv4SDp7Oj08A==?=)\nTo: x@example.org\n\n"
+    data = (b"From: Nathaniel Borenstein <nsb@thumper.bellcore.com>\n    (=?iso-8859-8?b?7eXs+SDv4SDp7Oj08A==?=)\n"
+            b"To: x@example.org\n\n")
     (m,) = parse_mail(data, "b.eml", single=True).interactions
     assert m.names["nsb@thumper.bellcore.com"] == "Nathaniel Borenstein"  # RFC 2047 §8
     hebrew = base64.b64decode("7eXs+SDv4SDp7Oj08A==").decode("iso-8859-8")
@@ -237,7 +238,8 @@ def test_thread_root(extra, root):
 def test_thread_groups_a_conversation():
     data = mbox(
         msg("From: a@example.org", "To: b@example.org", "Message-ID: <t1@example.org>"),
-        msg("From: b@example.org", "To: a@example.org", "Message-ID: <t2@example.org>", "In-Reply-To: <t1@example.org>"),
+        msg("From: b@example.org", "To: a@example.org", "Message-ID: <t2@example.org>",
+            "In-Reply-To: <t1@example.org>"),
         msg("From: a@example.org", "To: b@example.org", "Message-ID: <t3@example.org>",
             "In-Reply-To: <t2@example.org>", "References: <t1@example.org> <t2@example.org>"),
         msg("From: c@example.org", "To: a@example.org", "Message-ID: <other@example.org>"),
@@ -280,7 +282,8 @@ def test_bulk_rules(header, bulk, mass):
 def test_bulk_by_recipient_count():
     def with_recipients(n: int) -> bytes:
         to = ", ".join(f"p{i}@example.org" for i in range(n - 1))
-        return mbox(msg("From: a@example.org", f"To: {to}", "Cc: last@example.net", "Bcc: z1@example.org, z2@example.org"))
+        return mbox(msg("From: a@example.org", f"To: {to}", "Cc: last@example.net",
+                        "Bcc: z1@example.org, z2@example.org"))
 
     assert parse_mail(with_recipients(25), "a.mbox").interactions[0].bulk is False
     assert parse_mail(with_recipients(26), "a.mbox").interactions[0].bulk is True
@@ -332,7 +335,8 @@ def test_envelope_shaped_from_line_after_blank_line_splits_even_without_headers(
 
 
 def test_crlf_mbox_reads_like_lf():
-    text = "".join([msg(*BASIC, body="Body\nFrom inside\n"), msg("From: ben@example.org", "To: ada@example.org", "Subject: x\n  y")])
+    text = "".join([msg(*BASIC, body="Body\nFrom inside\n"),
+                    msg("From: ben@example.org", "To: ada@example.org", "Subject: x\n  y")])
     lf = parse_mail(text.encode(), "a.mbox").interactions
     crlf = parse_mail(text.replace("\n", "\r\n").encode(), "a.mbox").interactions
     assert [m.to_dict() for m in crlf] == [m.to_dict() for m in lf]
@@ -341,7 +345,8 @@ def test_crlf_mbox_reads_like_lf():
 
 
 def test_iter_mbox_messages_lines_and_offsets():
-    data = b"\n\nFrom a Mon Jan  1 00:00:00 2024\nFrom: a@example.org\n\nbody\n\nFrom b Tue Jan  2 00:00:00 2024\nTo: b@example.org\n"
+    data = (b"\n\nFrom a Mon Jan  1 00:00:00 2024\nFrom: a@example.org\n\nbody\n\n"
+            b"From b Tue Jan  2 00:00:00 2024\nTo: b@example.org\n")
     spans = list(iter_mbox_messages(data))
     assert [line for line, _, _ in spans] == [3, 8]
     assert data[spans[0][1]:].startswith(b"From: a@")
@@ -383,7 +388,8 @@ def test_many_messages(tmp_path):
 
 def test_raw_latin1_and_utf8_headers():
     data = (
-        b"From a Mon Jan  1 00:00:00 2024\nFrom: J\xf6rg Vogt <jv@example.org>\nTo: b@example.org\nSubject: \xe9t\xe9\n\n"
+        b"From a Mon Jan  1 00:00:00 2024\nFrom: J\xf6rg Vogt <jv@example.org>\nTo: b@example.org\nSubject: "
+        b"\xe9t\xe9\n\n"
         b"From b Mon Jan  1 00:00:00 2024\nFrom: J\xc3\xb6rg Vogt <jv@example.org>\nTo: b@example.org\n\n"
     )
     result = parse_mail(data, "a.mbox")
@@ -493,7 +499,8 @@ def test_arbitrary_bytes_give_a_result_or_an_input_error(tail, single):
 # --------------------------------------------------------------------------
 
 def test_single_eml(tmp_path):
-    data = ("\r\n".join(BASIC) + "\r\n\r\nFrom the body\r\n\r\nFrom x Mon Jan  1 00:00:00 2024\r\nTo: z@example.org\r\n").encode()
+    data = ("\r\n".join(BASIC)
+            + "\r\n\r\nFrom the body\r\n\r\nFrom x Mon Jan  1 00:00:00 2024\r\nTo: z@example.org\r\n").encode()
     result = parse_mail(data, "one.eml", single=True)
     assert result.kind == "eml"
     (m,) = result.interactions
@@ -515,7 +522,8 @@ def test_dispatcher_reads_mbox_and_a_folder_of_eml(tmp_path):
     folder = tmp_path / "mail"
     folder.mkdir()
     for i in range(3):
-        (folder / f"{i}.eml").write_bytes(f"From: p{i}@example.org\nTo: you@example.org\nDate: Mon, 1 Jan 2024 10:00:00 +0000\n\nhi\n".encode())
+        (folder / f"{i}.eml").write_bytes(f"From: p{i}@example.org\nTo: you@example.org\nDate: Mon, 1 Jan 2024 "
+                                          f"10:00:00 +0000\n\nhi\n".encode())
     results = [parse_file(p) for p in iter_input_files([folder])]
     assert [r.kind for r in results] == ["eml"] * 3
     assert [r.interactions[0].sender for r in results] == [f"p{i}@example.org" for i in range(3)]

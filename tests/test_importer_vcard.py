@@ -18,8 +18,8 @@ from hypothesis import strategies as st
 
 from mynet.errors import InputError, RecordError
 from mynet.sources import parse_file
-from mynet.sources.vcard_text import read_cards
 from mynet.sources.vcard import parse_vcard, split_value, unescape
+from mynet.sources.vcard_text import read_cards
 
 PATH = "test.vcf"
 
@@ -78,7 +78,8 @@ def test_v21_fold_keeps_its_whitespace_and_v3_fold_drops_one():
     # appear, CRLF followed by that white space may be inserted, and unfolding treats CRLF + LWSP as the
     # LWSP itself (the space stays). vCard 3.0 (RFC 2426 section 2.6) and 4.0 (RFC 6350 section 3.2)
     # instead drop the one white-space character after the line break.
-    v21 = "BEGIN:VCARD\r\nVERSION:2.1\r\nN:Example;Ada\r\nNOTE:Met at the harbour\r\n office opening\r\nTITLE:Chief\r\n\tengineer\r\nEND:VCARD\r\n"
+    v21 = ("BEGIN:VCARD\r\nVERSION:2.1\r\nN:Example;Ada\r\nNOTE:Met at the harbour\r\n office opening\r\n"
+           "TITLE:Chief\r\n\tengineer\r\nEND:VCARD\r\n")
     rec = one(v21)
     assert rec.notes == ["Met at the harbour office opening"]
     assert rec.titles == ["Chief\tengineer"]
@@ -258,7 +259,8 @@ def test_comment_lines_are_dropped_but_a_qp_continuation_starting_with_hash_is_k
 
 
 def test_trailing_backslash_continues_an_address_on_the_next_line():
-    rec = one("BEGIN:VCARD\nVERSION:2.1\nN:Example;Sam\nADR;HOME:;;c/o Tia Example\\\nBox 12\\\n1 Example Road;Exampleton;;12345;Exampleland\nEND:VCARD\n")
+    rec = one("BEGIN:VCARD\nVERSION:2.1\nN:Example;Sam\nADR;HOME:;;c/o Tia Example\\\nBox 12\\\n1 Example "
+              "Road;Exampleton;;12345;Exampleland\nEND:VCARD\n")
     assert rec.addresses[0].street == "c/o Tia Example\nBox 12\n1 Example Road"
     assert rec.addresses[0].country == "Exampleland"
 
@@ -288,7 +290,8 @@ def test_backslash_in_21_escapes_only_a_semicolon():
 def test_escapes_in_30_and_lists():
     rec = one(
         "BEGIN:VCARD\nVERSION:3.0\nFN:Vic Example\\, PhD\nN:Example;Vic;Ray,Lee;Dr.,Prof.;PhD,MBA\n"
-        "NICKNAME:Vee,V\\,E\nCATEGORIES:alpha,beta\\, gamma,,delta\nNOTE:a\\nb\\\\n\\;c\nURL:http\\://example.org/x\nEND:VCARD\n"
+        "NICKNAME:Vee,V\\,E\nCATEGORIES:alpha,beta\\, "
+        "gamma,,delta\nNOTE:a\\nb\\\\n\\;c\nURL:http\\://example.org/x\nEND:VCARD\n"
     )
     assert rec.full_name == "Vic Example, PhD"
     assert (rec.additional, rec.prefix, rec.suffix) == ("Ray Lee", "Dr. Prof.", "PhD, MBA")
@@ -361,7 +364,8 @@ def test_vcard40_related_kind_member_and_rfc6868():
         ("Dee Example", ["spouse"]),
     ]
     assert cam.addresses[0].types == ["home^work"]  # RFC 6868 ^^ is a caret
-    props = read_cards(crlf("BEGIN:VCARD\nVERSION:4.0\nADR;LABEL=\"^'A^' ^^ B^nC\":;;x;;;;\nEND:VCARD\n"), PATH).cards[0].props
+    props = read_cards(crlf("BEGIN:VCARD\nVERSION:4.0\nADR;LABEL=\"^'A^' ^^ B^nC\":;;x;;;;\nEND:VCARD\n"),
+                       PATH).cards[0].props
     adr = next(p for p in props if p.name == "ADR")
     assert adr.params["LABEL"] == ['"A" ^ B\nC']  # RFC 6868 (section 3, from memory): ^' quote, ^^ caret, ^n newline
 
@@ -371,8 +375,10 @@ def test_base64_media_is_skipped_without_losing_what_follows():
     result = parse(
         "BEGIN:VCARD\nVERSION:2.1\nFN:Eve Example\nPHOTO;ENCODING=BASE64;TYPE=JPEG:\n"
         f" {photo}\n {photo}\n{photo}\n\nEMAIL:eve@example.org\nEND:VCARD\n"
-        f"BEGIN:VCARD\nVERSION:3.0\nFN:Flo Example\nPHOTO;ENCODING=b;TYPE=JPEG:{photo}\n {photo}\nTEL:+1 555 0103\nEND:VCARD\n"
-        f"BEGIN:VCARD\nVERSION:4.0\nFN:Gil Example\nLOGO:data:image/jpeg;base64,{photo}\nNOTE:after, the logo\nEND:VCARD\n"
+        f"BEGIN:VCARD\nVERSION:3.0\nFN:Flo Example\nPHOTO;ENCODING=b;TYPE=JPEG:{photo}\n {photo}\nTEL:+1 555 "
+        f"0103\nEND:VCARD\n"
+        f"BEGIN:VCARD\nVERSION:4.0\nFN:Gil Example\nLOGO:data:image/jpeg;base64,{photo}\nNOTE:after, the "
+        f"logo\nEND:VCARD\n"
         f"BEGIN:VCARD\nVERSION:2.1\nFN:Hap Example\nKEY;ENCODING=BASE64:not:base64:at:all\nTITLE:Keeper\nEND:VCARD\n"
     )
     eve, flo, gil, hap = result.records
@@ -385,8 +391,10 @@ def test_base64_media_is_skipped_without_losing_what_follows():
 def test_same_uid_on_two_cards_gives_two_records():
     # RFC 6350 §7.2.4: the identity layer merges them; the importer keeps both
     result = parse(
-        "BEGIN:VCARD\nVERSION:4.0\nUID:urn:uuid:00000000-0000-4000-8000-00000000000a\nFN:Ivy Example\nEMAIL:ivy@example.org\nEND:VCARD\n"
-        "BEGIN:VCARD\nVERSION:4.0\nUID:urn:uuid:00000000-0000-4000-8000-00000000000a\nFN:Ivy Example\nEMAIL:ivy@example.net\nEND:VCARD\n"
+        "BEGIN:VCARD\nVERSION:4.0\nUID:urn:uuid:00000000-0000-4000-8000-00000000000a\nFN:Ivy "
+        "Example\nEMAIL:ivy@example.org\nEND:VCARD\n"
+        "BEGIN:VCARD\nVERSION:4.0\nUID:urn:uuid:00000000-0000-4000-8000-00000000000a\nFN:Ivy "
+        "Example\nEMAIL:ivy@example.net\nEND:VCARD\n"
     )
     assert [r.uid for r in result.records] == ["urn:uuid:00000000-0000-4000-8000-00000000000a"] * 2
     assert [r.emails for r in result.records] == [["ivy@example.org"], ["ivy@example.net"]]
@@ -411,7 +419,8 @@ def test_nothing_printed_by_vobject_logging():
 
 
 def test_pathological_headers_finish_quickly():
-    bad = ["A" + ";a=b,c" * 3000 + ',":x', "X" + ";" * 5000 + ":v", "N;" + 'a="' * 3000 + ":x", "TEL;" + "a," * 5000 + ":1"]
+    bad = ["A" + ";a=b,c" * 3000 + ',":x', "X" + ";" * 5000 + ":v", "N;" + 'a="' * 3000 + ":x", "TEL;" + "a," * 5000
+           + ":1"]
     start = time.perf_counter()
     for line in bad:
         assert one(f"BEGIN:VCARD\nVERSION:3.0\nFN:Kit Example\n{line}\nEND:VCARD\n").full_name == "Kit Example"
@@ -484,7 +493,8 @@ def test_round_trip_21_quoted_printable(fn, note, org, title, tags):
 
     lines = [f"{name};CHARSET=UTF-8;ENCODING=QUOTED-PRINTABLE:{qp_encode(esc21(value))}" for name, value in
              (("FN", fn), ("NOTE", note), ("ORG", org), ("TITLE", title), ("CATEGORIES", tags))]
-    data = ("BEGIN:VCARD\r\nVERSION:2.1\r\nEMAIL:rt@example.org\r\n" + "\r\n".join(lines) + "\r\nEND:VCARD\r\n").encode()
+    data = ("BEGIN:VCARD\r\nVERSION:2.1\r\nEMAIL:rt@example.org\r\n" + "\r\n".join(lines)
+            + "\r\nEND:VCARD\r\n").encode()
     rec = one(data)
     assert rec.full_name == fn
     assert rec.notes == expected_lists(note)
@@ -546,7 +556,8 @@ def test_rfc6350_section_7_2_creation_edit_merge(corpus_dir):
     (created,) = std(corpus_dir, "rfc6350-sec7.2.1-creation.vcf").records
     # RFC 6350 §7.2.1
     assert created.uid == "urn:uuid:4fbe8971-0bc3-424c-9c26-36c3e1eff6b1"
-    assert (created.full_name, created.family, created.given, created.emails) == ("J. Doe", "Doe", "J.", ["jdoe@example.com"])
+    assert (created.full_name, created.family, created.given,
+            created.emails) == ("J. Doe", "Doe", "J.", ["jdoe@example.com"])
     (added,) = std(corpus_dir, "rfc6350-sec7.2.3-add-property.vcf").records
     assert added.phones == ["+1-555-555-5555"]  # RFC 6350 §7.2.3: tel: URI, VALUE=uri
     a, b = std(corpus_dir, "rfc6350-sec7.2.4-simultaneous-edit.vcf").records
@@ -581,7 +592,8 @@ def test_rfc6350_section_6_property_examples(corpus_dir):
     (rec,) = result.records
     # RFC 6350 §6.2.1 FN with an escaped comma; §6.2.2 N; §6.2.3 NICKNAME "Jim,Jimmie" is two nicknames
     assert rec.full_name == "Mr. John Q. Public, Esq."
-    assert (rec.family, rec.given, rec.additional, rec.prefix, rec.suffix) == ("Public", "John", "Quinlan", "Mr.", "Esq.")
+    assert (rec.family, rec.given, rec.additional, rec.prefix,
+            rec.suffix) == ("Public", "John", "Quinlan", "Mr.", "Esq.")
     assert rec.nicknames == ["Robbie", "Jim", "Jimmie", "Boss"]
     # RFC 6350 §6.6.6 RELATED; the text value is folded at a space with one leading space, so it unfolds to "JaneDoe"
     assert [(r.value, r.types) for r in rec.related] == [
@@ -610,7 +622,8 @@ def test_rfc2426_section_7_authors(corpus_dir):
         "6544 Battleford Drive", "Raleigh", "NC", "27613-3502", "U.S.A.")
     assert frank.phones == ["+1-919-676-9515", "+1-919-676-9564"]
     assert frank.emails == ["Frank_Dawson@Lotus.com", "fdawson@earthlink.net"]
-    assert (tim.full_name, tim.orgs, tim.emails) == ("Tim Howes", ["Netscape Communications Corp."], ["howes@netscape.com"])
+    assert (tim.full_name, tim.orgs,
+            tim.emails) == ("Tim Howes", ["Netscape Communications Corp."], ["howes@netscape.com"])
     # RFC 2426 §7: the folded ADR gives the postal code " 94043" with its leading space, kept as written
     assert (tim.addresses[0].street, tim.addresses[0].postcode) == ("501 E. Middlefield Rd.", " 94043")
     assert tim.phones == ["+1-415-937-3419", "+1-415-528-4164"]
@@ -621,7 +634,8 @@ def test_rfc2426_sections_2_3_property_examples(corpus_dir):
     rec = result.records[0]
     # RFC 2426 §3.1.1 FN, §3.1.2 N, §3.1.3 NICKNAME
     assert rec.full_name == "Mr. John Q. Public, Esq."
-    assert (rec.family, rec.given, rec.additional, rec.prefix, rec.suffix) == ("Public", "John", "Quinlan", "Mr.", "Esq.")
+    assert (rec.family, rec.given, rec.additional, rec.prefix,
+            rec.suffix) == ("Public", "John", "Quinlan", "Mr.", "Esq.")
     assert rec.nicknames == ["Robbie", "Jim", "Jimmie"]
     # RFC 2426 §3.2.1 ADR folded with a double space: "123 Main" + " Street"
     assert rec.addresses[0].street == "123 Main Street" and rec.addresses[0].postcode == "91921-1234"

@@ -10,8 +10,8 @@ import pytest
 
 from mynet.cli import main
 from mynet.evidence.labels import judge_labels, usage_verdict, workflow_wording
-from mynet.model import Contact, Interaction
 from mynet.evidence.ties import TieModel, infer_ties
+from mynet.model import Contact, Interaction
 
 ME = "you@example.org"
 
@@ -164,8 +164,8 @@ def test_tags_command_lists_counts_and_keeps_decisions_across_reimport(tmp_path,
 
 def test_a_workflow_label_never_names_a_group(tmp_path):
     from mynet.analysis.snapshot import analyse
-    from mynet.workspace.importing import import_paths
     from mynet.store import Store
+    from mynet.workspace.importing import import_paths
 
     rows = ["Name,Email,Tags"] + [f"P{i} Q,p{i}@x{i}.example,follow up" for i in range(5)]
     (tmp_path / "p.csv").write_text("\n".join(rows) + "\n", encoding="utf-8")

@@ -12,17 +12,17 @@ from __future__ import annotations
 import json
 
 import pytest
-from mailfixtures import LIST, YOU, archive_mbox, list_mbox, message, post
+from mailfixtures import LIST, YOU, archive_mbox, list_mbox, message
 
 from mynet.cli import main
-from mynet.people.correspondence import address_facts, clean, correspondents, thread_members
-from mynet.sources.mbox import parse_mail
-from mynet.sources.mailaddr import KIND_WORDS, archive_parts, machine_kind, reverse_relay, via_name
-from mynet.evidence.network import load_network
 from mynet.evidence.explain import explain_tie
-from mynet.workspace.people import find_contact, set_me
-from mynet.workspace.importing import import_paths
+from mynet.evidence.network import load_network
+from mynet.people.correspondence import address_facts, clean, correspondents, thread_members
+from mynet.sources.mailaddr import KIND_WORDS, archive_parts, machine_kind, reverse_relay, via_name
+from mynet.sources.mbox import parse_mail
 from mynet.store import Store
+from mynet.workspace.importing import import_paths
+from mynet.workspace.people import find_contact, set_me
 
 
 def one(*headers: str):
@@ -152,7 +152,8 @@ def test_archive_copies_map_to_the_person_by_name_and_prefix(mail):
 
 def test_archive_copy_is_not_matched_by_name_alone():
     items = parse_mail(message("From: Ana Lind <al-Xk3pQ9Lm@archive.example>", "To: x@y.example").encode() +
-                       message("From: Ana Lind <ana@quillon.example>", "To: x@y.example").encode(), "a.mbox").interactions
+                       message("From: Ana Lind <ana@quillon.example>", "To: x@y.example").encode(),
+                       "a.mbox").interactions
     assert address_facts(items).aliases == {}  # "al" is not the local part of ana@quillon.example
 
 
@@ -324,8 +325,8 @@ def test_relay_and_archive_domains_are_no_employer_nor_group_name(tmp_path):
 
 
 def test_decisions_about_found_people_survive_removing_another_file_and_go_with_them(ws):
-    from mynet.workspace.privacy import forget_contact, remove_source
     from mynet.workspace.decisions import rate_contact
+    from mynet.workspace.privacy import forget_contact, remove_source
 
     store, tmp_path = ws
     ana = find_contact(store, "Ana Lind")
@@ -338,8 +339,8 @@ def test_decisions_about_found_people_survive_removing_another_file_and_go_with_
 
 
 def test_dropping_a_found_persons_only_address_does_not_spend_new_ids(ws):
-    from mynet.workspace.people import detach_address
     from mynet.people.refresh import refresh_contacts
+    from mynet.workspace.people import detach_address
 
     store, _ = ws
     bo = find_contact(store, "Bo Ek")

@@ -7,7 +7,6 @@ All messages are invented (reserved ``*.example`` domains). The Maildir layout
 
 from __future__ import annotations
 
-import json
 import sqlite3
 
 import pytest
@@ -19,8 +18,6 @@ from mynet.sources import iter_input_files, parse_file
 from mynet.sources.maildir import is_maildir, message_files
 from mynet.store import SCHEMA_VERSION, Store
 from mynet.workspace.importing import import_paths
-from mynet.store import Store
-from mynet.workspace.people import set_me
 
 
 def note(sender: tuple[str, str], to: tuple[str, str], mid: str, *, reply: str = "", day: int = 2) -> bytes:

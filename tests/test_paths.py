@@ -224,7 +224,8 @@ def test_targets_avoid_and_min_strength_match_brute_force(seed):
         for hops in (1, 2, 3):
             # reference: nx.all_simple_paths, interiors free of targets, avoided and weak steps dropped
             want = best_per_first(brute_paths(g, warm, targets, hops, avoid, ms))[:6]
-            got = find_paths(idx, targets, k=6, max_intermediaries=hops, avoid=avoid, min_strength=ms, distinct_second=False)
+            got = find_paths(idx, targets, k=6, max_intermediaries=hops, avoid=avoid, min_strength=ms,
+                             distinct_second=False)
             assert_same(got, want)
             for p in got:
                 check_path(p, idx, warm, max_int=hops, avoid=avoid, min_strength=ms)

@@ -55,7 +55,8 @@ def test_forget_leaves_no_trace_and_stays_forgotten(tmp_path, capsys):
     base = ["--workspace", str(ws)]
     run(capsys, *base, "me", "--email", "you@example.org")
     assert run(capsys, *base, "import", str(people), str(cal))[0] == 0
-    zeb = next(p for p in json.loads(run(capsys, *base, "contacts", "--json")[1]) if p["name"] == "Zebedee Quartermaine")
+    zeb = next(p for p in json.loads(run(capsys, *base, "contacts", "--json")[1])
+               if p["name"] == "Zebedee Quartermaine")
     run(capsys, *base, "rate", str(zeb["id"]), "0.8")
     run(capsys, *base, "tie", str(zeb["id"]), "Bo Ek", "--note", "met at Xylophonic gala")
     run(capsys, *base, "ties", "--json")  # fill the caches with derived data about him
@@ -79,7 +80,8 @@ def test_forget_leaves_no_trace_and_stays_forgotten(tmp_path, capsys):
 def test_remove_source_removes_what_only_it_supported(tmp_path, capsys):
     ws = tmp_path / "ws.sqlite"
     a = tmp_path / "a.csv"
-    a.write_text("Name,Email,Notes\nAna Lind,ana@x.example,\nOnly Inthisfile,only.inthisfile@x.example,Unique-Marker-Q\n",
+    a.write_text("Name,Email,Notes\nAna Lind,ana@x.example,\nOnly "
+                 "Inthisfile,only.inthisfile@x.example,Unique-Marker-Q\n",
                  encoding="utf-8")
     b = tmp_path / "b.csv"
     b.write_text("Name,Email\nAna Lind,ana@x.example\n", encoding="utf-8")

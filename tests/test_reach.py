@@ -18,11 +18,11 @@ import numpy as np
 import pytest
 from test_paths import greedy_distinct_second  # the documented distinct-second rule, by brute force
 
-from mynet.model import Contact
-from mynet.evidence.network import Network
 from mynet.analysis.intro_routes import WARM_ENOUGH, Targets, reach
+from mynet.evidence.network import Network
 from mynet.evidence.ties import KINDS, TieModel, TieTable
 from mynet.evidence.warmth import Warmth, WarmthModel
+from mynet.model import Contact
 
 YOU = -1
 
@@ -142,7 +142,8 @@ def test_cli_says_you_know_the_target_before_the_alternatives(tmp_path, capsys):
 
     people = tmp_path / "people.csv"
     people.write_text("Name,Email,Company\nAna Lind,ana@quillon.example,Quillon Labs\n"
-                      "Bo Ek,bo@quillon.example,Quillon Labs\nCy Moss,cy@quillon.example,Quillon Labs\n", encoding="utf-8")
+                      "Bo Ek,bo@quillon.example,Quillon Labs\nCy Moss,cy@quillon.example,Quillon Labs\n",
+                      encoding="utf-8")
     ws = str(tmp_path / "ws.sqlite")
     assert main(["--workspace", ws, "import", str(people)]) == 0
     assert main(["--workspace", ws, "rate", "Ana Lind", "0.9"]) == 0

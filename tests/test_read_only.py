@@ -19,13 +19,13 @@ from mynet.cli import main
 from mynet.errors import WorkspaceError
 from mynet.store import Store
 from mynet.workspace.importing import import_paths
-from mynet.store import Store
 
 ROOT_USER = hasattr(os, "geteuid") and os.geteuid() == 0
 
 CARDS = ("BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Ana Lind\r\nEMAIL:ana@quillon.example\r\nORG:Quillon Labs\r\nEND:VCARD\r\n"
          "BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Bo Ek\r\nEMAIL:bo@quillon.example\r\nORG:Quillon Labs\r\nEND:VCARD\r\n"
-         "BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Cy Moss\r\nEMAIL:cy@velvane.example\r\nORG:Velvane Robotics\r\nEND:VCARD\r\n")
+         "BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Cy Moss\r\nEMAIL:cy@velvane.example\r\nORG:Velvane Robotics\r\n"
+         "END:VCARD\r\n")
 
 
 def run(capsys, *args):
@@ -81,7 +81,8 @@ def test_no_journal_beside_the_file_falls_back_to_immutable(workspace, unwritabl
     # immutable=1 (no locking, no journal) then reads the file. The first URI is made to fail the same way.
     uris = store_module._read_only_uris
     monkeypatch.setattr(store_module, "_read_only_uris",
-                        lambda path: ["file:" + str(path.parent / "no-such-dir" / "x.sqlite") + "?mode=ro", uris(path)[1]])
+                        lambda path: ["file:" + str(path.parent / "no-such-dir" / "x.sqlite") + "?mode=ro",
+                                      uris(path)[1]])
     with Store(workspace, create=False) as store:
         assert store.read_only
         assert [c.name for c in store.contacts()] == ["Ana Lind", "Bo Ek", "Cy Moss"]

@@ -13,24 +13,24 @@ from pathlib import Path
 import click
 import networkx as nx
 import pytest
-from conftest import import_sample
 from click.testing import CliRunner
+from conftest import import_sample
 
-from mynet.workspace import Workspace
 from mynet.analysis.audit import audit
 from mynet.analysis.snapshot import analyse
 from mynet.cli.common import Ctx
 from mynet.cli.report import COMMANDS
 from mynet.errors import MynetError
-from mynet.report.export import export_network
 from mynet.evidence.network import load_network
 from mynet.people.normalise import normalise_org
 from mynet.report import RedactionError, check_redacted, collect, write_report
 from mynet.report.charts import clean_svg, group_style
+from mynet.report.export import export_network
 from mynet.report.layout import group_layout, place_discs
 from mynet.report.redact import Pseudonyms, find_leaks, redact_network
-from mynet.workspace.importing import import_paths
 from mynet.store import Store
+from mynet.workspace import Workspace
+from mynet.workspace.importing import import_paths
 
 TODAY = date(2026, 9, 1)
 XHTML = "{http://www.w3.org/1999/xhtml}"
@@ -193,7 +193,8 @@ def test_every_name_is_escaped_in_html_and_markdown(crafted, tmp_path):
     root = parse_html(out)  # still well-formed
     brokers = next(s for s in root.iter(XHTML + "section") if s.get("id") == "brokers")
     assert '<script>alert(1)</script> & "Bo"' in all_text(brokers)
-    md = write_report(Workspace.over(crafted), tmp_path / "r.md", markdown=True, today=TODAY).read_text(encoding="utf-8")
+    md = write_report(Workspace.over(crafted), tmp_path / "r.md", markdown=True,
+                      today=TODAY).read_text(encoding="utf-8")
     assert "<script" not in md and "<b>" not in md
     assert '&lt;script&gt;alert(1)&lt;/script&gt; &amp; "Bo"' in md
     tables = re.findall(r"(?m)(?:^\|.*\n)+", md)
@@ -362,7 +363,8 @@ def test_redacted_report_has_the_same_numbers(sample):
     store, _ = sample
     plain = collect(Workspace.over(store), today=TODAY)
     red = collect(Workspace.over(store), redact=True, today=TODAY)
-    assert [(g["id"], g["size"], g["warm"]) for g in plain.groups] == [(g["id"], g["size"], g["warm"]) for g in red.groups]
+    assert [(g["id"], g["size"], g["warm"])
+            for g in plain.groups] == [(g["id"], g["size"], g["warm"]) for g in red.groups]
     assert [f["id"] for f in plain.findings] == [f["id"] for f in red.findings]
     assert [b["id"] for b in plain.brokers] == [b["id"] for b in red.brokers]
 
@@ -421,7 +423,8 @@ def test_an_empty_workspace_still_gives_a_report(tmp_path):
     out = write_report(Workspace.over(store), tmp_path / "empty.html", today=TODAY)
     root = parse_html(out)
     assert "0 contacts" in all_text(root)
-    md = write_report(Workspace.over(store), tmp_path / "empty.md", markdown=True, today=TODAY).read_text(encoding="utf-8")
+    md = write_report(Workspace.over(store), tmp_path / "empty.md", markdown=True,
+                      today=TODAY).read_text(encoding="utf-8")
     assert "No dated meetings or messages imported yet." in md
     assert not (tmp_path / "empty_files" / "time.svg").exists()
 

@@ -7,13 +7,13 @@ from dataclasses import fields
 
 import pytest
 
-from mynet.workspace import settings
 from mynet.analysis.snapshot import AnalysisModel
 from mynet.cli import main
-from mynet.settings import SettingError, SettingsGroup, setting
 from mynet.evidence.ties import TieModel
 from mynet.evidence.warmth import WarmthModel
+from mynet.settings import SettingError, SettingsGroup, setting
 from mynet.store import Store
+from mynet.workspace import settings
 
 
 def run(capsys, *args):
@@ -30,7 +30,8 @@ def run(capsys, *args):
     ("warmth_model.half_life_days=nan", "warmth_model.half_life_days takes a number above 0; got 'nan'"),
     ("tie_model.broadcast_cap=ten", "tie_model.broadcast_cap takes a whole number at least 2; got 'ten'"),
     ("tie_model.min_strenght=0.1", "unknown setting 'tie_model.min_strenght'; did you mean tie_model.min_strength?"),
-    ("webmail_domains=not a domain", "webmail_domains takes mail domains such as mail.example; 'not a domain' is not one"),
+    ("webmail_domains=not a domain",
+     "webmail_domains takes mail domains such as mail.example; 'not a domain' is not one"),
     ("org_aliases=QL", "org_aliases: an alias is written ALIAS=NAME, got 'QL'"),
 ])
 def test_bad_values_are_refused_with_a_clear_message(capsys, tmp_path, assignment, message):
@@ -39,12 +40,14 @@ def test_bad_values_are_refused_with_a_clear_message(capsys, tmp_path, assignmen
     assert code == 2 and out == ""
     assert err.startswith(f"mynet: {message}") and "Traceback" not in err
     code, out, _ = run(capsys, "--workspace", ws, "settings", "--json")
-    assert json.loads(out) == json.loads(run(capsys, "--workspace", str(tmp_path / "fresh.sqlite"), "settings", "--json")[1])
+    assert json.loads(out) == json.loads(run(capsys, "--workspace", str(tmp_path / "fresh.sqlite"), "settings",
+                                             "--json")[1])
 
 
 def test_existing_names_still_work_and_are_typed(capsys, tmp_path):
     ws = str(tmp_path / "ws.sqlite")
-    for a in ("tie_model.broadcast_cap=40", "analysis.seed=7", "analysis.backend=IGraph", "warmth_model.half_life_days=90",
+    for a in ("tie_model.broadcast_cap=40", "analysis.seed=7", "analysis.backend=IGraph",
+              "warmth_model.half_life_days=90",
               "webmail_domains=mail.example", "webmail_domains=+@Post.Example", "org_aliases=QL=Quillon Labs",
               "org_aliases=+VR=Velvane Robotics"):
         assert run(capsys, "--workspace", ws, "settings", a)[0] == 0
@@ -91,7 +94,8 @@ def test_a_bad_stored_value_is_reported_not_a_traceback(capsys, tmp_path):
     store.close()
     code, out, err = run(capsys, "--workspace", str(ws), "groups")
     assert code == 2 and "Traceback" not in err
-    assert "the stored analysis.seed takes a whole number at least 0; got 2.7; change it with mynet settings analysis.seed=VALUE" in err
+    assert ("the stored analysis.seed takes a whole number at least 0; got 2.7; "
+            "change it with mynet settings analysis.seed=VALUE") in err
     assert run(capsys, "--workspace", str(ws), "settings", "analysis.seed=2")[0] == 0
     assert run(capsys, "--workspace", str(ws), "settings", "analysis.backend=auto")[0] == 0
     assert run(capsys, "--workspace", str(ws), "groups")[0] == 0

@@ -124,10 +124,12 @@ def test_audit_words_claim_a_small_world_only_when_the_whole_range_does():
     from mynet.analysis.audit import small_world_words
 
     base = {"sigma": 2.6, "ensemble": 20}
-    assert small_world_words(base | {"sigma_low": 1.2, "sigma_high": 3.5, "verdict": "small world"}).startswith("a small world")
+    assert small_world_words(base | {"sigma_low": 1.2, "sigma_high": 3.5,
+                                     "verdict": "small world"}).startswith("a small world")
     unclear = small_world_words(base | {"sigma_low": 0.6, "sigma_high": None, "verdict": "unclear"})
     assert unclear.startswith("too close to a random network") and "from 0.6 upwards over 20" in unclear
-    assert small_world_words(base | {"sigma_low": 0.3, "sigma_high": 0.9, "verdict": "not a small world"}).startswith("not a")
+    assert small_world_words(base | {"sigma_low": 0.3, "sigma_high": 0.9,
+                                     "verdict": "not a small world"}).startswith("not a")
 
 
 def test_small_world_of_a_random_graph_is_about_one():

@@ -10,7 +10,8 @@ TESTS = Path(__file__).resolve().parent
 
 
 def test_only_conftest_locates_the_corpus():
-    where = [p.name for p in sorted(TESTS.glob("*.py")) if re.search(r"""["']shared["']""", p.read_text(encoding="utf-8"))]
+    where = [p.name for p in sorted(TESTS.glob("*.py"))
+             if re.search(r"""["']shared["']""", p.read_text(encoding="utf-8"))]
     assert where == ["conftest.py"]
 
 

@@ -9,8 +9,8 @@ import numpy as np
 import pytest
 from networkx.algorithms import bipartite
 
-from mynet.model import Contact, Interaction
 from mynet.evidence.ties import TieModel, cooccurrence, disparity_filter, incidence, infer_ties
+from mynet.model import Contact, Interaction
 
 ME = {"you@example.org"}
 

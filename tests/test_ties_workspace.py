@@ -5,16 +5,16 @@ from __future__ import annotations
 import json
 
 import pytest
+from davis_ics import davis_email, davis_graph, davis_workspace
 from networkx.algorithms import bipartite
 
-from davis_ics import davis_email, davis_graph, davis_workspace
 from mynet.cli import main
-from mynet.evidence.network import load_network
 from mynet.evidence.explain import explain_tie
-from mynet.workspace.importing import import_paths
+from mynet.evidence.network import load_network
 from mynet.store import Store
-from mynet.workspace.people import set_me
 from mynet.workspace.decisions import add_tie, rate_contact, remove_tie
+from mynet.workspace.importing import import_paths
+from mynet.workspace.people import set_me
 
 
 def run(capsys, *args):
@@ -81,7 +81,8 @@ def test_tie_untie_rate_survive_reimport(tmp_path, capsys):
     add_tie(store, ana, bo, "rowed together", 0.7)
     rate_contact(store, tom, 0.9)
     # The file changes (a new person, an edited row) and is imported again.
-    people.write_text("Name,Email,Company\nAna Lind,ana@q.example,Quillon Labs\nTom Reyes,tom@q.example,Quillon Labs Ltd\n"
+    people.write_text("Name,Email,Company\nAna Lind,ana@q.example,Quillon Labs\nTom Reyes,tom@q.example,Quillon Labs "
+                      "Ltd\n"
                       "Bo Ek,bo@v.example,Velvane\nDee Olsen,dee@q.example,Quillon Labs\n", encoding="utf-8")
     import_paths(store, [people])
     net = load_network(store)

@@ -16,15 +16,16 @@ import pytest
 
 pytest.importorskip("textual")
 
+from conftest import import_sample  # noqa: E402
+
+from mynet.analysis.intro_routes import reach, resolve_targets  # noqa: E402
 from mynet.analysis.snapshot import analyse  # noqa: E402
 from mynet.evidence.network import load_network  # noqa: E402
-from mynet.analysis.intro_routes import reach, resolve_targets  # noqa: E402
+from mynet.store import Store  # noqa: E402
 from mynet.tui import create_app  # noqa: E402
 from mynet.tui.data import load_extras, load_snapshot  # noqa: E402
 from mynet.tui.rowlist import RowList  # noqa: E402
 from mynet.workspace.people import merge_suggestions, search_contacts  # noqa: E402
-from mynet.store import Store  # noqa: E402
-from conftest import import_sample  # noqa: E402
 
 #: The day after the scenario's last day (sample_contacts/_activity.py ends it on 2026-11-30).
 TODAY = date(2026, 12, 1)
@@ -159,7 +160,9 @@ def test_search_filters_like_the_core_search(workspace):
             # Tags and accents fold the same way as the core search.
             await pilot.press(*("backspace",) * 7, *"rowing")
             await pilot.pause()
-            assert {r.key for r in rows(app, "#people-list")} == {c.id for c in search_contacts(app.snapshot.contacts, "rowing")}
+            assert {r.key
+                    for r in rows(app,
+                                  "#people-list")} == {c.id for c in search_contacts(app.snapshot.contacts, "rowing")}
             # Enter goes to the list, Enter again opens the first person.
             first = rows(app, "#people-list")[0].key
             await pilot.press("enter", "enter")
@@ -226,7 +229,8 @@ def test_reach_shows_the_best_path_first(workspace):
             await pilot.press("enter")
             await settle(pilot)
             snap = app.snapshot
-            expected = reach(snap.net, resolve_targets(snap.net, org="Velvane Robotics"), k=5, groups=snap.analysis.group_of)
+            expected = reach(snap.net, resolve_targets(snap.net, org="Velvane Robotics"), k=5,
+                             groups=snap.analysis.group_of)
             shown = rows(app, "#reach-paths")
             assert len(shown) == len(expected.paths) > 0
             assert str(shown[0].values()[2]) == " → ".join(["you", *expected.paths[0]["names"]])
@@ -307,7 +311,8 @@ def test_connections_of_a_group(workspace):
             await pilot.press("c")
             await settle(pilot)
             keys = [r.key for r in rows(app, "#links-list")]
-            linked = {x["b"] if x["a"] == gid else x["a"] for x in app.snapshot.analysis.links if gid in (x["a"], x["b"])}
+            linked = {x["b"] if x["a"] == gid else x["a"] for x in app.snapshot.analysis.links
+                      if gid in (x["a"], x["b"])}
             assert {k[1] for k in keys if isinstance(k, tuple) and k[0] == "group"} == linked
             assert any(isinstance(k, tuple) and k[0] == "person" and len(k) == 3 for k in keys)  # bridges
             await pilot.press("enter")  # the most tied group opens
@@ -367,7 +372,7 @@ def test_help_lists_every_key(workspace):
             assert type(app.screen).__name__ == "HelpScreen"
             text = str(app.screen.query_one("#help-text").render())
             for _title, keys in help_sections(app):
-                for key, desc in keys:
+                for _key, desc in keys:
                     assert desc in text
             for word in ("Name group", "Merge", "Keep apart", "Set warmth", "Search", "Quit"):
                 assert word in text

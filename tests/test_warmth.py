@@ -7,8 +7,8 @@ from datetime import date
 
 import pytest
 
+from mynet.evidence.warmth import Warmth, WarmthModel, assign_tiers, compute_warmth, unlisted_people
 from mynet.model import Contact, Interaction
-from mynet.evidence.warmth import WarmthModel, assign_tiers, compute_warmth, unlisted_people, Warmth
 
 ME = {"you@example.org"}
 TODAY = date(2026, 11, 30)
@@ -31,7 +31,8 @@ def mail(k, sender, to, when):
 def test_recency_decay_with_half_life():
     model = WarmthModel(half_life_days=100, scale=1)
     w = compute_warmth([c(1), c(2)], [meet(0, ["p1@x.example"], "2026-11-30T12:00:00+00:00"),
-                                      meet(1, ["p2@x.example"], "2026-08-22T12:00:00+00:00")], ME, model=model, today=TODAY)
+                                      meet(1, ["p2@x.example"], "2026-08-22T12:00:00+00:00")], ME, model=model,
+                                      today=TODAY)
     # 100 days old -> counts half (exponential decay with a 100-day half-life).
     assert w[1].computed == pytest.approx(1 - math.exp(-1), rel=1e-3)
     assert w[2].computed == pytest.approx(1 - math.exp(-0.5), rel=2e-3)
@@ -51,8 +52,11 @@ def test_reciprocity_and_multiplexity():
     w = compute_warmth([c(1), c(2)], one_way + both, ME, today=TODAY)
     assert w[2].warmth > w[1].warmth > 0
     assert w[1].messages_to == 4 and w[2].messages_from == 2
-    multi = compute_warmth([c(3)], [meet(0, ["p3@x.example"], "2026-11-01"), mail(1, "p3@x.example", ["you@example.org"], "2026-11-01")], ME, today=TODAY)
-    single = compute_warmth([c(3)], [meet(0, ["p3@x.example"], "2026-11-01"), meet(1, ["p3@x.example"], "2026-11-01")], ME, today=TODAY)
+    multi = compute_warmth([c(3)],
+                           [meet(0, ["p3@x.example"], "2026-11-01"),
+                            mail(1, "p3@x.example", ["you@example.org"], "2026-11-01")], ME, today=TODAY)
+    single = compute_warmth([c(3)], [meet(0, ["p3@x.example"], "2026-11-01"), meet(1, ["p3@x.example"], "2026-11-01")],
+                            ME, today=TODAY)
     assert multi[3].channels == ["mail", "meeting"]
     assert multi[3].warmth > single[3].warmth
 
@@ -86,7 +90,8 @@ def test_tiers_follow_5_15_50_150():
 
 
 def test_unlisted_people_need_to_recur():
-    evs = [meet(k, ["stranger@else.example"], "2026-10-01") for k in range(3)] + [meet(9, ["once@else.example"], "2026-10-01")]
+    evs = [meet(k, ["stranger@else.example"], "2026-10-01")
+           for k in range(3)] + [meet(9, ["once@else.example"], "2026-10-01")]
     out = unlisted_people([c(1)], evs, ME, threshold=3)
     assert [e["email"] for e in out] == ["stranger@else.example"] and out[0]["count"] == 3
 

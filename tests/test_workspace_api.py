@@ -150,8 +150,10 @@ def test_settings_are_typed(tmp_path):
 
 
 def test_decisions_through_the_object(tmp_path):
-    card = ("BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Ana Lind\r\nORG:Quillon Labs\r\nEMAIL:ana@quillon.example\r\nEND:VCARD\r\n"
-            "BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Tom Reyes\r\nORG:Quillon Labs\r\nEMAIL:tom@quillon.example\r\nEND:VCARD\r\n"
+    card = ("BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Ana Lind\r\nORG:Quillon "
+            "Labs\r\nEMAIL:ana@quillon.example\r\nEND:VCARD\r\n"
+            "BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Tom Reyes\r\nORG:Quillon "
+            "Labs\r\nEMAIL:tom@quillon.example\r\nEND:VCARD\r\n"
             "BEGIN:VCARD\r\nVERSION:3.0\r\nFN:Bo Ek\r\nEMAIL:bo@velvane.example\r\nEND:VCARD\r\n")
     (tmp_path / "a.vcf").write_text(card, encoding="utf-8")
     with mynet.open_workspace(tmp_path / "ws.sqlite") as ws:

@@ -159,7 +159,8 @@ def audit(net: Network, analysis: Analysis, *, today: date | None = None) -> lis
     if cold:
         findings.append(_finding(
             "cold-groups", f"{len(cold)} group{'s' if len(cold) != 1 else ''} where you have no warm contact",
-            "; ".join(f"{g.name}: {g.size} people" for g in cold[:6]) + (f"; and {len(cold) - 6} more" if len(cold) > 6 else ""),
+            "; ".join(f"{g.name}: {g.size} people" for g in cold[:6])
+            + (f"; and {len(cold) - 6} more" if len(cold) > 6 else ""),
             {"groups": [g.id for g in cold], "people": sum(g.size for g in cold)},
             "Pick one person in each whom you know a little and get back in touch; mynet reach shows who can "
             "introduce you.",
@@ -176,7 +177,8 @@ def audit(net: Network, analysis: Analysis, *, today: date | None = None) -> lis
     if dormant:
         dormant.sort()
         findings.append(_finding(
-            "dormant", f"{len(dormant)} once-active tie{'s' if len(dormant) != 1 else ''} gone quiet for over {int(limit)} days",
+            "dormant",
+            f"{len(dormant)} once-active tie{'s' if len(dormant) != 1 else ''} gone quiet for over {int(limit)} days",
             "; ".join(f"{net.name(c)} (last {last}, {n} interactions)" for last, c, n in dormant[:6])
             + (f"; and {len(dormant) - 6} more" if len(dormant) > 6 else ""),
             {"count": len(dormant), "days": limit, "people": [c for _l, c, _n in dormant]},
@@ -190,7 +192,9 @@ def audit(net: Network, analysis: Analysis, *, today: date | None = None) -> lis
     if broker["size"]:
         con = broker["constraint"]
         findings.append(_finding(
-            "brokerage", f"Your constraint is {con:.2f}; {broker['effective_size']:.0f} of the {broker['size']} people you are in touch with are non-redundant",
+            "brokerage",
+            f"Your constraint is {con:.2f}; {broker['effective_size']:.0f} of the {broker['size']} people you are in "
+            f"touch with are non-redundant",
             "Constraint measures how much your contacts are tied to each other (1: one closed circle; low: you "
             "span structural holes). Effective size counts your non-redundant contacts (Burt 1992).",
             {k: round(v, 4) if isinstance(v, float) else v for k, v in broker.items()},
@@ -203,8 +207,10 @@ def audit(net: Network, analysis: Analysis, *, today: date | None = None) -> lis
     spof = [a for a in analysis.access if a.get("groups")]
     if spof:
         findings.append(_finding(
-            "single-access", f"{len(spof)} {'people alone connect' if len(spof) != 1 else 'person alone connects'} you to a group",
-            "; ".join(f"{net.name(a['person'])} -> {', '.join(name.get(g, str(g)) for g in a['groups'])}" for a in spof[:6]),
+            "single-access",
+            f"{len(spof)} {'people alone connect' if len(spof) != 1 else 'person alone connects'} you to a group",
+            "; ".join(f"{net.name(a['person'])} -> {', '.join(name.get(g, str(g)) for g in a['groups'])}"
+                      for a in spof[:6]),
             {"people": [a["person"] for a in spof], "groups": sorted({g for a in spof for g in a["groups"]})},
             "Without them those groups are out of reach: get to know a second person there.",
             min(1.0, 0.35 + 0.1 * len(spof)),
@@ -225,7 +231,8 @@ def audit(net: Network, analysis: Analysis, *, today: date | None = None) -> lis
     s = analysis.summary
     sw = s.get("small_world", {}) or {}
     findings.append(_finding(
-        "shape", f"{s.get('nodes', 0)} contacts, {s.get('ties', 0)} ties, {len(groups)} groups (modularity {analysis.modularity:.2f})",
+        "shape", f"{s.get('nodes', 0)} contacts, {s.get('ties', 0)} ties, {len(groups)} groups (modularity "
+        f"{analysis.modularity:.2f})",
         f"density {s.get('density', 0):.3f}; {s.get('components', 0)} components, the largest with "
         f"{s.get('largest_component', 0)}; clustering {s.get('average_clustering', 0):.2f} against "
         f"{(sw.get('C_random') or 0):.2f} for a random network of the same size, average path "
@@ -233,7 +240,8 @@ def audit(net: Network, analysis: Analysis, *, today: date | None = None) -> lis
         f"{small_world_words(sw)}; E-I index {s.get('ei_index', 0) or 0:.2f} "
         "(-1: all ties inside groups; Krackhardt & Stern 1988).",
         {k: s.get(k) for k in ("nodes", "ties", "density", "components", "largest_component", "average_clustering",
-                               "average_path_length", "ei_index")} | {"sigma": sw.get("sigma"), "sigma_low": sw.get("sigma_low"),
+                               "average_path_length",
+                               "ei_index")} | {"sigma": sw.get("sigma"), "sigma_low": sw.get("sigma_low"),
                                                                        "sigma_high": sw.get("sigma_high"),
                                                                        "small_world": sw.get("verdict"),
                                                                        "modularity": analysis.modularity,

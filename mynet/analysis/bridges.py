@@ -31,7 +31,7 @@ from typing import Any
 import networkx as nx
 import numpy as np
 
-from .bridges_sparse import adjacency_matrix, common_neighbours, paths3_rows, bridge_spans
+from .bridges_sparse import adjacency_matrix, bridge_spans, common_neighbours, paths3_rows
 from .groups import edge_arrays, sorted_nodes
 
 __all__ = [

@@ -145,7 +145,8 @@ def _two_step_meets(A: sp.csr_matrix, u: np.ndarray, v: np.ndarray) -> np.ndarra
     return out
 
 
-def bridge_spans(G: nx.Graph, A: sp.csr_matrix, nodes: list, lo: np.ndarray, hi: np.ndarray, paths3: np.ndarray) -> np.ndarray:
+def bridge_spans(G: nx.Graph, A: sp.csr_matrix, nodes: list, lo: np.ndarray, hi: np.ndarray,
+                 paths3: np.ndarray) -> np.ndarray:
     """Span of each given tie without common neighbours.
 
     3 when a 3-hop path exists (``paths3 > 0``), 4 when the 2-hop balls of

@@ -22,18 +22,18 @@ import math
 from collections.abc import Hashable, Mapping
 from typing import Any
 
-import networkx as nx
 import numpy as np
 import scipy.sparse as sp
 from scipy.sparse.csgraph import dijkstra
 
-from .sparse_graph import Prepared, degree_arrays, from_arrays, prepare_graph  # noqa: F401  (re-exported)
 from .estimate import adaptive_pivots
-from .spectral import eigenvector_values, pagerank_values, eigenvector_centrality, pagerank  # noqa: F401  (re-exported)
+from .sparse_graph import Prepared, degree_arrays, from_arrays, prepare_graph  # noqa: F401  (re-exported)
+from .spectral import eigenvector_centrality, eigenvector_values, pagerank, pagerank_values  # noqa: F401  (re-exported)
 
 __all__ = [
     "ROLES", "ROLE_THRESHOLDS", "betweenness", "clustering", "constraint", "contact_measures", "contact_role",
-    "degree_strength", "effective_size", "eigenvector_centrality", "harmonic_closeness", "pagerank", "participation_coefficient",
+    "degree_strength", "effective_size", "eigenvector_centrality", "harmonic_closeness", "pagerank",
+    "participation_coefficient",
     "structural_holes", "within_module_degree",
 ]
 
@@ -288,7 +288,8 @@ def _structural_holes(prep: Prepared, budget: int = _BLOCK_BUDGET) -> tuple[np.n
     return cons, eff
 
 
-def structural_holes(G, weight: str | None = "weight", *, block_budget: int = _BLOCK_BUDGET) -> tuple[dict[Any, float], dict[Any, float]]:
+def structural_holes(G, weight: str | None = "weight", *,
+                     block_budget: int = _BLOCK_BUDGET) -> tuple[dict[Any, float], dict[Any, float]]:
     """Burt's constraint and effective size of every node, vectorised with scipy.sparse.
 
     With p_vw = w_vw / sum_x w_vx (share of v's tie strength spent on w) and
@@ -448,7 +449,8 @@ def within_module_degree(G, groups: Mapping | None, weight: str | None = None) -
     return dict(zip(prep.nodes, _within_z(_module_degrees(prep, labels, weight is not None), labels).tolist()))
 
 
-def contact_role(m: Mapping[str, float], *, broker_betweenness: float, broker_constraint: float, grouped: bool = True) -> str:
+def contact_role(m: Mapping[str, float], *, broker_betweenness: float, broker_constraint: float,
+                 grouped: bool = True) -> str:
     """Name a contact's role in plain words from its measures.
 
     Rules, first match wins (thresholds in :data:`ROLE_THRESHOLDS`):
@@ -499,7 +501,8 @@ def contact_role(m: Mapping[str, float], *, broker_betweenness: float, broker_co
     return "member"
 
 
-def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: int = EXACT_LIMIT, samples: int = SAMPLES) -> tuple[dict[Any, dict], dict[str, Any]]:
+def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: int = EXACT_LIMIT,
+                     samples: int = SAMPLES) -> tuple[dict[Any, dict], dict[str, Any]]:
     """Every per-contact measure in one pass over a shared sparse representation.
 
     Per node: ``degree``, ``strength`` (sum of tie strengths), ``betweenness``

@@ -111,7 +111,8 @@ def expected_agreement(rounds: np.ndarray, used: int, n: int, top_share: float =
     return float(max(0.0, 1.0 - p.sum() / (2 * top)))
 
 
-def adaptive_pivots(estimate, labels: np.ndarray, seed, most: int, *, first: int = FIRST, target: float = TARGET_AGREEMENT,
+def adaptive_pivots(estimate, labels: np.ndarray, seed, most: int, *, first: int = FIRST,
+                    target: float = TARGET_AGREEMENT,
                     exact_share: float = EXACT_SHARE, round_size: int = ROUND):
     """Run ``estimate(pivots)`` over rounds of stratified pivots until the expected agreement is reached.
 

@@ -15,8 +15,8 @@ from typing import Any
 import numpy as np
 
 from ..errors import MynetError, NotFoundError
-from ..evidence.network import Network
 from ..evidence.explain import basis, describe, evidence_summary
+from ..evidence.network import Network
 from ..people.normalise import email_domain, fold_text, normalise_org
 from .intro_search import IntroPath, PathIndex, best_per_target, direct_route, find_paths
 
@@ -113,7 +113,8 @@ def resolve_targets(
         members = [c.id for c in net.contacts if {fold_text(t) for t in c.tags} & set(keys)]
         return Targets("tag", query, members, [cat[k] for k in keys])
     dom = query.strip().lstrip("@").lower()
-    members = [c.id for c in net.contacts if any(email_domain(e) == dom or email_domain(e).endswith("." + dom) for e in c.emails)]
+    members = [c.id for c in net.contacts
+               if any(email_domain(e) == dom or email_domain(e).endswith("." + dom) for e in c.emails)]
     if not members:
         raise NotFoundError(f"no contact has an e-mail address at {dom}")
     return Targets("domain", query, members, [dom])
@@ -210,7 +211,8 @@ def _ask(net: Network, p: IntroPath, whys: list[str], bases: list[str]) -> str:
     first = net.name(p.nodes[0])
     target = net.name(p.target)
     if len(p.nodes) == 2:
-        return f"Ask {first} whether they would introduce you to {target} ({reason(1) if whys[1] else 'they are linked'})."
+        why = reason(1) if whys[1] else "they are linked"
+        return f"Ask {first} whether they would introduce you to {target} ({why})."
     second = net.name(p.nodes[1])
     return (f"Ask {first} to put you in touch with {second} ({reason(1)}), "
             f"who may introduce you to {target} ({reason(len(whys) - 1)}).")
@@ -233,13 +235,15 @@ def _describe_path(net: Network, p: IntroPath, groups: dict[int, Any] | None) ->
         step["strength"] = round(float(step["strength"]), 4)
     d["names"] = [net.name(n) for n in p.nodes]
     weakest = d["steps"][p.weakest_step]
-    d["weakest_step"] = {"index": p.weakest_step, "from": weakest["from"], "to": weakest["to"], "strength": weakest["strength"]}
+    d["weakest_step"] = {"index": p.weakest_step, "from": weakest["from"], "to": weakest["to"],
+                         "strength": weakest["strength"]}
     d["ask"] = _ask(net, p, whys, bases)
     if groups:
         chain = [None, *p.nodes]
         crossings = [i for i in range(1, len(chain) - 1) if groups.get(chain[i]) is not None
                      and groups.get(chain[i + 1]) is not None and groups.get(chain[i]) != groups.get(chain[i + 1])]
-        d["crosses_groups"] = [{"step": i, "from_group": groups.get(chain[i]), "to_group": groups.get(chain[i + 1])} for i in crossings]
+        d["crosses_groups"] = [{"step": i, "from_group": groups.get(chain[i]), "to_group": groups.get(chain[i + 1])}
+                               for i in crossings]
     return d
 
 

@@ -175,7 +175,8 @@ class PathIndex:
         ``dst`` and ``strength`` of different lengths.
     """
 
-    def __init__(self, ids: Iterable[int], src: Iterable[int], dst: Iterable[int], strength: Iterable[float], warmth: Mapping[int, float]):
+    def __init__(self, ids: Iterable[int], src: Iterable[int], dst: Iterable[int], strength: Iterable[float],
+                 warmth: Mapping[int, float]):
         src = _as_array(src, np.int64)
         dst = _as_array(dst, np.int64)
         w = _as_array(strength, np.float64)
@@ -287,7 +288,8 @@ def direct_route(index: PathIndex, target: int) -> float | None:
 class _Search:
     """The result of one search from a target set: best continuation per node."""
 
-    def __init__(self, index: PathIndex, targets: np.ndarray, node_ok: np.ndarray, edge_ok: np.ndarray, hops: int | None):
+    def __init__(self, index: PathIndex, targets: np.ndarray, node_ok: np.ndarray, edge_ok: np.ndarray,
+                 hops: int | None):
         # node_ok: who may lie on a continuation (after the first intermediary), targets aside.
         self.index = index
         self.is_target = np.zeros(index.n, dtype=bool)
@@ -393,7 +395,8 @@ def _rows_of(index: PathIndex, contacts: Iterable[int]) -> list[int]:
     return [p for p in (index.pos(c) for c in contacts) if p is not None]
 
 
-def _prepare(index: PathIndex, targets: Iterable[int], avoid: Iterable[int], min_strength: float, first_only: Iterable[int] = ()):
+def _prepare(index: PathIndex, targets: Iterable[int], avoid: Iterable[int], min_strength: float,
+             first_only: Iterable[int] = ()):
     """Target rows, who may be on a path at all, who may be beyond its first step, usable ties."""
     node_ok = np.ones(index.n, dtype=bool)
     node_ok[_rows_of(index, avoid)] = False

@@ -17,8 +17,8 @@ from typing import Any, Mapping
 import networkx as nx
 import numpy as np
 
-from ..people.mailpeople import not_employer_domains
 from ..evidence.network import Network, load_network
+from ..people.mailpeople import not_employer_domains
 from ..people.normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
 from ..settings import SettingsGroup, setting
 from ..store import Store
@@ -27,7 +27,8 @@ from .centrality import EXACT_LIMIT, SAMPLES, contact_measures
 from .groups import detect_groups, match_groups, suggest_label
 from .structure import network_summary
 
-__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest", "load_analysis", "contact_attrs",
+__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest",
+           "load_analysis", "contact_attrs",
            "apply_user_decisions", "compute_analysis", "cache_key"]
 
 CACHE_KEY = "analysis:v1"
@@ -106,7 +107,8 @@ def tie_graph(net: Network) -> nx.Graph:
     return G
 
 
-def contact_attrs(net: Network, extra_webmail: frozenset[str] | set[str] = frozenset()) -> dict[str, dict[int, list[str]]]:
+def contact_attrs(net: Network,
+                  extra_webmail: frozenset[str] | set[str] = frozenset()) -> dict[str, dict[int, list[str]]]:
     """Per contact: organisations (current and past), tags, work mail domains, places."""
     extra = set(extra_webmail)
     orgs, tags, domains, places = {}, {}, {}, {}
@@ -115,7 +117,9 @@ def contact_attrs(net: Network, extra_webmail: frozenset[str] | set[str] = froze
         orgs[c.id] = [o for o in c.orgs + c.past_orgs if is_real_org(normalise_org(o))]
         # only labels that count as evidence name a group (never "follow up" or "VIP")
         tags[c.id] = [t for t in c.tags if labels.get(fold_text(t), {}).get("counts", True)]
-        domains[c.id] = sorted({email_domain(e) for e in c.emails} - {""} - {d for d in map(email_domain, c.emails) if is_webmail(d, extra)})
+        domains[c.id] = sorted({email_domain(e)
+                                for e in c.emails} - {""} - {d for d in map(email_domain, c.emails)
+                                                             if is_webmail(d, extra)})
         places[c.id] = list(c.localities)
     return {"organisation": orgs, "tag": tags, "domain": domains, "place": places}
 
@@ -130,7 +134,8 @@ def cache_inputs(store: Store, net: Network, model: AnalysisModel) -> dict[str, 
     return {
         "ties": (t.a, t.b, np.round(t.strength, 9)),
         "settings": asdict(model),
-        "contacts": [[c.id, c.orgs, c.past_orgs, c.tags, c.emails, c.localities] for c in sorted(net.contacts, key=lambda c: c.id)],
+        "contacts": [[c.id, c.orgs, c.past_orgs, c.tags, c.emails, c.localities]
+                     for c in sorted(net.contacts, key=lambda c: c.id)],
         # Webmail, relay and archive domains say nothing of a group (they never name one).
         "webmail": sorted(not_employer_domains(store)),
         # Labels that do not count as evidence never name a group.
@@ -175,7 +180,8 @@ def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: M
     mapping, events = match_groups(previous, gr.as_sets(), next_id=int(state.get("next_id", 1)))
     groups = {mapping[g]: sorted(m) for g, m in gr.groups.items()}
     group_of = {int(v): (mapping[g] if g is not None else None) for v, g in gr.membership.items()}
-    measures, info = contact_measures(G, group_of, seed=model.seed, exact_limit=model.exact_limit, samples=model.samples)
+    measures, info = contact_measures(G, group_of, seed=model.seed, exact_limit=model.exact_limit,
+                                      samples=model.samples)
     measures = {int(k): {mk: (None if isinstance(mv, float) and not np.isfinite(mv) else mv) for mk, mv in m.items()}
                 for k, m in measures.items()}
     sets = {g: set(m) for g, m in groups.items()}
@@ -185,7 +191,8 @@ def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: M
         label, share = suggest_label(groups[gid], attrs)
         infos.append(GroupInfo(gid, label, label, round(float(share), 4), False, len(groups[gid]), groups[gid]))
     links = [dict(v, a=int(g), b=int(h)) for (g, h), v in sorted(group_links(G, sets).items())]
-    links = [{k: (sorted(map(int, v)) if isinstance(v, (set, frozenset)) else v) for k, v in link.items()} for link in links]
+    links = [{k: (sorted(map(int, v)) if isinstance(v, (set, frozenset)) else v) for k, v in link.items()}
+             for link in links]
     bridges = group_bridges(G, sets, limit=200)
     observed = net.ties.observed()
     row = {(int(x), int(y)): i for i, (x, y) in enumerate(zip(net.ties.a, net.ties.b))}

@@ -54,7 +54,8 @@ def prepare_graph(G, weight: str | None = "weight") -> Prepared:
         src.append(min(i, j))
         dst.append(max(i, j))
         w.append(1.0 if weight is None else float(d.get(weight, 1.0)))
-    return from_arrays(nodes, np.asarray(src, dtype=np.int64), np.asarray(dst, dtype=np.int64), np.asarray(w, dtype=float))
+    return from_arrays(nodes, np.asarray(src, dtype=np.int64), np.asarray(dst, dtype=np.int64),
+                       np.asarray(w, dtype=float))
 
 
 def from_arrays(nodes: list, src_a: np.ndarray, dst_a: np.ndarray, w_a: np.ndarray) -> Prepared:

@@ -14,7 +14,7 @@ import scipy.sparse as sp
 from scipy.sparse.csgraph import connected_components
 from scipy.sparse.linalg import eigsh
 
-from .sparse_graph import degree_arrays, prepare_graph, Prepared
+from .sparse_graph import Prepared, degree_arrays, prepare_graph
 
 __all__ = ["eigenvector_centrality", "pagerank"]
 
@@ -102,7 +102,8 @@ def pagerank_values(prep: Prepared, alpha: float, tol: float, max_iter: int) -> 
     raise nx.PowerIterationFailedConvergence(max_iter)
 
 
-def pagerank(G, alpha: float = 0.85, weight: str | None = "weight", *, tol: float = 1e-10, max_iter: int = 1000) -> dict[Any, float]:
+def pagerank(G, alpha: float = 0.85, weight: str | None = "weight", *, tol: float = 1e-10,
+             max_iter: int = 1000) -> dict[Any, float]:
     """Weighted PageRank by power iteration (same model as ``nx.pagerank``).
 
     A walker follows a tie with probability proportional to its strength and

@@ -16,7 +16,7 @@ import numpy as np
 import scipy.sparse as sp
 from scipy.sparse.csgraph import connected_components, shortest_path
 
-from .centrality import clustering_values, from_arrays, prepare_graph, Prepared
+from .centrality import Prepared, clustering_values, from_arrays, prepare_graph
 
 __all__ = [
     "attribute_assortativity",
@@ -53,7 +53,8 @@ def _path_length(prep: Prepared, path_samples: int, seed) -> tuple[float, bool, 
     A = prep.W[keep][:, keep]
     A = sp.csr_array((np.ones(A.nnz), A.indices, A.indptr), shape=A.shape)
     sampled = m > path_samples
-    sources = np.sort(np.random.default_rng(seed).choice(m, size=path_samples, replace=False)) if sampled else np.arange(m)
+    sources = np.sort(np.random.default_rng(seed).choice(m, size=path_samples,
+                                                         replace=False)) if sampled else np.arange(m)
     total = 0.0
     for start in range(0, len(sources), 256):  # bounded memory: 256 rows of distances at a time
         d = shortest_path(A, directed=True, unweighted=True, indices=sources[start:start + 256])  # A is symmetric
@@ -115,7 +116,8 @@ ENSEMBLE = 20
 RANDOM_PATH_SOURCES = 100
 
 
-def _small_world(prep: Prepared, seed, path_samples: int, L: float | None = None, ensemble: int = ENSEMBLE) -> dict[str, Any]:
+def _small_world(prep: Prepared, seed, path_samples: int, L: float | None = None,
+                 ensemble: int = ENSEMBLE) -> dict[str, Any]:
     n, m = prep.n, len(prep.src)
     C = float(clustering_values(prep).mean()) if n else 0.0
     if L is None:
@@ -132,7 +134,10 @@ def _small_world(prep: Prepared, seed, path_samples: int, L: float | None = None
     # One sigma per random graph: the spread of the comparison. A graph without triangles gives +inf.
     with np.errstate(divide="ignore", invalid="ignore"):
         each = np.where(Cs_a > 0, (C / Cs_a) / (L / Ls_a), np.inf) if L > 0 and C > 0 else np.full(len(Cs), math.nan)
-    low, high = (float(np.min(each)), float(np.max(each))) if np.all(np.isfinite(each) | np.isinf(each)) and len(each) else (math.nan, math.nan)
+    if np.all(np.isfinite(each) | np.isinf(each)) and len(each):
+        low, high = float(np.min(each)), float(np.max(each))
+    else:
+        low, high = math.nan, math.nan
     if L <= 0 or C <= 0:
         low = high = math.nan
     # What a random network itself scores against the rest of the ensemble (leave one out): the
@@ -386,7 +391,8 @@ def network_ei_index(G, groups: Mapping, weight: str | None = None) -> float:
     return _ei(e, i)
 
 
-def network_summary(G, groups: Mapping | None = None, attrs: Mapping[str, Mapping] | None = None, *, seed=0, path_samples: int = 500) -> dict[str, Any]:
+def network_summary(G, groups: Mapping | None = None, attrs: Mapping[str, Mapping] | None = None, *, seed=0,
+                    path_samples: int = 500) -> dict[str, Any]:
     """The shape of the whole network in one dict.
 
     Keys: ``nodes``, ``ties``, ``density``, ``components``,

@@ -20,7 +20,8 @@ from .sources import region_words
 def sample_dir() -> Path:
     """The bundled sample_contacts folder (installed package data, else the source tree)."""
     here = Path(__file__).resolve()
-    for cand in (here.parents[1] / "sample_contacts", here.parents[2] / "sample_contacts", Path.cwd() / "sample_contacts"):
+    for cand in (here.parents[1] / "sample_contacts", here.parents[2] / "sample_contacts",
+                 Path.cwd() / "sample_contacts"):
         if (cand / "ground_truth.json").is_file():
             return cand
     raise MynetError("the sample_contacts folder is missing from this installation")

@@ -7,8 +7,7 @@ import click
 from ..errors import NotFoundError
 from ..people.identity import names_compatible
 from ..workspace.results import SORTS, contact_fields
-from .common import (as_of_option, clip, confirm_or_refuse, echo, emit_json, json_option, note, plural, table,
-                     when)
+from .common import as_of_option, clip, confirm_or_refuse, echo, emit_json, json_option, note, plural, table, when
 from .sources import region_words
 
 

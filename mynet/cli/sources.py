@@ -74,7 +74,8 @@ def print_totals(report: ImportReport) -> None:
 @click.argument("paths", nargs=-1, required=True, type=click.Path())
 @click.option("--strict", is_flag=True, help="Stop at the first malformed record instead of skipping it.")
 @click.option("--map", "maps", multiple=True, metavar="FIELD=COLUMN", help="CSV: read FIELD from COLUMN.")
-@click.option("--mapping-file", type=click.Path(exists=True, dir_okay=False), help="CSV: a file of FIELD = COLUMN lines.")
+@click.option("--mapping-file", type=click.Path(exists=True, dir_okay=False),
+              help="CSV: a file of FIELD = COLUMN lines.")
 @click.option("--region", metavar="CC", help="Country for phone numbers written without one (e.g. GB, US).")
 @click.option("--as-of", "as_of", metavar="YYYY-MM-DD",
               help="When these files were current (older ones give past employers).")

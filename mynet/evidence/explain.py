@@ -76,9 +76,11 @@ def evidence_summary(net: Network, i: int, table: TieTable | None = None) -> lis
                 ev["units"] = units
             out.append(ev)
     if t.counts["meeting"][i]:
-        out.append({"kind": "meeting", "count": int(t.counts["meeting"][i]), "weight": round(float(t.parts["meeting"][i]), 4)})
+        out.append({"kind": "meeting", "count": int(t.counts["meeting"][i]),
+                    "weight": round(float(t.parts["meeting"][i]), 4)})
     if t.counts["thread"][i]:
-        out.append({"kind": "thread", "count": int(t.counts["thread"][i]), "weight": round(float(t.parts["thread"][i]), 4)})
+        out.append({"kind": "thread", "count": int(t.counts["thread"][i]),
+                    "weight": round(float(t.parts["thread"][i]), 4)})
     if t.parts["domain"][i] > 0:
         doms = sorted({email_domain(e) for e in a.emails} & {email_domain(e) for e in b.emails})
         for d in doms:
@@ -229,7 +231,8 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
     ta = {fold_text(x): x for x in a.tags}
     for key in sorted(set(ta) & {fold_text(x) for x in b.tags}):
         verdict = net.labels.get(key)
-        ev = {"kind": "tag", "tag": ta[key], "provenance": sorted(set(said[(a_id, "tag", key)] + said[(b_id, "tag", key)]))}
+        ev = {"kind": "tag", "tag": ta[key],
+              "provenance": sorted(set(said[(a_id, "tag", key)] + said[(b_id, "tag", key)]))}
         if verdict is not None and not verdict.get("counts", True):
             ev |= {"counted": False, "why_not": verdict.get("reason", "")}
         evidence.append(ev)

@@ -200,7 +200,8 @@ def judge_labels(
         elif n >= 20 and uses > share_cap * n:
             v = LabelVerdict(label, key, uses, False, f"too common: {uses / n:.0%} of your contacts carry it", "common")
         elif workflow_wording(label):
-            v = LabelVerdict(label, key, uses, False, "reads like a note of your own (a to-do, a ranking, where you met)",
+            v = LabelVerdict(label, key, uses, False,
+                             "reads like a note of your own (a to-do, a ranking, where you met)",
                              "wording")
         else:
             judged = usage_verdict(rows, orgs, seen, int(internal.get(key, 0)))
@@ -209,7 +210,8 @@ def judge_labels(
             elif uses < 2:
                 v = LabelVerdict(label, key, uses, True, "only one person carries it so far", "few")
             else:
-                v = LabelVerdict(label, key, uses, True, judged[1] if judged else "nothing marks it as a note of your own",
+                v = LabelVerdict(label, key, uses, True, judged[1] if judged
+                                 else "nothing marks it as a note of your own",
                                  "circle")
         out[key] = v
     return out

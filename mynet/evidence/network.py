@@ -14,12 +14,11 @@ from typing import Any
 
 import numpy as np
 
-
 from ..errors import MynetError
 from ..model import Contact, Interaction
+from ..people.mailpeople import evidence_interactions, me_emails, not_employer_domains
 from ..people.normalise import normalise_email, normalise_name
 from ..store import Store
-from ..people.mailpeople import evidence_interactions, me_emails, not_employer_domains
 from .ties import TieModel, TieTable, disparity_filter, infer_ties
 from .warmth import Warmth, WarmthModel, compute_warmth
 
@@ -76,7 +75,8 @@ def resolve_as_of(store: Store, as_of: date | str | None = None, *, today: date 
                 raise MynetError(f"an as-of date is written YYYY-MM-DD, got {as_of!r}") from exc
         return AsOf(as_of, newest is not None and newest > as_of, "", True)
     if newest is not None and (today - newest).days > STALE_DAYS:
-        return AsOf(newest, False, f"Your newest meeting or message is from {newest.isoformat()}, more than a year ago: "
+        return AsOf(newest, False,
+                    f"Your newest meeting or message is from {newest.isoformat()}, more than a year ago: "
                                    "warmth is measured at that date (--as-of DATE to choose another).")
     return AsOf(today)
 

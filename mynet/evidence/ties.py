@@ -51,20 +51,20 @@ from __future__ import annotations
 
 import math
 from collections import defaultdict
-from itertools import chain
 from dataclasses import asdict, dataclass, field
+from itertools import chain
 from typing import Any, Iterable, Mapping, Sequence
 
 import numpy as np
 import pandas as pd
 import scipy.sparse as sp
 
-from .events import Event, EventIndex, contact_of_email, event_lists, evidence_events
-from .labels import judge_labels
 from ..model import Contact, Interaction
-from .org_limit import limit_large_orgs
 from ..people.normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
 from ..settings import SettingsGroup, setting
+from .events import Event, EventIndex, contact_of_email, event_lists, evidence_events
+from .labels import judge_labels
+from .org_limit import limit_large_orgs
 
 __all__ = [
     "TieModel",

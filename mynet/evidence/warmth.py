@@ -32,8 +32,8 @@ from datetime import date, datetime, timezone
 from typing import Iterable, Mapping, Sequence
 
 from ..model import Contact, Interaction
-from ..settings import SettingsGroup, setting
 from ..people.normalise import normalise_email
+from ..settings import SettingsGroup, setting
 
 __all__ = ["WarmthModel", "Warmth", "compute_warmth", "assign_tiers", "unlisted_people", "TIERS", "parse_when"]
 
@@ -49,7 +49,8 @@ class WarmthModel(SettingsGroup, group="warmth_model"):
 
     half_life_days: float = setting(180.0, "days after which an interaction with you counts half", low=0, low_open=True)
     scale: float = setting(3.0, "recent one-to-one interactions needed for a warmth of 0.63", low=0, low_open=True)
-    dormant_days: float = setting(365.0, "a once-active tie quiet for longer than this is dormant", low=0, low_open=True)
+    dormant_days: float = setting(365.0, "a once-active tie quiet for longer than this is dormant", low=0,
+                                  low_open=True)
     unlisted_threshold: int = setting(3, "people outside your address book are shown from this many interactions",
                                       low=1)
     reply_boost: float = setting(2.0, "your reply to someone's message counts this many times a message "

@@ -29,8 +29,8 @@ from collections import Counter, defaultdict
 from dataclasses import dataclass, field, replace
 from typing import Iterable, Mapping
 
-from ..sources.mailaddr import KIND_WORDS, archive_parts, desk_name, machine_kind, reverse_relay
 from ..model import Interaction
+from ..sources.mailaddr import KIND_WORDS, archive_parts, desk_name, machine_kind, reverse_relay
 from .normalise import email_domain, fold_text, name_key
 
 __all__ = [

@@ -12,10 +12,10 @@ from __future__ import annotations
 
 import hashlib
 from collections import Counter, defaultdict
-
-import numpy as np
 from dataclasses import dataclass, field
 from typing import Iterable
+
+import numpy as np
 
 from ..model import Contact, Record
 from .normalise import (

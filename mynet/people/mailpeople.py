@@ -27,10 +27,10 @@ import os
 from collections import Counter, defaultdict
 from typing import Iterable
 
+from ..model import Contact, Interaction, Record
+from ..sources.mailaddr import KIND_WORDS
 from .correspondence import Found, MailFacts, clean
 from .identity import Me, StoredRecord
-from ..sources.mailaddr import KIND_WORDS
-from ..model import Contact, Interaction, Record
 from .normalise import name_key, normalise_email
 
 __all__ = ["found_key", "found_records", "attach_by_name", "address_origins", "infer_region", "your_other_addresses",

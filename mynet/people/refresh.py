@@ -9,13 +9,13 @@ from __future__ import annotations
 
 import json
 
+from ..model import Contact
+from ..store import Store
 from .correspondence import address_facts, clean, correspondents
+from .forgotten import forgotten_address
 from .identity import Decisions, Me, Resolution, StoredRecord, resolve
 from .mailpeople import address_origins, attach_by_name, found_key, found_records, infer_region, your_other_addresses
-from ..model import Contact
 from .normalise import normalise_email, normalise_name
-from .forgotten import forgotten_address
-from ..store import Store
 
 __all__ = ["refresh_contacts", "get_me", "decisions_of"]
 

@@ -21,8 +21,8 @@ from typing import Callable, Iterable
 
 from ..errors import MynetError
 from ..workspace import Workspace
-from .files import private_dir, write_private
 from .data import MAX_CONTACTS_DRAWN, STEPS, ReportData, collect
+from .files import private_dir, write_private
 from .redact import Pseudonyms, find_leaks
 
 __all__ = ["write_report", "collect", "ReportData", "STEPS", "MAX_CONTACTS_DRAWN", "RedactionError", "check_redacted"]
@@ -43,7 +43,8 @@ def check_redacted(texts: Iterable[str], ps: Pseudonyms | None) -> None:
         for t in (text, _html.unescape(text)):
             leaks = find_leaks(t, ps.identifiers)
             if leaks:
-                raise RedactionError(f"the redacted output would still hold {len(leaks)} original value(s); nothing was written")
+                raise RedactionError(f"the redacted output would still hold {len(leaks)} original value(s); nothing "
+                                     f"was written")
 
 
 def write_report(

@@ -30,9 +30,9 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Circle, Patch
 
 from ..analysis.snapshot import tie_graph
-from .wording import xml_safe
 from .data import ReportData
 from .layout import group_layout, place_discs
+from .wording import xml_safe
 
 __all__ = ["PALETTE", "MARKERS", "HATCHES", "group_style", "network_svg", "groups_svg", "timeline_svg", "tiers_svg",
            "clean_svg", "MAX_EDGES_DRAWN", "LEGEND_GROUPS"]
@@ -53,7 +53,8 @@ _RC = {"svg.fonttype": "path", "font.family": "DejaVu Sans", "hatch.linewidth": 
 
 def group_style(index: int) -> tuple[str, str, str]:
     """(colour, marker, hatch) of the group drawn ``index``-th (distinct for the first 60)."""
-    return PALETTE[index % len(PALETTE)], MARKERS[index % len(MARKERS)], HATCHES[(index // len(PALETTE) + index) % len(HATCHES)]
+    hatch = HATCHES[(index // len(PALETTE) + index) % len(HATCHES)]
+    return PALETTE[index % len(PALETTE)], MARKERS[index % len(MARKERS)], hatch
 
 
 #: The chart font has no Control Pictures (U+2400-U+2426): in a picture a control character shows as U+FFFD.
@@ -77,7 +78,8 @@ def clean_svg(svg: str, prefix: str) -> str:
         return f'{m.group(1)}="{prefix}-{m.group(2)}"' if m.group(2) in ids else m.group(0)
 
     svg = re.sub(r'(\sid)="([^"]+)"', sub_id, svg)
-    svg = re.sub(r'(xlink:href|href)="#([^"]+)"', lambda m: f'{m.group(1)}="#{prefix}-{m.group(2)}"' if m.group(2) in ids else m.group(0), svg)
+    svg = re.sub(r'(xlink:href|href)="#([^"]+)"', lambda m: f'{m.group(1)}="#{prefix}-{m.group(2)}"'
+                 if m.group(2) in ids else m.group(0), svg)
     svg = re.sub(r"url\(#([^)]+)\)", lambda m: f"url(#{prefix}-{m.group(1)})" if m.group(1) in ids else m.group(0), svg)
     return svg.strip() + "\n"
 
@@ -119,7 +121,8 @@ def _legend_groups(data: ReportData, order: list[int]) -> list[Any]:
     return handles
 
 
-def _select_edges(G, group_of: dict, cap: int) -> tuple[list[tuple[int, int, float]], list[tuple[int, int, float]], int]:
+def _select_edges(G, group_of: dict,
+                  cap: int) -> tuple[list[tuple[int, int, float]], list[tuple[int, int, float]], int]:
     """(within, between, total): ties to draw, strongest first, ties between groups kept first."""
     within, between = [], []
     for a, b, w in G.edges(data="weight"):
@@ -162,7 +165,8 @@ def network_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
             ax.add_patch(Circle((x, y), r * 0.97, facecolor="none", edgecolor=matplotlib.colors.to_rgba(col, 0.28),
                                 hatch=hatch, linewidth=0, zorder=0))
         ax.text(x, y + r * 0.97, f"G{key}" if key is not None else "no group", ha="center", va="center", fontsize=8,
-                fontweight="bold", zorder=5, bbox={"boxstyle": "round,pad=0.2", "facecolor": "white", "edgecolor": "#555555", "linewidth": 0.6})
+                fontweight="bold", zorder=5,
+                bbox={"boxstyle": "round,pad=0.2", "facecolor": "white", "edgecolor": "#555555", "linewidth": 0.6})
     group_of = {c: a.group_of.get(c) for c in G}
     within, between, total = _select_edges(G, group_of, MAX_EDGES_DRAWN)
     top = {(min(b["a"], b["b"]), max(b["a"], b["b"])) for b in data.bridges[:5]}
@@ -189,7 +193,8 @@ def network_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
         if b["id"] in pos:
             ax.annotate(clip(b["name"], 28), pos[b["id"]], xytext=off, textcoords="offset points", fontsize=7,
                         ha="left" if off[0] >= 0 else "right", arrowprops={"arrowstyle": "-", "linewidth": 0.6},
-                        zorder=6, bbox={"boxstyle": "round,pad=0.15", "facecolor": "white", "edgecolor": "none", "alpha": 0.85})
+                        zorder=6,
+                        bbox={"boxstyle": "round,pad=0.15", "facecolor": "white", "edgecolor": "none", "alpha": 0.85})
     ax.autoscale_view()
     handles = _legend_groups(data, order)
     if loose:
@@ -254,10 +259,13 @@ def _group_map_svg(data: ReportData, *, seed: int = 0) -> tuple[str, str]:
     handles = []
     for i, g in enumerate(order[:LEGEND_GROUPS]):
         col, _mk, hatch = group_style(i)
-        handles.append(Patch(facecolor=col, edgecolor="#222222", hatch=hatch, label=f"G{g}  {clip(data.group_name(g), 44)}  [{sizes[g]}]"))
+        handles.append(Patch(facecolor=col, edgecolor="#222222", hatch=hatch,
+                             label=f"G{g}  {clip(data.group_name(g), 44)}  [{sizes[g]}]"))
     if len(order) > LEGEND_GROUPS:
-        handles.append(Patch(facecolor="white", edgecolor="white", label=f"+ {len(order) - LEGEND_GROUPS} smaller groups, numbered on the map"))
-    handles.append(Line2D([], [], color=(0.15, 0.15, 0.15, 0.7), linewidth=3, label="ties between two groups (wider: more)"))
+        handles.append(Patch(facecolor="white", edgecolor="white",
+                             label=f"+ {len(order) - LEGEND_GROUPS} smaller groups, numbered on the map"))
+    handles.append(Line2D([], [], color=(0.15, 0.15, 0.15, 0.7), linewidth=3,
+                          label="ties between two groups (wider: more)"))
     fig.legend(handles=handles, loc="upper left", bbox_to_anchor=(0.67, 0.98), fontsize=8, frameon=False,
                title="Groups: G number, name  [contacts]", title_fontsize=9, alignment="left")
     shown = (f"the {len(links)} most tied of the {len(every)} linked pairs of groups are drawn (and each group's "

@@ -16,12 +16,12 @@ from datetime import date
 from typing import Any, Callable
 
 from ..analysis.audit import WARM, audit
-from ..analysis.snapshot import Analysis, tie_graph
-from ..evidence.network import AsOf, Network
-from ..evidence.explain import basis, evidence_summary, tie_words
 from ..analysis.intro_routes import Targets, path_index, reach
-from ..workspace import Workspace
+from ..analysis.snapshot import Analysis, tie_graph
+from ..evidence.explain import basis, evidence_summary, tie_words
+from ..evidence.network import AsOf, Network
 from ..evidence.warmth import BEYOND, NONE, TIERS
+from ..workspace import Workspace
 from .redact import Pseudonyms, redact_analysis, redact_network
 
 __all__ = ["ReportData", "collect", "STEPS", "MAX_CONTACTS_DRAWN"]
@@ -104,13 +104,15 @@ def _bridges(net: Network, a: Analysis, limit: int) -> list[dict[str, Any]]:
 
 def _intros(net: Network, a: Analysis, limit: int, k: int) -> list[dict[str, Any]]:
     """For each group where you have (almost) nobody warm, the best intro paths into it."""
-    cands = sorted((g for g in a.groups if g.size and g.warm_share < 0.2), key=lambda g: (g.warm > 0, g.warm_share, -g.size, g.id))
+    cands = sorted((g for g in a.groups if g.size and g.warm_share < 0.2),
+                   key=lambda g: (g.warm > 0, g.warm_share, -g.size, g.id))
     if not cands:
         return []
     index = path_index(net)
     out = []
     for g in cands[:limit]:
-        res = reach(net, Targets("group", g.name, list(g.members)), k=k, index=index, groups=a.group_of, per_target=False)
+        res = reach(net, Targets("group", g.name, list(g.members)), k=k, index=index, groups=a.group_of,
+                    per_target=False)
         out.append({"group": g.id, "name": g.name, "size": g.size, "warm": g.warm,
                     "paths": res.paths, "direct": [d for d in res.direct if not d["weak"]],
                     "unreachable": len(res.unreachable)})

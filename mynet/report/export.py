@@ -114,7 +114,8 @@ def csv_texts(G: nx.Graph) -> tuple[str, str]:
     """(contacts, ties) CSV documents of ``G``, neutralised (see :func:`neutralise`)."""
     contacts = _csv(CONTACT_COLUMNS, ({"id": n, **d} for n, d in sorted(G.nodes(data=True))))
     label = dict(G.nodes(data="label"))
-    ties = _csv(TIE_COLUMNS, ({"source": a, "target": b, "source_label": label.get(a), "target_label": label.get(b), **d}
+    ties = _csv(TIE_COLUMNS,
+                ({"source": a, "target": b, "source_label": label.get(a), "target_label": label.get(b), **d}
                               for a, b, d in sorted(G.edges(data=True), key=lambda e: (min(e[:2]), max(e[:2])))))
     return contacts, ties
 

@@ -14,8 +14,8 @@ from __future__ import annotations
 import html
 from typing import Any
 
-from .wording import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
 from .data import ReportData
+from .wording import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
 
 __all__ = ["render_html", "esc", "CSS"]
 
@@ -63,11 +63,13 @@ def esc(text: Any) -> str:
     return html.escape(xml_safe(text), quote=True)
 
 
-def _table(headers: list[str], rows: list[list[Any]], numeric: set[int] = frozenset()) -> str:  # type: ignore[assignment]
+def _table(headers: list[str], rows: list[list[Any]],
+           numeric: set[int] = frozenset()) -> str:  # type: ignore[assignment]
     head = "".join(f"<th>{esc(h)}</th>" for h in headers)
     body = []
     for r in rows:
-        cells = "".join(f'<td class="n">{esc(c)}</td>' if i in numeric else f"<td>{esc(c)}</td>" for i, c in enumerate(r))
+        cells = "".join(f'<td class="n">{esc(c)}</td>' if i in numeric else f"<td>{esc(c)}</td>"
+                        for i, c in enumerate(r))
         body.append(f"<tr>{cells}</tr>")
     return f"<table><thead><tr>{head}</tr></thead><tbody>{''.join(body)}</tbody></table>"
 
@@ -84,7 +86,8 @@ def _findings(d: ReportData) -> str:
 
 
 def _groups(d: ReportData) -> str:
-    rows = [[f"G{g['id']}", g["name"] + ("" if g["user_named"] else " (suggested)"), g["size"], g["warm"], pct(g["warm_share"]),
+    rows = [[f"G{g['id']}", g["name"] + ("" if g["user_named"] else " (suggested)"), g["size"], g["warm"],
+             pct(g["warm_share"]),
              group_roles(g["roles"])] for g in d.groups]
     out = _table(["group", "name", "contacts", "warm", "warm share", "roles"], rows, {2, 3, 4})
     if d.unclustered:
@@ -97,7 +100,8 @@ def _brokers(d: ReportData) -> str:
         return "<p>No contact lies between others yet (no betweenness above zero).</p>"
     rows = [[b["name"], b["role"], d.group_label(b["group"]), num(b["betweenness"], 3), num(b["constraint"]),
              num(b["effective_size"], 1), num(b["participation"]), num(b["warmth"])] for b in d.brokers]
-    return _table(["contact", "role", "group", "betweenness", "constraint", "effective size", "participation", "your warmth"],
+    return _table(["contact", "role", "group", "betweenness", "constraint", "effective size", "participation",
+                   "your warmth"],
                   rows, {3, 4, 5, 6, 7})
 
 
@@ -105,7 +109,8 @@ def _bridges(d: ReportData) -> str:
     if not d.bridges:
         return "<p>No ties between groups.</p>"
     rows = [[b["a_name"], b["b_name"], " / ".join(d.group_label(g) for g in b["groups"]), num(b["strength"]),
-             num(b["overlap"]), f"yes (span {b['span']})" if b.get("local_bridge") else "no", b["ties_between"], b["why"] or "-"]
+             num(b["overlap"]), f"yes (span {b['span']})" if b.get("local_bridge") else "no", b["ties_between"],
+             b["why"] or "-"]
             for b in d.bridges]
     return _table(["between", "and", "groups", "strength", "overlap", "local bridge", "ties between the groups", "why"],
                   rows, {3, 4, 6})
@@ -116,14 +121,16 @@ def _intros(d: ReportData) -> str:
         return "<p>You have warm contacts in every group: no group needs an introduction.</p>"
     out = []
     for it in d.intros:
-        out.append(f"<h3>G{it['group']} {esc(it['name'])} <span class=\"small\">({it['size']} contacts, {it['warm']} warm)</span></h3>")
+        out.append(f"<h3>G{it['group']} {esc(it['name'])} <span class=\"small\">({it['size']} contacts, {it['warm']} "
+                   f"warm)</span></h3>")
         if it["direct"]:
             out.append("<p>You already know " + esc(", ".join(x["name"] for x in it["direct"][:5])) + " there.</p>")
         if not it["paths"]:
             out.append("<p>No chain of at most two people leads there yet.</p>")
             continue
         for p in it["paths"]:
-            steps = "".join(f"<li>{esc(s['to_name'])} <span class=\"small\">({num(s['strength'])}: {esc(s['why'] or 'linked')})</span></li>"
+            steps = "".join(f"<li>{esc(s['to_name'])} <span class=\"small\">({num(s['strength'])}: "
+                            f"{esc(s['why'] or 'linked')})</span></li>"
                             for s in p["steps"])
             cross = " Crosses groups." if p.get("crosses_groups") else ""
             out.append(f'<div class="path"><strong>{esc(" → ".join(path_chain(p)))}</strong> '
@@ -153,17 +160,21 @@ def render_html(d: ReportData, svgs: dict[str, Any]) -> str:
         "picture": f"<figure>{net_svg}<figcaption>{esc(caption)}</figcaption></figure>"
                    + "".join(f'<p class="remark">{esc(r)}</p>' for r in d.remarks),
         "groups": f"<figure>{svgs['groups']}</figure>{_groups(d)}",
-        "time": (f"<figure>{svgs['time']}</figure>" if svgs.get("time") else "<p>No dated meetings or messages imported yet.</p>")
+        "time": (f"<figure>{svgs['time']}</figure>" if svgs.get("time")
+                 else "<p>No dated meetings or messages imported yet.</p>")
                 + f"<figure>{svgs['tiers']}</figure>",
         "brokers": "<p>The people most often on the shortest routes between your other contacts.</p>" + _brokers(d),
         "bridges": "<p>The ties that hold your groups together, the ones that matter most first.</p>" + _bridges(d),
-        "intros": "<p>For each group where you have few or no warm contacts: the warmest chains of introductions into it.</p>"
+        "intros": "<p>For each group where you have few or no warm contacts: the warmest chains of introductions into "
+        "it.</p>"
                   + _intros(d),
         "reading": _reading(),
     }
     nav = "".join(f'<li><a href="#{a}">{esc(t)}</a></li>' for a, t in SECTIONS)
-    sections = "".join(f'<section id="{a}"><h2>{i}. {esc(t)}</h2>{body[a]}</section>' for i, (a, t) in enumerate(SECTIONS, 1))
-    red = '<p class="redacted"><strong>Redacted copy:</strong> names and addresses are pseudonyms.</p>' if d.redacted else ""
+    sections = "".join(f'<section id="{a}"><h2>{i}. {esc(t)}</h2>{body[a]}</section>'
+                       for i, (a, t) in enumerate(SECTIONS, 1))
+    red = ('<p class="redacted"><strong>Redacted copy:</strong> names and addresses are pseudonyms.</p>'
+           if d.redacted else "")
     meta = headline(s, len(d.groups), d.generated)
     return (
         "<!DOCTYPE html>\n"
@@ -172,6 +183,7 @@ def render_html(d: ReportData, svgs: dict[str, Any]) -> str:
         f"<title>Your network, {esc(d.generated)}</title><style>{CSS}</style></head>\n"
         f'<body><header><h1>Your network</h1>{red}<p class="meta">{esc(meta)}</p>'
         f"<nav><ol>{nav}</ol></nav></header>\n{sections}\n"
-        '<footer><p class="small">Made with mynet. Everyone in this report is a contact of yours; share it with care.</p></footer>'
+        '<footer><p class="small">Made with mynet. Everyone in this report is a contact of yours; share it with '
+        'care.</p></footer>'
         "</body></html>\n"
     )

@@ -14,8 +14,8 @@ import html
 import re
 from typing import Any
 
-from .wording import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
 from .data import ReportData
+from .wording import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
 
 __all__ = ["render_markdown", "md", "IMAGE_NAMES"]
 
@@ -69,7 +69,8 @@ def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has
     if not d.findings:
         L += ["Nothing to report yet.", ""]
     head("picture")
-    L += [_img(folder, "network", "The network: groups as regions, contacts as marks"), "", f"*{md(captions['network'])}*", ""]
+    L += [_img(folder, "network", "The network: groups as regions, contacts as marks"), "",
+          f"*{md(captions['network'])}*", ""]
     L += [md(r) + "\n" for r in d.remarks]
     head("groups")
     L += [_img(folder, "groups", "Contacts and warm contacts per group"), ""]
@@ -79,20 +80,24 @@ def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has
     if d.unclustered:
         L += [f"{d.unclustered:,} contacts have too few ties to belong to a group.", ""]
     head("time")
-    L += [_img(folder, "time", "Interactions per month") if has_time else "No dated meetings or messages imported yet.", ""]
+    L += [_img(folder, "time", "Interactions per month") if has_time
+          else "No dated meetings or messages imported yet.", ""]
     L += [_img(folder, "tiers", "Contacts by warmth layer"), ""]
     head("brokers")
     if d.brokers:
-        L += _table(["contact", "role", "group", "betweenness", "constraint", "effective size", "participation", "your warmth"],
+        L += _table(["contact", "role", "group", "betweenness", "constraint", "effective size", "participation",
+                     "your warmth"],
                     [[b["name"], b["role"], d.group_label(b["group"]), num(b["betweenness"], 3), num(b["constraint"]),
                       num(b["effective_size"], 1), num(b["participation"]), num(b["warmth"])] for b in d.brokers])
     else:
         L += ["No contact lies between others yet.", ""]
     head("bridges")
     if d.bridges:
-        L += _table(["between", "and", "groups", "strength", "overlap", "local bridge", "ties between the groups", "why"],
+        L += _table(["between", "and", "groups", "strength", "overlap", "local bridge", "ties between the groups",
+                     "why"],
                     [[b["a_name"], b["b_name"], " / ".join(d.group_label(g) for g in b["groups"]), num(b["strength"]),
-                      num(b["overlap"]), f"yes (span {b['span']})" if b.get("local_bridge") else "no", b["ties_between"],
+                      num(b["overlap"]), f"yes (span {b['span']})" if b.get("local_bridge") else "no",
+                      b["ties_between"],
                       b["why"] or "-"] for b in d.bridges])
     else:
         L += ["No ties between groups.", ""]

@@ -29,8 +29,8 @@ from typing import Iterable
 
 from ..analysis.groups import suggest_label
 from ..analysis.snapshot import Analysis, contact_attrs
-from ..model import Contact
 from ..evidence.network import Network
+from ..model import Contact
 from ..people.normalise import GENERIC_TAGS, email_domain, fold_text, is_real_org, is_webmail, normalise_org
 
 __all__ = ["Pseudonyms", "redact_network", "redact_analysis", "find_leaks", "WEBMAIL", "PLACEHOLDER_ORG", "GENERIC_TAG"]

@@ -77,7 +77,8 @@ def path_chain(p: dict[str, Any]) -> list[str]:
 
 def group_roles(roles: dict[str, int]) -> str:
     """A short summary of the roles in a group (members and peripheral ones left out)."""
-    shown = [(r, n) for r, n in sorted(roles.items(), key=lambda kv: (-kv[1], kv[0])) if r and r not in ("member", "peripheral")]
+    shown = [(r, n) for r, n in sorted(roles.items(), key=lambda kv: (-kv[1], kv[0])) if r
+             and r not in ("member", "peripheral")]
     return ", ".join(f"{n} {r}" for r, n in shown) or "-"
 
 

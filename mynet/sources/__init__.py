@@ -79,14 +79,17 @@ def detect_kind(path: str | os.PathLike, head: bytes) -> str:
     if by_suffix in ("csv", "eml", "mbox"):
         return by_suffix
     if by_suffix in ("vcard", "ics"):
-        raise UnknownFormatError(str(path), f"has a {suffix} name but no BEGIN:{'VCARD' if by_suffix == 'vcard' else 'VCALENDAR'} line; it is not a {by_suffix} file")
+        raise UnknownFormatError(str(path),
+                                 f"has a {suffix} name but no BEGIN:{'VCARD' if by_suffix == 'vcard' else 'VCALENDAR'} "
+                                 f"line; it is not a {by_suffix} file")
     if b"\x00" in head[:1024] and not head.startswith((b"\xff\xfe", b"\xfe\xff")):
         raise UnknownFormatError(str(path), "is a binary file, not a contact export (vCard, CSV, iCalendar or mailbox)")
     # Plain text with separators on the first line reads as a table.
     first = head.split(b"\n", 1)[0]
     if any(sep in first for sep in (b",", b";", b"\t", b"|")) or b"\x00" in head[:4]:
         return "csv"
-    if head[:2000].lower().startswith((b"from:", b"received:", b"return-path:", b"message-id:", b"date:", b"delivered-to:")):
+    if head[:2000].lower().startswith((b"from:", b"received:", b"return-path:", b"message-id:", b"date:",
+                                       b"delivered-to:")):
         return "eml"
     raise UnknownFormatError(str(path), "is not a vCard, CSV, iCalendar or mailbox file (unknown format)")
 
@@ -189,7 +192,9 @@ def read_bytes(path: Path) -> bytes:
     except OSError as exc:
         raise InputError(str(path), f"cannot be read ({exc.strerror})") from exc
     if size > MAX_FILE_BYTES:
-        raise InputError(str(path), f"is {size / 2**20:.0f} MiB, larger than the {MAX_FILE_BYTES // 2**20} MiB limit for one export")
+        raise InputError(str(path),
+                         f"is {size / 2**20:.0f} MiB, larger than the {MAX_FILE_BYTES // 2**20} MiB limit for one "
+                         f"export")
     try:
         return path.read_bytes()
     except OSError as exc:

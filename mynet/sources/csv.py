@@ -50,7 +50,7 @@ import unicodedata
 from dataclasses import dataclass
 from itertools import islice
 from pathlib import Path
-from typing import Callable, Iterator
+from typing import Callable
 
 import pandas as pd
 
@@ -188,7 +188,8 @@ def _unknown_field_reason(field_name: str) -> str:
     fields_list = ", ".join(MAPPABLE_FIELDS)
     name = field_name.strip()
     if name.lower() in _NOT_MAPPABLE:
-        return f"field {name!r} is set by the importer and cannot be mapped to a column; mappable fields are: {fields_list}"
+        return (f"field {name!r} is set by the importer and cannot be mapped to a column; "
+                f"mappable fields are: {fields_list}")
     return f"unknown field {name!r} in a column mapping; mappable fields are: {fields_list}"
 
 
@@ -510,14 +511,16 @@ class _Rows:
                         reason = f"line {row.line}: a quote opened in this row is never closed; it was read as text"
                     else:
                         reason = (f"lines {row.line}-{row.end}: a quote opened on line {row.line} {how}, which would "
-                                  f"have merged {len(parts)} lines into one row; each line was read as a row of its own")
+                                  f"have merged {len(parts)} lines into one row; each line was read as a row of its "
+                                  "own")
                     if self.strict:
                         raise RecordError(self.path, reason.split(": ", 1)[1], row.line)
                     self.result.warnings.append(reason)
                     out.extend((line, cells, "") for line, cells in parts)
                     continue
                 if row.unclosed:
-                    out.append((row.line, None, f"a quote opened in this row is never closed, so lines {row.line}-{row.end} "
+                    out.append((row.line, None,
+                                f"a quote opened in this row is never closed, so lines {row.line}-{row.end} "
                                                 "were read as one row"))
                     continue
             out.append((row.line, row.cells, ""))

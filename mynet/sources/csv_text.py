@@ -99,8 +99,11 @@ def _lines_of(text: str, offsets: list[int]) -> list[int]:
 
 def _bad_bytes_note(text: str, bad: list[int], encoding: str) -> str:
     lines = sorted(set(_lines_of(text, bad)))
-    named = ", ".join(map(str, lines[:MAX_LINES_NAMED])) + (f" and {len(lines) - MAX_LINES_NAMED} more" if len(lines) > MAX_LINES_NAMED else "")
-    return (f"line{'s' if len(lines) > 1 else ''} {named}: bytes that are not valid {encoding.upper()} were replaced by "
+    named = ", ".join(map(str,
+                          lines[:MAX_LINES_NAMED])) + (f" and {len(lines) - MAX_LINES_NAMED} more"
+                                                       if len(lines) > MAX_LINES_NAMED else "")
+    return (f"line{'s' if len(lines) > 1 else ''} {named}: bytes that are not valid {encoding.upper()} were replaced "
+            f"by "
             "U+FFFD (the rest of each row was kept; export the file again if a name looks wrong)")
 
 

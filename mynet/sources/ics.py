@@ -24,8 +24,18 @@ from vobject.base import ContentLine, VObjectError, textLineToContentLine
 
 from ..errors import InputError, RecordError
 from ..model import Interaction, ParseResult, Skipped
-from .ics_text import (BEGIN_END, Block, GuardedZone, decode_bytes, decode_param, event_people, event_resources,
-                        logical_lines, scan_blocks, unescape_text)
+from .ics_text import (
+    BEGIN_END,
+    Block,
+    GuardedZone,
+    decode_bytes,
+    decode_param,
+    event_people,
+    event_resources,
+    logical_lines,
+    scan_blocks,
+    unescape_text,
+)
 
 __all__ = ["parse_ics"]
 
@@ -139,7 +149,8 @@ class _Zones:
         try:
             info = du_tz.tzical(io.StringIO("\r\n".join(kept) + "\r\n")).get()
         except Exception as exc:  # noqa: BLE001 - dateutil's parser raises many kinds on bad input
-            self.warnings.append(f"line {block.line}: VTIMEZONE {tzid!r} cannot be read ({exc}); its TZID is looked up by name instead")
+            self.warnings.append(f"line {block.line}: VTIMEZONE {tzid!r} cannot be read ({exc}); its TZID is looked up "
+                                 f"by name instead")
             return
         self.defined[tzid] = GuardedZone(info, tzid)
 

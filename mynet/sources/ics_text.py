@@ -7,7 +7,6 @@ file stays small. Nothing here is public API.
 from __future__ import annotations
 
 import datetime as dt
-
 import re
 import urllib.parse
 from dataclasses import dataclass, field

@@ -12,10 +12,10 @@ from __future__ import annotations
 import codecs
 import re
 from dataclasses import dataclass, field
-from functools import lru_cache
 from email.errors import HeaderParseError
 from email.header import decode_header
 from email.utils import getaddresses
+from functools import lru_cache
 
 from .mailaddr import list_local, machine_kind, reverse_relay, via_name
 

@@ -129,7 +129,8 @@ def machine_kind(address: str) -> str:
 _RELAYED = re.compile(r"^([^=@+]+)=([a-z0-9](?:[a-z0-9-]*[a-z0-9])?(?:\.[a-z0-9](?:[a-z0-9-]*[a-z0-9])?)+)$")
 
 
-_LIST_ACTION = re.compile(r"-(?:subscribe|unsubscribe|help|return|bounces?|request|owner|confirm|uc|sc|tc|digest)(?:-|$)")
+_LIST_ACTION = re.compile(
+    r"-(?:subscribe|unsubscribe|help|return|bounces?|request|owner|confirm|uc|sc|tc|digest)(?:-|$)")
 
 
 def reverse_relay(address: str) -> str:

@@ -351,14 +351,18 @@ def parse_mail(
             eol = data.find(b"\n", lead)  # an mbox envelope line in front of a message
             start = len(data) if eol < 0 else eol + 1
         if not looks_like_message(data, start):
-            raise InputError(path, "is not an e-mail message (it does not start with header fields such as From:, To: or Date:)")
+            raise InputError(path,
+                             "is not an e-mail message (it does not start with header fields such as From:, To: or "
+                             "Date:)")
         spans = iter([(1, start, len(data))])
     else:
         spans = iter_mbox_messages(data)
         first = next(spans, None)
         if first is None:
             if not looks_like_message(data, lead):
-                raise InputError(path, "is not a mailbox (no line starting with 'From ' opens a message, and it does not start with mail header fields)")
+                raise InputError(path,
+                                 "is not a mailbox (no line starting with 'From ' opens a message, and it does not "
+                                 "start with mail header fields)")
             result.warnings.append(f"{path}: has no 'From ' separator line; read as a single message")
             spans = iter([(1, lead, len(data))])
         else:

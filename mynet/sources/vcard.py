@@ -136,7 +136,8 @@ def _phone(text: str) -> str:
 def _name(rec: Record, prop: Prop, v21: bool) -> None:
     comps = split_value(prop.value, ";", v21)
     if len(comps) > 5 and any(c.strip() for c in comps[5:]):
-        rec.warnings.append(f"line {prop.line}: N has {len(comps)} parts instead of 5; the extra parts were added to the suffix")
+        rec.warnings.append(f"line {prop.line}: N has {len(comps)} parts instead of 5; the extra parts were added to "
+                            f"the suffix")
         comps = comps[:4] + [";".join(comps[4:])]
     comps += [""] * (5 - len(comps))
     joined = []

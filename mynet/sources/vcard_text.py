@@ -59,7 +59,8 @@ _PROPERTY_START = re.compile(rb"^(?:[A-Za-z0-9_-]+\.)?[A-Za-z0-9_-]+(?:;[^:\n]*)
 _B64_LINE = re.compile(rb"^[A-Za-z0-9+/=]+$")
 _QP_IN_HEADER = re.compile(rb"(?:^|[;,=])[ \t]*QUOTED-PRINTABLE[ \t]*(?:$|[;,])", re.IGNORECASE)
 _CHARSET_IN_HEADER = re.compile(rb"CHARSET[ \t]*=[ \t]*\"?([^;:,\"]+)", re.IGNORECASE)
-_B64_IN_HEADER = re.compile(rb"(?:ENCODING[ \t]*=[ \t]*\"?(?:B|BASE64)\"?|;[ \t]*BASE64)[ \t]*(?:$|[;,])", re.IGNORECASE)
+_B64_IN_HEADER = re.compile(rb"(?:ENCODING[ \t]*=[ \t]*\"?(?:B|BASE64)\"?|;[ \t]*BASE64)[ \t]*(?:$|[;,])",
+                            re.IGNORECASE)
 _QP_HEX = re.compile(rb"=([0-9A-Fa-f]{2})")
 _RFC6868 = re.compile(r"\^(.)", re.DOTALL)
 
@@ -71,7 +72,8 @@ _PARAM = rb";" + _NAME + rb"(?>(?:=" + _PVALUE + rb")?(?:," + _PVALUE + rb")*)"
 _HEADER = re.compile(rb"(?>(?:" + _NAME + rb"\.)?" + _NAME + rb")(?>" + _PARAM + rb")*")
 
 _CHARSET_ALIASES = {name: "cp932" for name in ("SHIFT_JIS", "SHIFT-JIS", "SJIS", "X-SJIS", "MS_KANJI", "WINDOWS-31J")}
-_CHARSET_ALIASES.update({name: "cp1252" for name in ("ISO-8859-1", "ISO8859-1", "LATIN1", "LATIN-1", "US-ASCII", "ASCII")})
+_CHARSET_ALIASES.update({name: "cp1252"
+                         for name in ("ISO-8859-1", "ISO8859-1", "LATIN1", "LATIN-1", "US-ASCII", "ASCII")})
 
 # vobject attaches a handler that prints to stderr to its logger when the root
 # logger has none; the library must never print, so that handler is replaced by
@@ -79,7 +81,8 @@ _CHARSET_ALIASES.update({name: "cp1252" for name in ("ISO-8859-1", "ISO8859-1", 
 # lines that cannot be read are reported by this pre-pass as card warnings.
 _VOBJECT_LOG = logging.getLogger("vobject.base")
 for _h in list(_VOBJECT_LOG.handlers):
-    if isinstance(_h, logging.StreamHandler) and getattr(_h.formatter, "_fmt", "") == "%(name)s %(levelname)s %(message)s":
+    if isinstance(_h,
+                  logging.StreamHandler) and getattr(_h.formatter, "_fmt", "") == "%(name)s %(levelname)s %(message)s":
         _VOBJECT_LOG.removeHandler(_h)
 if not any(isinstance(_h, logging.NullHandler) for _h in _VOBJECT_LOG.handlers):
     _VOBJECT_LOG.addHandler(logging.NullHandler())
@@ -351,7 +354,8 @@ def _scan(lines: list[bytes], fixed_line: int | None, warnings: list[str]) -> li
                 cur.soft = False
                 card = enclosing_card()
                 if card is not None:
-                    card.notes.append(f"line {where(cur.line)}: quoted-printable value ends with '=' but the next line is {line.strip().decode('latin-1')}")
+                    card.notes.append(f"line {where(cur.line)}: quoted-printable value ends with '=' but the next line "
+                                      f"is {line.strip().decode('latin-1')}")
             else:
                 cur.add("soft", line)
                 continue
@@ -410,7 +414,8 @@ def _scan(lines: list[bytes], fixed_line: int | None, warnings: list[str]) -> li
             continue
         if card is None:
             if not stack:
-                warnings.append(f"line {where(n)}: text outside any BEGIN:VCARD ... END:VCARD block was ignored: {_snippet(stripped)}")
+                warnings.append(f"line {where(n)}: text outside any BEGIN:VCARD ... END:VCARD block was ignored: "
+                                f"{_snippet(stripped)}")
             continue
         end = _header_end(line)
         header = line[:end] if end >= 0 else line
@@ -491,8 +496,10 @@ def _parse_line(lg: _Logical, card: Card) -> Prop | None:
         if name.upper() not in MEDIA:
             card.problems.append((lg.line, f"malformed parameters read loosely: {_snippet(header)}"))
     if b"^'" in header and name.upper() not in MEDIA:
-        card.notes.append(f"line {lg.line}: a parameter holds an RFC 6868 quote (^') but is not quoted itself, so a ':' "
-                          f"inside it may have ended the parameters early; the {name.upper()} value may start with parameter text")
+        card.notes.append(f"line {lg.line}: a parameter holds an RFC 6868 quote (^') but is not quoted itself, so a "
+                          f"':' "
+                          f"inside it may have ended the parameters early; the {name.upper()} value may start with "
+                          f"parameter text")
     params: dict[str, list[str]] = {}
     singles: list[str] = []
     for entry in plist:

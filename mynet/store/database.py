@@ -178,7 +178,8 @@ class Store:
         version = self.conn.execute("PRAGMA user_version").fetchone()[0]
         if version > SCHEMA_VERSION:
             raise WorkspaceError(
-                f"{self.path} was written by a newer mynet (schema {version}, this one knows {SCHEMA_VERSION}); upgrade mynet"
+                f"{self.path} was written by a newer mynet (schema {version}, this one knows {SCHEMA_VERSION}); "
+                f"upgrade mynet"
             )
         if version == SCHEMA_VERSION:
             return
@@ -212,7 +213,8 @@ class Store:
         except sqlite3.OperationalError as exc:
             if "locked" in str(exc) or "busy" in str(exc):
                 raise WorkspaceError(
-                    f"{self.path} is busy: another mynet process is writing to it (an import?); try again when it is done"
+                    f"{self.path} is busy: another mynet process is writing to it (an import?); try again when it is "
+                    f"done"
                 ) from exc
             raise
         self._in_tx = True
@@ -335,7 +337,8 @@ class Store:
             self.conn.execute("DELETE FROM records WHERE source_id = ?", (old["id"],))
             self.conn.execute("DELETE FROM interactions WHERE source_id = ?", (old["id"],))
             self.conn.execute(
-                "UPDATE sources SET kind=?, sha256=?, size=?, as_of=?, region=?, imported_at=?, n_records=?, n_skipped=?,"
+                "UPDATE sources SET kind=?, sha256=?, size=?, as_of=?, region=?, imported_at=?, n_records=?, "
+                "n_skipped=?,"
                 " reader=?, new_contacts=? WHERE id=?",
                 (kind, sha256, size, as_of, region, _now(), len(records) + len(interactions), n_skipped, reader,
                  int(new_contacts), old["id"]),
@@ -343,7 +346,8 @@ class Store:
             source_id = old["id"]
         else:
             cur = self.conn.execute(
-                "INSERT INTO sources(path, kind, sha256, size, as_of, region, imported_at, n_records, n_skipped, reader,"
+                "INSERT INTO sources(path, kind, sha256, size, as_of, region, imported_at, n_records, n_skipped, "
+                "reader,"
                 " new_contacts) VALUES (?,?,?,?,?,?,?,?,?,?,?)",
                 (path, kind, sha256, size, as_of, region, _now(), len(records) + len(interactions), n_skipped, reader,
                  int(new_contacts)),
@@ -400,7 +404,10 @@ class Store:
         return [(rid, rkey, srcs[sid], Record.from_dict(json.loads(d))) for rid, sid, rkey, d in rows]
 
     def interactions(self, *, with_source: bool = False) -> list:
-        """Every meeting and message as imported, in file order (``(source id, interaction)`` pairs with ``with_source``)."""
+        """Every meeting and message as imported, in file order.
+
+        With ``with_source``, ``(source id, interaction)`` pairs.
+        """
         rows = self.conn.execute("SELECT source_id, data FROM interactions ORDER BY source_id, idx")
         if with_source:
             return [(sid, Interaction.from_dict(json.loads(d))) for sid, d in rows]

@@ -19,7 +19,7 @@ from textual.scroll_view import ScrollView
 from textual.strip import Strip
 
 from .data import Snapshot
-from .look import SHADES, SUGGESTED, BOUNDS, RAMP, clip, density_cell
+from .look import BOUNDS, RAMP, SHADES, SUGGESTED, clip, density_cell
 
 __all__ = ["GroupMap", "legend"]
 
@@ -139,7 +139,8 @@ class GroupMap(ScrollView, can_focus=True):
         g = self.gids[i]
         info = snap.group(g)
         name = (("" if info.user_named else SUGGESTED) + info.name) if info else str(g)
-        out.append(f"{i + 1:>2} {clip(name, self.label - 3)}".ljust(self.label), style=head + (cursor if i == self.row else Style()))
+        out.append(f"{i + 1:>2} {clip(name, self.label - 3)}".ljust(self.label), style=head
+                   + (cursor if i == self.row else Style()))
         out.append(" ")
         for j, h in enumerate(self.gids):
             c = self.cell(g, h)

@@ -13,11 +13,11 @@ from textual.worker import WorkerState
 
 from ..evidence.explain import basis, describe, evidence_summary
 from ..safetext import shown
-from .page import Page
 from .data import Snapshot, tier_of, with_workspace
-from .look import Label, Static, clip, plural, warmth_bar
-from .rowlist import Col, Row, RowList
 from .dialogs import AskScreen
+from .look import Label, Static, clip, plural, warmth_bar
+from .page import Page
+from .rowlist import Col, Row, RowList
 from .views_main import group_title
 
 __all__ = ["PersonScreen", "ConfirmScreen", "card_text", "evidence_text", "standing_words"]
@@ -99,7 +99,8 @@ def evidence_text(ex: dict[str, Any]) -> Text:
         if isinstance(prov, list) and prov:
             out.append(shown(f"  per {', '.join(prov[:4])}{'…' if len(prov) > 4 else ''}"), style="italic")
         for r in ev.get("recent", [])[:2]:
-            out.append(shown(f"\n    {r['date']}  {clip(r.get('title') or r.get('subject') or '', 40)}  ({r['provenance']})"),
+            out.append(shown(f"\n    {r['date']}  {clip(r.get('title') or r.get('subject') or '', 40)}  "
+                             f"({r['provenance']})"),
                        style="italic")
     if ex.get("contributions"):
         parts = ", ".join(f"{k} {v:.2f}" for k, v in ex["contributions"].items())
@@ -158,7 +159,8 @@ class PersonScreen(Page):
     def body(self) -> ComposeResult:
         with VerticalScroll(id="person-card-box"):
             yield Static("", id="person-card")
-        yield RowList([Col("Tie", 8), Col("With", 24), Col("Why")], empty="No ties: nothing links this person to another.",
+        yield RowList([Col("Tie", 8), Col("With", 24), Col("Why")],
+                      empty="No ties: nothing links this person to another.",
                       id="tie-list")
         with VerticalScroll(id="evidence-box", classes="detail-scroll"):
             yield Static("", id="evidence")
@@ -188,7 +190,8 @@ class PersonScreen(Page):
     def refresh_view(self, snap: Snapshot) -> None:
         self._explained = {}
         if self.cid not in snap.net.by_id:
-            self.query_one("#person-card", Static).update("This person is no longer in the workspace (merged?). Escape goes back.")
+            self.query_one("#person-card",
+                           Static).update("This person is no longer in the workspace (merged?). Escape goes back.")
             self.query_one(RowList).set_rows([])
             return
         self.query_one("#person-card", Static).update(card_text(snap, self.cid, self.sources))
@@ -334,7 +337,8 @@ class PersonScreen(Page):
                 self.mynet_app.edit("Removing the tie…", lambda ws: ws.untie(self.cid, other),
                               said=f"Saved: no tie between {a} and {b} (kept across re-imports; t adds it back).")
 
-        self.app.push_screen(ConfirmScreen(f"Remove the tie between {a} and {b}, whatever the evidence says?"), confirmed)
+        self.app.push_screen(ConfirmScreen(f"Remove the tie between {a} and {b}, whatever the evidence says?"),
+                             confirmed)
 
     def action_reach(self) -> None:
         snap = self.mynet_app.snapshot

@@ -52,7 +52,8 @@ class Row:
 class RowList(ScrollView, can_focus=True):
     """A scrolling list of rows with a cursor, keyboard and mouse driven."""
 
-    COMPONENT_CLASSES = {"rowlist--header", "rowlist--cursor", "rowlist--cursor-blur", "rowlist--heading", "rowlist--empty"}
+    COMPONENT_CLASSES = {"rowlist--header", "rowlist--cursor", "rowlist--cursor-blur", "rowlist--heading",
+                         "rowlist--empty"}
 
     DEFAULT_CSS = """
     RowList { height: 1fr; background: $surface; overflow-x: hidden; }
@@ -115,7 +116,8 @@ class RowList(ScrollView, can_focus=True):
 
     def row_line(self, index: int) -> int:
         """The line of row ``index`` within this widget's parent (for editors that float over a row)."""
-        return self.region.y - (self.parent.region.y if self.parent else 0) + self._top + index - int(self.scroll_offset.y)
+        return self.region.y - (self.parent.region.y if self.parent
+                                else 0) + self._top + index - int(self.scroll_offset.y)
 
     @property
     def _top(self) -> int:
@@ -248,7 +250,8 @@ class RowList(ScrollView, can_focus=True):
         index = int(self.scroll_offset.y) + y - self._top
         if not self.rows:
             if y == self._top:
-                return self._strip(Text(" ") + safe(self.empty, one_line=True), width, base + self.get_component_rich_style("rowlist--empty"))
+                return self._strip(Text(" ") + safe(self.empty, one_line=True), width, base
+                                   + self.get_component_rich_style("rowlist--empty"))
             return Strip.blank(width, base)
         if index >= len(self.rows):
             return Strip.blank(width, base)
@@ -272,7 +275,8 @@ class RowList(ScrollView, can_focus=True):
             cls = "rowlist--cursor" if self.has_focus else "rowlist--cursor-blur"
             style = self.get_component_rich_style(cls)
             text.stylize(style)
-            return Strip(list(Segment.apply_style(text.render(self.app.console), base))).crop_extend(0, width, base + style)
+            return Strip(list(Segment.apply_style(text.render(self.app.console),
+                                                  base))).crop_extend(0, width, base + style)
         return self._strip(text, width, base)
 
     def on_focus(self) -> None:

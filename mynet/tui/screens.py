@@ -2,16 +2,15 @@
 
 from __future__ import annotations
 
-
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
 
-from .page import Page, TopBar
 from .data import Snapshot, tier_of
 from .look import SUGGESTED, Label, Static, clip, density_cell, plural, warmth_bar
+from .page import Page, TopBar
 from .rowlist import Col, Row, RowList
 from .views_main import NameEditor, group_facts, group_title
 
@@ -56,7 +55,8 @@ class GroupScreen(Page):
     def refresh_view(self, snap: Snapshot) -> None:
         g = snap.group(self.gid)
         if self.gid is not None and g is None:
-            self.query_one("#group-head", Static).update("This group no longer exists after the last change; Escape goes back.")
+            self.query_one("#group-head",
+                           Static).update("This group no longer exists after the last change; Escape goes back.")
             self.query_one(RowList).set_rows([])
             return
         members = g.members if g else snap.ungrouped()
@@ -70,7 +70,8 @@ class GroupScreen(Page):
         self.query_one(RowList).set_rows(rows)
         head = self.query_one("#group-head", Static)
         if g is None:
-            head.update(Text.assemble(("In no group", "bold"), f"\n{plural(len(members), 'person', 'people')} with too few ties "
+            head.update(Text.assemble(("In no group", "bold"),
+                                      f"\n{plural(len(members), 'person', 'people')} with too few ties "
                                       "to belong to a group; warmest first."))
         else:
             title = group_title(snap, self.gid)
@@ -105,7 +106,8 @@ def gateways(snap: Snapshot, gid: int, limit: int = 8) -> list[tuple[int, int, s
         others = {snap.group_of(o) for o, _s, _r in snap.ties_of(m)} - {gid, None}
         if others:
             out.append((m, len(others), snap.role(m)))
-    out.sort(key=lambda x: (-x[1], -(snap.analysis.measures.get(x[0], {}).get("participation") or 0), snap.net.name(x[0])))
+    out.sort(key=lambda x: (-x[1], -(snap.analysis.measures.get(x[0], {}).get("participation") or 0),
+                            snap.net.name(x[0])))
     return out[:limit]
 
 
@@ -154,7 +156,8 @@ class LinksScreen(Page):
                 here, there = there, here
             carriers_here |= set(here)
             fragile = " !" if snap.fragile(gid, other) else ""
-            rows.append(Row(("group", other), (group_title(snap, other), density_cell(x["density"]) + Text(f" {x['ties']:>5}"),
+            rows.append(Row(("group", other),
+                            (group_title(snap, other), density_cell(x["density"]) + Text(f" {x['ties']:>5}"),
                                                 f"carried by {len(here)} here, {len(there)} there{fragile}")))
         bridges = [b for b in snap.analysis.bridges if gid in b["groups"]]
         if bridges:
@@ -169,7 +172,8 @@ class LinksScreen(Page):
             if len(ends) == 1:
                 here, b = ends[0]
                 kind = "local bridge, " if b.get("local_bridge") else ""
-                rows.append(Row(("person", here, there), (f"{net.name(here)} – {net.name(there)}", f"{b['strength']:.2f}",
+                rows.append(Row(("person", here, there),
+                                (f"{net.name(here)} – {net.name(there)}", f"{b['strength']:.2f}",
                                                            f"{kind}to {where}")))
             else:
                 names = ", ".join(net.name(h) for h, _b in ends[:2]) + (f" +{len(ends) - 2}" if len(ends) > 2 else "")
@@ -182,15 +186,18 @@ class LinksScreen(Page):
             rows.append(Row(("person", m), (net.name(m), f"{n} group{'s' if n != 1 else ''}", role)))
         access = [e for e in snap.analysis.access if e.get("member_of") == gid or gid in (e.get("groups") or [])]
         if access:
-            rows.append(Row("h4", ("Single points of access: without them, people are cut off from you",), heading=True))
+            rows.append(Row("h4", ("Single points of access: without them, people are cut off from you",),
+                            heading=True))
         for e in access[:12]:
-            where = "member" if e.get("member_of") == gid else f"outside, in {clip(snap.group_name(e.get('member_of')), 20)}"
-            rows.append(Row(("person", e["person"]), (net.name(e["person"]), f"{len(e['cut_off'])} cut off",
-                                                       f"{where}; alone reaches {len(e.get('groups') or [])} group(s)")))
+            outside = clip(snap.group_name(e.get("member_of")), 20)
+            where = "member" if e.get("member_of") == gid else f"outside, in {outside}"
+            reaches = f"{where}; alone reaches {len(e.get('groups') or [])} group(s)"
+            rows.append(Row(("person", e["person"]), (net.name(e["person"]), f"{len(e['cut_off'])} cut off", reaches)))
         self.query_one(RowList).set_rows(rows)
         head.update(Text.assemble((clip(("" if g.user_named else SUGGESTED) + g.name, 60), "bold"),
                                   f"\nTied to {plural(len(links), 'other group')} through {len(carriers_here)} of its "
-                                  f"{g.size} members; " + (f"{plural(len(access), 'single point')} of access." if access else
+                                  f"{g.size} members; "
+                                  + (f"{plural(len(access), 'single point')} of access." if access else
                                                             "no single point of access.")))
 
     def on_row_list_selected(self, event: RowList.Selected) -> None:

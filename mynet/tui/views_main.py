@@ -13,8 +13,8 @@ from textual.widgets import Input
 from ..safetext import shown
 from .data import Snapshot, tier_of
 from .groupmap import GroupMap, legend
-from .page import AppAccess, View
 from .look import SUGGESTED, Label, Static, clip, plural, warmth_bar
+from .page import AppAccess, View
 from .rowlist import Col, Row, RowList
 
 __all__ = ["GroupsView", "MapView", "PeopleView", "NameEditor", "group_title", "share_bar", "UNGROUPED"]
@@ -135,7 +135,8 @@ class GroupsView(View, Vertical):
                                    str(linked.get(g.id, 0)))))
         loose = snap.ungrouped()
         if loose:
-            rows.append(Row(UNGROUPED, ("", Text("in no group (too few ties)", style="italic"), f"{len(loose):,}", "", "")))
+            rows.append(Row(UNGROUPED,
+                            ("", Text("in no group (too few ties)", style="italic"), f"{len(loose):,}", "", "")))
         lst = self.query_one(RowList)
         lst.empty = ("No groups: this workspace has no contacts yet (mynet import FILE)." if not snap.analysis.group_of
                      else "No groups: mynet found no ties between your contacts yet.")
@@ -148,7 +149,8 @@ class GroupsView(View, Vertical):
         if snap is None or key is None:
             detail.update("")
         elif key == UNGROUPED:
-            detail.update(f"{plural(len(snap.ungrouped()), 'person', 'people')} have too few ties to belong to a group.\n"
+            detail.update(f"{plural(len(snap.ungrouped()), 'person', 'people')} have too few ties to belong to a "
+                          f"group.\n"
                           "Enter lists them.")
         else:
             detail.update(group_facts(snap, key))
@@ -209,7 +211,8 @@ class MapView(View, Vertical):
             return
         if g == h:
             ties, density = snap.internal(g)
-            detail.update(f"{'' if gi.user_named else SUGGESTED}{clip(gi.name, 40)}: {plural(gi.size, 'person', 'people')}, {plural(ties, 'tie')} inside "
+            detail.update(f"{'' if gi.user_named else SUGGESTED}{clip(gi.name, 40)}: "
+                          f"{plural(gi.size, 'person', 'people')}, {plural(ties, 'tie')} inside "
                           f"(density {density:.2f}).\nEnter opens the group.")
             return
         link = snap.link(g, h)
@@ -219,12 +222,14 @@ class MapView(View, Vertical):
         here, there = link.get("carriers") or ([], [])
         if g > h:
             here, there = there, here
-        lines = [f"{clip(gi.name, 30)} ↔ {clip(hi.name, 30)}: {plural(link['ties'], 'tie')} (density {link['density']:.3f}), "
+        lines = [f"{clip(gi.name, 30)} ↔ {clip(hi.name, 30)}: {plural(link['ties'], 'tie')} (density "
+                 f"{link['density']:.3f}), "
                  f"carried by {len(here)} of {gi.size} and {len(there)} of {hi.size}."]
         best = snap.bridges_between(g, h)[:2]
         if best:
             lines.append("Bridges: " + "; ".join(
-                f"{snap.net.name(b['a'])} – {snap.net.name(b['b'])} ({b['strength']:.2f}{', local bridge' if b.get('local_bridge') else ''})"
+                f"{snap.net.name(b['a'])} – {snap.net.name(b['b'])} "
+                f"({b['strength']:.2f}{', local bridge' if b.get('local_bridge') else ''})"
                 for b in best))
         lines.append("Enter shows how the row's group connects to the rest.")
         detail.update("\n".join(lines))

@@ -12,12 +12,12 @@ from textual.widgets import Input, OptionList
 from textual.widgets.option_list import Option
 from textual.worker import WorkerState
 
-from ..errors import MynetError
 from ..analysis.intro_routes import reach, resolve_targets
+from ..errors import MynetError
 from ..safetext import shown
 from .data import Choice, Snapshot, tier_of
-from .page import View
 from .look import Static, clip, plural, safe, severity_tag
+from .page import View
 from .rowlist import Col, Row, RowList
 
 __all__ = ["ReachView", "DuplicatesView", "FindingsView", "match_choices", "path_text"]
@@ -112,7 +112,8 @@ class ReachView(View, Vertical):
         options.clear_options()
         for ch in self.choices:
             extra = f"  {plural(ch.count, 'person', 'people')}" if ch.kind != "person" else ""
-            options.add_option(Option(safe(Text.assemble((f"{KIND_WORD[ch.kind]:<7}", "bold"), ch.label, (extra, "italic")),
+            options.add_option(Option(safe(Text.assemble((f"{KIND_WORD[ch.kind]:<7}", "bold"), ch.label,
+                                                         (extra, "italic")),
                                            one_line=True)))
         options.display = bool(self.choices)
         if self.choices:
@@ -176,7 +177,8 @@ class ReachView(View, Vertical):
                                 hits = snap.search(value)
                                 if len(hits) != 1:
                                     raise MynetError(str(exc))
-                                targets = resolve_targets(net, to=str(hits[0].id), find_contact=lambda q: net.by_id[int(q)])
+                                targets = resolve_targets(net, to=str(hits[0].id),
+                                                          find_contact=lambda q: net.by_id[int(q)])
                             else:
                                 targets = resolve_targets(net, tag=value)
                             break
@@ -222,7 +224,8 @@ class ReachView(View, Vertical):
         if not result.paths:
             head += ". No intro path within 2 intermediaries; add ties you know of from a person's page (t)."
         self.query_one("#reach-head", Static).update(head)
-        rows = [Row(i, (str(i + 1), f"{p['score']:.3f}", " → ".join(["you", *p["names"]]))) for i, p in enumerate(result.paths)]
+        rows = [Row(i, (str(i + 1), f"{p['score']:.3f}", " → ".join(["you", *p["names"]])))
+                for i, p in enumerate(result.paths)]
         self.query_one(RowList).set_rows(rows, keep=False)
         self.query_one(RowList).focus()
         self.mynet_app.status_text = f"{plural(len(result.paths), 'intro path')}, best first."
@@ -287,7 +290,8 @@ class DuplicatesView(View, Vertical):
             lst.set_rows([])
             return
         net = snap.net
-        todo = [s for s in snap.extras.suggestions if (s.a, s.b) not in self.decided and s.a in net.by_id and s.b in net.by_id]
+        todo = [s for s in snap.extras.suggestions if (s.a, s.b) not in self.decided and s.a in net.by_id
+                and s.b in net.by_id]
         rows = [Row((s.a, s.b), (f"{s.score:.2f}", net.name(s.a), net.name(s.b), s.reason,
                                  "later" if (s.a, s.b) in self.skipped else "")) for s in todo]
         lst.set_rows(rows)
@@ -367,7 +371,8 @@ class FindingsView(View, Vertical):
             lst.set_rows([])
             return
         self.findings = snap.extras.findings
-        lst.set_rows([Row(i, (severity_tag(f.get("severity", "low")), f.get("title", ""))) for i, f in enumerate(self.findings)])
+        lst.set_rows([Row(i, (severity_tag(f.get("severity", "low")), f.get("title", "")))
+                      for i, f in enumerate(self.findings)])
         self.show(lst.current_key)
 
     def show(self, key) -> None:
@@ -384,10 +389,12 @@ class FindingsView(View, Vertical):
         snap = self.mynet_app.snapshot
         plain = {k: v for k, v in numbers.items() if not isinstance(v, (list, tuple, dict))}
         if plain:
-            out.append(shown("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in plain.items())), style="italic")
+            out.append(shown("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in plain.items())),
+                       style="italic")
         people = numbers.get("people")
         if snap is not None and isinstance(people, list) and people and all(isinstance(p, int) for p in people):
-            out.append(shown("\nPeople: " + ", ".join(snap.net.name(p) for p in people[:12]) + ("…" if len(people) > 12 else "")))
+            out.append(shown("\nPeople: " + ", ".join(snap.net.name(p) for p in people[:12])
+                             + ("…" if len(people) > 12 else "")))
         if f.get("suggestion"):
             out.append("\nWhat to do: ", style="bold")
             out.append(shown(f["suggestion"]))

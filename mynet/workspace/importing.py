@@ -94,7 +94,8 @@ class ImportReport:
             "not_people": self.not_people,
             "suggested_merges": self.suggestions,
             "found_in_mail_or_calendar": self.found,
-            "phone_region": {"region": self.region, "why": self.region_why, "numbers_without_country_code": self.national_numbers},
+            "phone_region": {"region": self.region, "why": self.region_why,
+                             "numbers_without_country_code": self.national_numbers},
             "skipped": [
                 {"file": s.source, "line": s.line, "index": s.index, "reason": s.reason} for s in self.skipped
             ],
@@ -185,10 +186,12 @@ def import_paths(
     is_forgotten = forgotten_filter(store)
     assumed = (json.loads(store.meta("region_assumed", "{}") or "{}") or {}).get("region", "")
     with store.transaction():
-        for (key_path, path, size, digest, result), fr in zip(parsed, [f for f in report.files if f.status in ("imported", "updated")]):
+        for (key_path, path, size, digest,
+             result), fr in zip(parsed, [f for f in report.files if f.status in ("imported", "updated")]):
             kept = [r for r in result.records if not is_forgotten(r, (region or assumed or "").upper())]
             if len(kept) != len(result.records):
-                fr.warnings.append(f"{len(result.records) - len(kept)} record(s) of people you asked mynet to forget were left out")
+                fr.warnings.append(f"{len(result.records) - len(kept)} record(s) of people you asked mynet to forget "
+                                   f"were left out")
                 fr.records = len(kept)
                 result.records = kept
             if scrub_forgotten(store, result.interactions):

@@ -245,7 +245,8 @@ class PeopleMixin:
         (``declared``: whether you ever said who you are).
         """
         raw = self.store.setting("me", {}) or {}
-        return {"declared": bool(raw), "emails": raw.get("emails", []), "names": raw.get("names", []), "phones": raw.get("phones", []),
+        return {"declared": bool(raw), "emails": raw.get("emails", []), "names": raw.get("names", []),
+                "phones": raw.get("phones", []),
                 "also_you": json.loads(self.store.meta("me_seen_as", "[]") or "[]"),
                 "phone_region": json.loads(self.store.meta("region_assumed", "{}") or "{}") or {}}
 
