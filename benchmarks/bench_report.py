@@ -34,6 +34,7 @@ from mynet.evidence.network import load_network  # noqa: E402
 from mynet.report import write_report  # noqa: E402
 from mynet.report.export import export_network  # noqa: E402
 from mynet.store import Store  # noqa: E402
+from mynet.workspace import Workspace  # noqa: E402
 from mynet.workspace.importing import import_paths  # noqa: E402
 from mynet.workspace.people import set_me  # noqa: E402
 
@@ -108,13 +109,13 @@ def bench(name: str, store, out: Path) -> None:
                                   ("Markdown report", {"markdown": True}, "md")):
         steps: list[tuple[str, float]] = []
         t0 = time.perf_counter()
-        secs, path = timed(write_report, store,
+        secs, path = timed(write_report, Workspace.over(store),
                            out / f"{name}-{label.split(',')[0][:4]}{'-r' if kwargs.get('redact') else ''}.{suffix}",
                            progress=lambda s: steps.append((s, time.perf_counter() - t0)), **kwargs)
         marks = [f"{s} {t:.2f}" for s, t in steps]
         print(f"  {label:<24} {secs:6.2f} s  {path.stat().st_size / 1e6:5.2f} MB   (step starts: {', '.join(marks)})")
     for fmt in ("graphml", "csv", "json"):
-        secs, paths = timed(export_network, store, out / f"{name}.{fmt}")
+        secs, paths = timed(export_network, Workspace.over(store), out / f"{name}.{fmt}")
         print(f"  export {fmt:<17} {secs:6.2f} s  {sum(p.stat().st_size for p in paths) / 1e6:5.2f} MB")
 
 
