@@ -480,7 +480,8 @@ def main() -> None:
     print(f"\n{'cases':<20}{'tried':>7}{'handled':>9}{'good records':>14}{'lost':>6}")
     for group in sorted(tried):
         print(f"{group:<20}{tried[group]:>7}{handled[group]:>9}{known[group]:>14}{lost[group]:>6}")
-    print(f"{'total':<20}{sum(tried.values()):>7}{sum(handled.values()):>9}{sum(known.values()):>14}{sum(lost.values()):>6}")
+    totals = [sum(d.values()) for d in (tried, handled, known, lost)]
+    print(f"{'total':<20}{totals[0]:>7}{totals[1]:>9}{totals[2]:>14}{totals[3]:>6}")
 
 
 if __name__ == "__main__":

@@ -59,7 +59,8 @@ def test_same_partition_as_python_louvain_with_the_same_seed():
     nodes = sorted(G)
     H = nx.Graph()
     H.add_nodes_from(range(len(nodes)))
-    H.add_weighted_edges_from(sorted((min(nodes.index(u), nodes.index(v)), max(nodes.index(u), nodes.index(v)), float(w))
+    H.add_weighted_edges_from(sorted((min(nodes.index(u), nodes.index(v)), max(nodes.index(u), nodes.index(v)),
+                                      float(w))
                                      for u, v, w in G.edges(data="weight")))
     seen = set()
     for seed in range(12):
@@ -181,7 +182,8 @@ def test_python_louvain_resolution_below_one_behaves_as_documented():
 
 def test_fragments_and_isolates_are_unclustered():
     G = nx.Graph()
-    G.add_weighted_edges_from([(1, 2, 1.0), (2, 3, 1.0), (1, 3, 1.0), (3, 4, 0.2), (4, 5, 1.0), (5, 6, 1.0), (4, 6, 1.0)])
+    G.add_weighted_edges_from([(1, 2, 1.0), (2, 3, 1.0), (1, 3, 1.0), (3, 4, 0.2), (4, 5, 1.0), (5, 6, 1.0),
+                               (4, 6, 1.0)])
     G.add_weighted_edges_from([(4, 7, 0.9), (5, 7, 0.9), (6, 7, 0.9)])  # 4-7 form the bigger group
     G.add_weighted_edges_from([(10, 11, 1.0)])  # a pair on its own
     G.add_node(20)  # an isolate

@@ -77,11 +77,13 @@ def test_strength_is_monotone_and_multiplex():
     base = [person(1, "A", ["Quillon Labs"]), person(2, "B", ["Quillon Labs Inc."])]
     t0 = infer_ties(base, [], ME)
     one = infer_ties(base, [meeting(0, ["p1@mail1.example", "p2@mail2.example", "you@example.org"])], ME)
-    two = infer_ties(base, [meeting(k, ["p1@mail1.example", "p2@mail2.example", "you@example.org"]) for k in range(2)], ME)
+    two = infer_ties(base, [meeting(k, ["p1@mail1.example", "p2@mail2.example", "you@example.org"]) for k in range(2)],
+                     ME)
     s0, s1, s2 = t0.strength[0], one.strength[0], two.strength[0]
     assert 0 < s0 < s1 < s2 < 1
     # Two kinds combine as a noisy-OR: 1 - (1 - s_org)(1 - s_meet).
-    only_meet = infer_ties([person(1, "A"), person(2, "B")], [meeting(0, ["p1@mail1.example", "p2@mail2.example", "you@example.org"])], ME)
+    only_meet = infer_ties([person(1, "A"), person(2, "B")],
+                           [meeting(0, ["p1@mail1.example", "p2@mail2.example", "you@example.org"])], ME)
     assert s1 == pytest.approx(1 - (1 - s0) * (1 - only_meet.strength[0]))
 
 
@@ -126,7 +128,8 @@ def test_tags_and_related():
 def test_threads_count_once_per_thread_and_bulk_is_ignored():
     cs = [person(1, "A"), person(2, "B")]
     msgs = [Interaction(kind="message", source="m.mbox", index=k, line=1, when="2026-01-01", key=f"m{k}", thread="t1",
-                        sender="p1@mail1.example", participants=["p1@mail1.example", "p2@mail2.example", "you@example.org"])
+                        sender="p1@mail1.example",
+                        participants=["p1@mail1.example", "p2@mail2.example", "you@example.org"])
             for k in range(4)]
     msgs.append(Interaction(kind="message", source="m.mbox", index=9, line=1, when="2026-01-01", key="b", thread="t9",
                             participants=["p1@mail1.example", "p2@mail2.example"], bulk=True))

@@ -260,7 +260,8 @@ def detect_groups(
     --------
     >>> import networkx as nx
     >>> G = nx.Graph()
-    >>> G.add_weighted_edges_from([(1, 2, 1.0), (2, 3, 1.0), (1, 3, 1.0), (4, 5, 1.0), (5, 6, 1.0), (4, 6, 1.0), (3, 4, 0.1)])
+    >>> G.add_weighted_edges_from([(1, 2, 1.0), (2, 3, 1.0), (1, 3, 1.0), (4, 5, 1.0), (5, 6, 1.0), (4, 6, 1.0),
+    ...                            (3, 4, 0.1)])
     >>> sorted(sorted(m) for m in detect_groups(G).groups.values())
     [[1, 2, 3], [4, 5, 6]]
     """
@@ -474,10 +475,10 @@ def suggest_label(
     Each member counts once per value (an organisation held now and in the
     past counts once). Values are compared folded (case, accents and
     punctuation; organisations also without "The" and legal forms, see
-    :func:`mynet.normalise.normalise_org`; domains lower-cased) and shown in
+    :func:`mynet.people.normalise.normalise_org`; domains lower-cased) and shown in
     the members' most common original spelling (ties: the first in code-point
     order). Values that say nothing about a group are skipped: placeholder
-    employers (:func:`mynet.normalise.is_real_org`), generic address-book
+    employers (:func:`mynet.people.normalise.is_real_org`), generic address-book
     labels (``GENERIC_TAGS``) and public webmail domains.
 
     Parameters

@@ -1,7 +1,7 @@
 """The meetings and mail threads that tie evidence is counted over, defined once.
 
 :func:`evidence_events` says what a shared meeting or thread is; the tie
-inference (:func:`mynet.ties.infer_ties`) counts over these events and
+inference (:func:`mynet.evidence.ties.infer_ties`) counts over these events and
 :class:`EventIndex` lists them for one pair (``mynet why``, the browser), so a
 tie's counts and its explanation always agree.
 """
@@ -38,7 +38,7 @@ class Event:
 
 @dataclass
 class EventLists:
-    """The evidence events as parallel lists (what :func:`mynet.ties.infer_ties` needs, with no object per event)."""
+    """The evidence events as parallel lists (what :func:`mynet.evidence.ties.infer_ties` needs; no object each)."""
 
     meeting_parts: list[list[str]]
     meeting_items: list[Interaction]
@@ -53,7 +53,7 @@ def event_lists(interactions: Iterable[Interaction]) -> EventLists:
     This is the one place that says what a shared meeting or thread is: a
     meeting's participants are its attendees; a thread's are everyone in any of
     its messages (grouped by thread root, else the message itself).
-    :func:`mynet.ties.infer_ties` counts over these events and
+    :func:`mynet.evidence.ties.infer_ties` counts over these events and
     :class:`EventIndex` lists them for one pair, so a tie's counts and its
     explanation always agree.
     """

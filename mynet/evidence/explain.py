@@ -206,8 +206,8 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
             ev["units"] = units
         if not org_counted and sizes.get(norm, 0) > net.model.size_ref and net.model.assumed_cap:
             ev["counted"] = False
-            ev["why_not"] = (f"{sizes[norm]} of your contacts are there; inside an organisation that large only "
-                             f"{net.model.assumed_cap} links per person count, best first")
+            ev["why_not"] = (f"{sizes[norm]} of your contacts are there; inside an organisation that large each "
+                             f"person keeps only as many links as people there are seen to know, best first")
         evidence.append(ev)
     shared = ix.events.shared(a_id, b_id, net.model.broadcast_cap)
     meetings = [ev.items[0] for ev in shared["meeting"]]

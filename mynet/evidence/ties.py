@@ -16,7 +16,9 @@ Each kind of evidence ``k`` gives a pair a non-negative amount ``x_k``:
   ``s = org_current * min(1, sqrt(size_ref / size))``, so large organisations
   weigh less than small ones; organisations where either is only a *past*
   member use ``org_past`` instead; organisations larger than ``group_cap``
-  give no pairwise evidence;
+  give no pairwise evidence. That chance is then updated by the
+  organisation's own pairs of people seen in meetings and threads (how many
+  of them met; :func:`mynet.evidence.org_limit.org_weights`);
 * ``domain``: the same for a shared e-mail domain that is not public webmail
   (only when the pair has no organisation evidence, which usually explains it);
 * ``tag``: the same for a shared tag, category or spreadsheet group (generic
@@ -29,9 +31,10 @@ Meetings, threads, RELATED and your own ties are *observed* evidence (something
 happened or you said so); organisation, domain and tag are *assumed* (a shared
 attribute). A tie resting on assumed evidence alone is only a "may know". In a
 large organisation every pair shares the organisation, so assumed evidence alone
-would make one complete clique of all its people; see ``TieModel.org_alone_max``.
+would make one complete clique of all its people; each person keeps only as many
+of those links as the organisation's chance says they know (``TieModel.assumed_cap``).
 A shared unit of an organisation (the department of a vCard ORG) is a smaller
-group and counts as its own organisation evidence. See :mod:`mynet.org_limit`.
+group and counts as its own organisation evidence. See :mod:`mynet.evidence.org_limit`.
 
 The strength is ``1 - exp(-sum_k x_k / scale_k)``: each kind acts as an
 independent chance that the two know each other (a noisy-OR), so strength is
@@ -64,7 +67,7 @@ from ..people.normalise import email_domain, fold_text, is_real_org, is_webmail,
 from ..settings import SettingsGroup, setting
 from .events import Event, EventIndex, contact_of_email, event_lists, evidence_events
 from .labels import judge_labels
-from .org_limit import limit_large_orgs
+from .org_limit import limit_large_orgs, org_weights
 
 __all__ = [
     "TieModel",
@@ -112,13 +115,18 @@ class TieModel(SettingsGroup, group="tie_model"):
     broadcast_cap: int = setting(50, "larger meetings and threads count for nothing", low=2)
     tag_share_cap: float = setting(0.25, "tags carried by a larger share of contacts say nothing",
                                    low=0, high=1, low_open=True)
-    min_strength: float = setting(0.05, "ties weaker than this are left out of the graph", low=0, high=1, high_open=True)
+    min_strength: float = setting(0.05, "ties weaker than this are left out of the graph", low=0, high=1,
+                                  high_open=True)
     backbone_alpha: float = setting(0.0, "keep only locally significant ties (disparity filter) at this "
                                     "significance; 0 keeps every tie", low=0, high=1, high_open=True)
     size_exponent: float = setting(0.5, "how fast a shared group weighs less as it grows: base * (size_ref / size) "
                                    "to this power; 0: size does not matter", low=0)
-    assumed_cap: int = setting(10, "per person and large organisation, the assumed-only ties kept, best first "
-                               "(0: all)", low=0)
+    assumed_cap: int = setting(50, "per person and large organisation, the most assumed-only ties kept, best "
+                               "first; each keeps as many as the organisation's chance says they know (0: all)",
+                               low=0)
+    org_prior_pairs: int = setting(45, "an organisation's chances above are worth this many pairs of its people seen "
+                                   "in meetings and threads: more seen pairs that met raise them (at most to "
+                                   "org_current), seen pairs that never met lower them (0: no such rule)", low=0)
     org_alone_max: int = setting(0, "larger organisations count only for pairs with other evidence (0: no such rule)",
                                  low=0)
 
@@ -140,7 +148,7 @@ class TieTable:
     ``a`` and ``b`` are contact ids with ``a < b``; ``parts[kind]`` holds the
     pair's amount of each kind of evidence (before scaling) and ``counts`` the
     number of shared meetings and threads. ``labels`` holds the verdict on
-    every label (:class:`mynet.labels.LabelVerdict` as dicts) the tags were
+    every label (:class:`mynet.evidence.labels.LabelVerdict` as dicts) the tags were
     judged by.
     """
 
@@ -248,7 +256,7 @@ def infer_ties(
     contacts : sequence of Contact
     interactions : iterable of Interaction
         Meetings and messages as evidence sees them
-        (:func:`mynet.correspondence.clean`); bulk mail is ignored.
+        (:func:`mynet.people.correspondence.clean`); bulk mail is ignored.
     me_emails : set of str
         The user's own addresses (they count towards an event's size, but the
         user is not a node of the tie graph).
@@ -260,7 +268,7 @@ def infer_ties(
     suppressed : iterable of (id, id)
         Ties the user said are wrong; removed whatever the evidence.
     label_decisions : mapping of folded label -> "count" | "ignore"
-        Your own verdicts on labels (see :mod:`mynet.labels`); the others are judged.
+        Your own verdicts on labels (see :mod:`mynet.evidence.labels`); the others are judged.
 
     Returns
     -------
@@ -288,6 +296,17 @@ def infer_ties(
             w = 1.0 / (sizes - 1.0)
             mats[kind] = _clean(cooccurrence(B, w))
             counts[kind] = _clean(cooccurrence(B))
+
+    rel = [(min(pos[a], pos[b]), max(pos[a], pos[b])) for a, b in related if a in pos and b in pos and a != b]
+    if rel:
+        r = np.array(sorted(set(rel)))
+        mats["related"] = _clean(sp.coo_matrix(
+            (np.full(len(r), -math.log1p(-model.related)), (r[:, 0], r[:, 1])), shape=(n, n)
+        ))
+
+    man_pairs = [(min(pos[a], pos[b]), max(pos[a], pos[b])) for a, b in (manual or {})
+                 if a in pos and b in pos and a != b]
+    seen_pairs = _observed_pairs(mats, man_pairs, n)
 
     # Organisations (current: both now; past: either only in the past), and units of organisations.
     cur_groups: dict[str, list[int]] = defaultdict(list)
@@ -317,14 +336,15 @@ def infer_ties(
                 continue
             names_k = [o for o, keep in zip(names, sel) if keep]
             sizes_k = sizes[sel]
-            w_past = np.array([model.group_weight(model.org_past, s) for s in sizes_k])
-            w_cur = np.array([model.group_weight(model.org_current, s) for s in sizes_k])
             B_all = incidence([all_groups[o] for o in names_k], n)
+            w_cur, w_past = org_weights(B_all, sizes_k, seen_pairs, model)
+            if kind == "org_large":
+                chance = dict(zip(names_k, -np.expm1(-w_cur)))
             B_cur = incidence([cur_groups.get(o, []) for o in names_k], n)
             org = (cooccurrence(B_cur, w_cur) + cooccurrence(B_all, w_past) - cooccurrence(B_cur, w_past)).tocoo()
             org.eliminate_zeros()
             mats[kind] = _clean(org)
-        large_groups = [np.array(sorted(set(all_groups[o])), dtype=np.int64)
+        large_groups = [(np.array(sorted(set(all_groups[o])), dtype=np.int64), float(chance[o]))
                         for o, s, big_one in zip(names, sizes, large) if big_one and s <= model.group_cap]
     else:
         large_groups = []
@@ -341,14 +361,7 @@ def infer_ties(
         if w.any():
             mats["domain"] = _clean(cooccurrence(incidence([dom_groups[g] for g in names], n), w))
 
-    rel = [(min(pos[a], pos[b]), max(pos[a], pos[b])) for a, b in related if a in pos and b in pos and a != b]
-    if rel:
-        r = np.array(sorted(set(rel)))
-        mats["related"] = _clean(sp.coo_matrix(
-            (np.full(len(r), -math.log1p(-model.related)), (r[:, 0], r[:, 1])), shape=(n, n)
-        ))
-
-    # Labels: judged by wording and by use against every other kind of evidence (see mynet.labels).
+    # Labels: judged by wording and by use against every other kind of evidence (see mynet.evidence.labels).
     tag_groups: dict[str, list[int]] = defaultdict(list)
     shown: dict[str, str] = {}
     for i, c in enumerate(contacts):
@@ -360,8 +373,6 @@ def infer_ties(
                     tag_groups[key].append(i)
     verdicts = {}
     if tag_groups:
-        man_pairs = [(min(pos[a], pos[b]), max(pos[a], pos[b])) for a, b in (manual or {})
-                     if a in pos and b in pos and a != b]
         others = [m for k, m in mats.items()]
         if man_pairs:
             mp = np.array(man_pairs)
@@ -387,6 +398,16 @@ def infer_ties(
 _UNIT_SEP = "\x1f"
 
 
+def _observed_pairs(mats: Mapping[str, sp.coo_matrix], man_pairs: list[tuple[int, int]], n: int) -> sp.csr_matrix:
+    """The symmetric 0/1 matrix of pairs with observed evidence so far (meetings, threads, RELATED, your ties)."""
+    rows = [mats[k].row for k in OBSERVED_KINDS if k in mats] + [np.array([p[0] for p in man_pairs], dtype=np.int64)]
+    cols = [mats[k].col for k in OBSERVED_KINDS if k in mats] + [np.array([p[1] for p in man_pairs], dtype=np.int64)]
+    r, c = np.concatenate(rows).astype(np.int64), np.concatenate(cols).astype(np.int64)
+    O = sp.csr_matrix((np.ones(2 * r.size), (np.r_[r, c], np.r_[c, r])), shape=(n, n))
+    O.data[:] = 1.0
+    return O
+
+
 def _unit_key(org: str, unit: str) -> str:
     """The group key of one unit of an organisation ("" for a placeholder organisation or an empty unit)."""
     o, u = normalise_org(org), fold_text(unit)
@@ -403,7 +424,8 @@ def _event_incidence(parts: list[list[str]], emails_index, email_pos: np.ndarray
         return None, None
     sizes = np.fromiter((len(p) - (1 if p and p[0] == "" else 0) for p in parts), dtype=np.int64, count=len(parts))
     flat = list(chain.from_iterable(parts))
-    event = np.repeat(np.arange(len(parts), dtype=np.int64), np.fromiter(map(len, parts), dtype=np.int64, count=len(parts)))
+    event = np.repeat(np.arange(len(parts), dtype=np.int64),
+                      np.fromiter(map(len, parts), dtype=np.int64, count=len(parts)))
     hit = emails_index.get_indexer(flat)
     ok = hit >= 0
     rows, cols = email_pos[hit[ok]], event[ok]
@@ -457,7 +479,7 @@ def _assemble(ids, pos, n, mats, counts, model: TieModel, manual, suppressed, la
             arr[np.searchsorted(keys, _pairs_key(m, n))] = np.rint(m.data).astype(np.int64)
         cnt[kind] = arr
     man = np.zeros(keys.shape[0], dtype=bool)
-    for (a, b), s in manual.items():
+    for a, b in manual:
         if a in pos and b in pos and a != b:
             i, j = sorted((pos[a], pos[b]))
             man[np.searchsorted(keys, i * n + j)] = True
@@ -470,7 +492,7 @@ def _assemble(ids, pos, n, mats, counts, model: TieModel, manual, suppressed, la
     ia, ib = keys // n, keys % n
     x_all = sum(parts[k] / scales.get(k, 1.0) for k in KINDS)
     parts["organisation"] = parts["organisation"] + limit_large_orgs(large, parts, x_all, observed, keys, n, model,
-                                                                        large_groups)
+                                                                        large_groups, ids)
     total = sum(parts[k] / scales.get(k, 1.0) for k in KINDS)
     strength = -np.expm1(-total)
     for (a, b), s in manual.items():

@@ -1,10 +1,10 @@
 """People in your mail and calendars: who becomes a contact, which addresses are whose, and why.
 
-The identity step (:mod:`mynet.identity`) merges the records of your address
+The identity step (:mod:`mynet.people.identity`) merges the records of your address
 books. This module adds what mail and calendars say, over the whole workspace:
 
 * :func:`found_records`: the people you corresponded with (see
-  :func:`mynet.correspondence.correspondents`) who are in no address book
+  :func:`mynet.people.correspondence.correspondents`) who are in no address book
   become records of their own (``kind="found"``), with a stable key made from
   their address, so your merges, splits and ratings of them last.
 * :func:`attach_by_name`: an address your meetings and mail use under a name
@@ -40,7 +40,7 @@ FOUND_PREFIX = "found:"
 
 
 def mail_facts(store) -> MailFacts:
-    """The facts about addresses saved by the last identity refresh (see :mod:`mynet.correspondence`)."""
+    """The facts about addresses saved by the last identity refresh (see :mod:`mynet.people.correspondence`)."""
     return MailFacts.from_json(store.meta("mail_facts"))
 
 
@@ -55,7 +55,7 @@ def evidence_interactions(store, interactions: list[Interaction] | None = None) 
     """Meetings and messages as evidence sees them: aliases resolved, lists and robots out, bulk decided.
 
     Ties, warmth, explanations, the report and the terminal UI read these
-    rather than the interactions as imported (see :func:`mynet.correspondence.clean`).
+    rather than the interactions as imported (see :func:`mynet.people.correspondence.clean`).
     """
     if interactions is None:
         interactions = store.interactions()
@@ -231,7 +231,8 @@ def _locale_region() -> str:
     return ""
 
 
-def infer_region(setting: str, my_phones: Iterable[str], phones: Iterable[str], *, sample: int = 5000) -> tuple[str, str]:
+def infer_region(setting: str, my_phones: Iterable[str], phones: Iterable[str], *,
+                 sample: int = 5000) -> tuple[str, str]:
     """The country assumed for phone numbers written without one, and why (words that follow "read as GB numbers").
 
     In order: the ``region`` setting; the country of your own number
