@@ -537,3 +537,22 @@ def test_rfc5545_mime_headers_from_corpus(corpus_dir):
     assert m.participants == ["jdoe@example.com", "jsmith@example.com"]
     assert m.key == "id3@example.com"
     assert m.when == ""  # the RFC's header lines have no Date
+
+
+@pytest.mark.parametrize("ending", [b"\r", b"\r\r\n"])
+def test_lines_ended_by_cr_alone_or_cr_cr_lf_are_read(ending):
+    # RFC 5322 section 2.1 wants CRLF; files from old Mac systems end lines with CR alone, and some exports
+    # double the CR. Every message is read, with the line numbers of the file.
+    def message(n, sender, to, reply=""):
+        lines = [b"From x@y.example Mon Jan  1 00:00:00 2024", b"From: " + sender, b"To: " + to,
+                 b"Date: Mon, 1 Jan 2024 1%d:00:00 +0000" % n, b"Subject: hi", b"Message-ID: <%d@x.example>" % n]
+        if reply:
+            lines.append(b"In-Reply-To: " + reply)
+        return ending.join(lines + [b"", b"body", b""]) + ending
+
+    data = message(1, b"Ana Lind <ana@orsolan.example>", b"Bo Ek <bo@orsolan.example>")
+    data += message(2, b"Bo Ek <bo@orsolan.example>", b"Ana Lind <ana@orsolan.example>", b"<1@x.example>")
+    res = parse_mail(data, "cr.mbox")
+    assert [m.line for m in res.interactions] == [1, 10]
+    assert [m.sender for m in res.interactions] == ["ana@orsolan.example", "bo@orsolan.example"]
+    assert res.interactions[1].thread == res.interactions[0].thread

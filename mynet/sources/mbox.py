@@ -69,6 +69,7 @@ __all__ = ["parse_mail", "decode_words", "bulk_reason", "iter_mbox_messages", "r
 MAX_KEPT = 200
 
 _BOM = b"\xef\xbb\xbf"
+_LONE_CR = re.compile(rb"\r(?!\n)")
 LEADING_BLANK = re.compile(rb"[\r\n]*")
 _FROM_CANDIDATE = re.compile(rb"^From ", re.M)
 # RFC 5322 section 3.6.8: a field name is printable US-ASCII except ":";
@@ -344,6 +345,10 @@ def parse_mail(
         data = data[len(_BOM):]
     if not data.strip():
         raise InputError(path, "is empty")
+    if b"\r" in data and _LONE_CR.search(data):
+        # Lines ended by CR alone (old Mac files, or mixed within one file) and by CR CR LF are read as one
+        # line end each, so line numbers stay those of the file.
+        data = _LONE_CR.sub(b"\n", data.replace(b"\r\r\n", b"\r\n"))
     lead = LEADING_BLANK.match(data).end()
     if single:
         start = lead
