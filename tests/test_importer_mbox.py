@@ -334,6 +334,20 @@ def test_envelope_shaped_from_line_after_blank_line_splits_even_without_headers(
     assert [(s.line, s.index, s.reason) for s in result.skipped] == [(10, 1, "message has no header fields")]
 
 
+def test_whole_envelope_line_without_the_blank_line_before_it_opens_a_message():
+    # Line ends mixed on the way: "Message-ID: x\r" then the blank line's "\n" read as one CR LF, so the
+    # body runs straight into the next envelope line. A whole envelope line (sender, asctime date with
+    # its year; the traditional mbox "From_" line) followed by a header field still opens a message.
+    data = (b"From ada@example.org Mon Jan  5 10:00:00 2026\r\nFrom: ada@example.org\rTo: ben@example.org\r\n"
+            b"Message-ID: <m1@example.org>\r\nbody\r\n"
+            b"From ben@example.org Tue Jan  6 10:00:00 2026\nFrom: ben@example.org\nTo: ada@example.org\n\nbody\n")
+    result = parse_mail(data, "a.mbox")
+    assert [m.sender for m in result.interactions] == ["ada@example.org", "ben@example.org"]
+    # a body line that merely starts like an envelope, or is one without a header after it, still does not
+    body = "text\nFrom ada@example.org Mon Jan  5 10:00:00 2026\nnot a field\nFrom here on\n"
+    assert len(parse_mail(mbox(msg(*BASIC, body=body)), "a.mbox").interactions) == 1
+
+
 def test_crlf_mbox_reads_like_lf():
     text = "".join([msg(*BASIC, body="Body\nFrom inside\n"),
                     msg("From: ben@example.org", "To: ada@example.org", "Subject: x\n  y")])

@@ -15,6 +15,9 @@ Choices made here (the rest of mynet relies on them)
   (``From sender Mon Jan ...``). This reads mboxo and mboxrd alike: a body line
   ``From ...`` after a non-blank line, or a quoted ``>From ...``, never starts a
   message, and neither does a body paragraph that merely begins with "From".
+  The one exception: a whole envelope line (sender and asctime date with its
+  year) followed by a header field starts a message even without the blank
+  line before it, which files whose line ends were mixed up lose.
 * A missing or unreadable ``Date`` keeps the message with ``when=""``; one
   warning per file counts such messages and gives their lines.
 * ``when`` is the Date converted to UTC, ``YYYY-MM-DDTHH:MM:SS+00:00``. A
@@ -77,6 +80,14 @@ _FROM_CANDIDATE = re.compile(rb"^From ", re.M)
 _HEADER_LINE = re.compile(rb"[!-9;-~]+[ \t]*:")
 _ENVELOPE = re.compile(rb"From \S+[ \t]+(?:Mon|Tue|Wed|Thu|Fri|Sat|Sun)\b")
 _BLANK_LINE = re.compile(rb"\n\r?\n")
+# The whole envelope line as mbox writers put it (asctime: "Mon Jan  5 10:00:00 2026",
+# an optional zone before the year): strong enough to open a message even where the
+# blank line before it was lost (a file whose line ends were mixed up on the way).
+_FULL_ENVELOPE = re.compile(
+    rb"From \S+[ \t]+(?:Mon|Tue|Wed|Thu|Fri|Sat|Sun)[ \t]+"
+    rb"(?:Jan|Feb|Mar|Apr|May|Jun|Jul|Aug|Sep|Oct|Nov|Dec)[ \t]+\d{1,2}[ \t]+"
+    rb"\d{1,2}:\d{2}(?::\d{2})?(?:[ \t]+[A-Za-z0-9+-]+)?[ \t]+\d{4}[ \t]*\r?\n"
+)
 
 
 def _squash(text: str) -> str:
@@ -94,7 +105,11 @@ def iter_mbox_messages(data: bytes):
 
     A message starts at a ``From `` line that opens the file or follows a blank
     line, and whose next line is a header field or which has the envelope
-    shape ``From <sender> <weekday> ...`` (see the module notes).
+    shape ``From <sender> <weekday> ...`` (see the module notes). A whole
+    envelope line (``From <sender> <asctime date>``) followed by a header field
+    opens a message even without the blank line before it, which is lost when
+    a file's line ends were mixed (a CR alone before an LF that ended the blank
+    line reads as one CR LF).
 
     Parameters
     ----------
@@ -112,10 +127,11 @@ def iter_mbox_messages(data: bytes):
     pending: tuple[int, int] | None = None
     for match in _FROM_CANDIDATE.finditer(data):
         pos = match.start()
-        if pos != lead_end and data[pos - 2 : pos] != b"\n\n" and data[pos - 3 : pos] != b"\n\r\n":
-            continue
         eol = data.find(b"\n", pos)
         after = len(data) if eol < 0 else eol + 1
+        after_blank = pos == lead_end or data[pos - 2 : pos] == b"\n\n" or data[pos - 3 : pos] == b"\n\r\n"
+        if not after_blank and not (_FULL_ENVELOPE.match(data, pos) and _HEADER_LINE.match(data, after)):
+            continue
         if not (_HEADER_LINE.match(data, after) or _ENVELOPE.match(data, pos)):
             continue
         line += data.count(b"\n", counted_to, pos)
