@@ -20,7 +20,11 @@ __all__ = [
     "Interaction",
     "Evidence",
     "Tie",
+    "SORTS",
 ]
+
+#: How a list of contacts can be ordered (``Workspace.contacts(sort=...)``, ``mynet contacts --sort``).
+SORTS = ("id", "name", "warmth", "last")
 
 
 _ADDRESS_ONLY = re.compile(r"^<?(?:mailto:)?[^\s@<>]+@[^\s@<>]+\.[^\s@<>]+>?$", re.IGNORECASE)

@@ -20,13 +20,14 @@ from collections import Counter
 from datetime import date
 from typing import Any, Iterable
 
-import networkx as nx
-
 from ..evidence.network import Network
+from ..lazy import lazy_module
 from ..people.normalise import is_real_org, normalise_org
 from .bridges import EGO
 from .centrality import structural_holes
 from .snapshot import Analysis, tie_graph
+
+nx = lazy_module("networkx")
 
 __all__ = ["blau_index", "shannon_evenness", "ego_brokerage", "audit", "small_world_words", "WARM"]
 

@@ -14,10 +14,10 @@ import json
 from dataclasses import asdict, dataclass, field
 from typing import Any, Mapping
 
-import networkx as nx
 import numpy as np
 
 from ..evidence.network import Network, load_network
+from ..lazy import lazy_module
 from ..people.mailpeople import not_employer_domains
 from ..people.normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
 from ..settings import SettingsGroup, setting
@@ -26,6 +26,8 @@ from .bridges import group_bridges, group_links, single_points_of_access
 from .centrality import EXACT_LIMIT, SAMPLES, contact_measures
 from .groups import detect_groups, match_groups, suggest_label
 from .structure import network_summary
+
+nx = lazy_module("networkx")
 
 __all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest",
            "load_analysis", "contact_attrs",

@@ -11,13 +11,15 @@ from __future__ import annotations
 
 import json
 import shutil
-from typing import Any, Iterable, Sequence
+from typing import TYPE_CHECKING, Any, Iterable, Sequence
 
 import click
 
-from ..evidence.network import AsOf, Network
 from ..safetext import json_escape, shown
-from ..workspace import Workspace, open_workspace
+
+if TYPE_CHECKING:  # the workspace (and numpy, the analysis...) loads when a command runs, never for --help
+    from ..evidence.network import AsOf, Network
+    from ..workspace import Workspace
 
 
 class Ctx:
@@ -29,6 +31,8 @@ class Ctx:
 
     def workspace(self, *, create: bool = True) -> Workspace:
         if self._workspace is None:
+            from ..workspace import open_workspace
+
             self._workspace = open_workspace(self.path, create=create)
             click.get_current_context().call_on_close(self._workspace.close)
         return self._workspace

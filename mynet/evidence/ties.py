@@ -59,15 +59,17 @@ from itertools import chain
 from typing import Any, Iterable, Mapping, Sequence
 
 import numpy as np
-import pandas as pd
-import scipy.sparse as sp
 
+from ..lazy import lazy_module
 from ..model import Contact, Interaction
 from ..people.normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
 from ..settings import SettingsGroup, setting
 from .events import Event, EventIndex, contact_of_email, event_lists, evidence_events
 from .labels import judge_labels
 from .org_limit import limit_large_orgs, org_weights
+
+pd = lazy_module("pandas")
+sp = lazy_module("scipy.sparse")
 
 __all__ = [
     "TieModel",

@@ -19,7 +19,7 @@ from ..errors import NotFoundError
 from ..evidence.explain import basis, evidence_summary, explain_tie, tie_words
 from ..evidence.network import AsOf, Network, load_network, load_warmth, resolve_as_of, warmth_cache_key
 from ..evidence.warmth import Warmth, unlisted_people
-from ..model import Contact
+from ..model import SORTS, Contact
 from ..people.mailpeople import evidence_interactions, me_emails
 from ..people.normalise import normalise_email
 from ..store import Store
@@ -35,8 +35,6 @@ __all__ = ["ResultsMixin", "Rows", "contact_fields", "SORTS"]
 
 Day = AsOf | date | str | None
 
-#: How :meth:`ResultsMixin.contacts` can order the contacts.
-SORTS = ("id", "name", "warmth", "last")
 
 _MONTH = re.compile(r"^(\d{4})-(\d{2})")
 
