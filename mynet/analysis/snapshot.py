@@ -16,7 +16,7 @@ from typing import Any, Mapping
 
 import numpy as np
 
-from ..evidence.network import Network, load_network
+from ..evidence.network import AsOf, Network, load_network
 from ..lazy import lazy_module
 from ..people.mailpeople import not_employer_domains
 from ..people.normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
@@ -30,10 +30,10 @@ from .structure import network_summary
 nx = lazy_module("networkx")
 
 __all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest",
-           "load_analysis", "contact_attrs",
+           "load_analysis", "contact_attrs", "stamped_analysis", "stored_analysis", "stamped_group_of",
            "apply_user_decisions", "compute_analysis", "cache_key"]
 
-CACHE_KEY = "analysis:v1"
+CACHE_KEY = "analysis:v2"
 STATE_KEY = "groups_state"
 
 
@@ -257,21 +257,78 @@ def cache_key(net: Network) -> str:
     return CACHE_KEY + (f":{net.as_of.day.isoformat()}" if _looking_back(net) else "")
 
 
+def _stamp(version: int, when: AsOf) -> str:
+    """Where an analysis was last found current: the code's key, the data version, the day and whether it is cut.
+
+    Every input of :func:`cache_inputs` is fixed by these: the ties, contacts, labels and settings by the
+    data version (every import, decision and setting bumps it), your warmth by the day looked from.
+    """
+    return f"{CACHE_KEY}|{version}|{when.day.isoformat()}|{int(when.cut)}"
+
+
+def _save(store: Store, key: str, a: Analysis, stamp: str) -> None:
+    head = {k: v for k, v in a.to_json().items() if k not in ("groups", "group_of", "measures")}
+    members = set(a.group_of) | set(a.measures)
+    store.put_analysis(key, a.fingerprint, stamp, head, [asdict(g) for g in a.groups],
+                       ((c, a.group_of.get(c), a.measures.get(c, {})) for c in sorted(members)))
+
+
+def stored_analysis(store: Store, key: str, *, measures: bool = True) -> Analysis | None:
+    """The analysis kept under ``key`` whatever it was computed from (the caller checks it), or None.
+
+    ``measures=False`` leaves every contact's measures out (``measures`` is then empty).
+    """
+    head = store.analysis_head(key)
+    if head is None:
+        return None
+    groups = [GroupInfo(**g) for g in store.analysis_groups(key)]
+    return Analysis(groups=groups, group_of=store.analysis_group_of(key),
+                    measures=store.analysis_measures(key) if measures else {}, **head)
+
+
+def stamped_analysis(store: Store, when: AsOf, *, measures: bool = True) -> Analysis | None:
+    """The kept analysis of the day ``when`` if it was found current at this data version and day, else None.
+
+    Neither the ties nor the digest of :func:`cache_inputs` are needed: :func:`analyse` checked that
+    digest at this same stamp (see :func:`_stamp`). Your group names are not applied here.
+    """
+    key = cache_key(Network.looking_from(when))
+    kept = store.analysis_stamp(key)
+    if kept is None or kept[1] != _stamp(store.data_version, when):
+        return None
+    return stored_analysis(store, key, measures=measures)
+
+
+def stamped_group_of(store: Store, when: AsOf, ids: list[int]) -> dict[int, int | None] | None:
+    """The groups of ``ids`` (None: unclustered) from the kept analysis, when it is current (see above)."""
+    key = cache_key(Network.looking_from(when))
+    kept = store.analysis_stamp(key)
+    if kept is None or kept[1] != _stamp(store.data_version, when):
+        return None
+    found = store.analysis_group_of(key, ids)
+    return {c: found.get(c) for c in ids}
+
+
 def analyse(store: Store, net: Network | None = None, *, force: bool = False) -> Analysis:
-    """The analysis, from the cache when nothing it reads has changed (see :func:`cache_inputs`)."""
+    """The analysis, from the workspace when nothing it reads has changed (see :func:`cache_inputs`)."""
     net = net or load_network(store)
     model = AnalysisModel.from_settings(store.setting("analysis", {}))
     inputs = cache_inputs(store, net, model)
     fp = inputs_digest(inputs)
     key = cache_key(net)
-    data = store.cached_any(key)
+    version = getattr(net, "data_version", None)
+    # The stamp is written only for a network loaded at the workspace's current data version.
+    stamp = _stamp(version, net.as_of) if version is not None and version == store.data_version else ""
     result = None
-    if data and not force:
-        if data.get("fingerprint") == fp:
-            result = Analysis.from_json(data)
+    if not force:
+        kept = store.analysis_stamp(key)
+        if kept is not None and kept[0] == fp:
+            result = stored_analysis(store, key)
+            if result is not None and stamp and kept[1] != stamp:
+                store.set_analysis_stamp(key, stamp)
     if result is None:
         result = compute_analysis(store, net, model, inputs)
-        store.put_cache(key, result.to_json())
+        _save(store, key, result, stamp)
     apply_user_decisions(store, net, result)
     return result
 

@@ -14,7 +14,15 @@ from typing import TYPE_CHECKING, Any, Iterable
 
 from ..analysis.audit import audit
 from ..analysis.intro_routes import ReachResult, reach, resolve_targets
-from ..analysis.snapshot import Analysis, analyse, apply_user_decisions, cache_key
+from ..analysis.snapshot import (
+    Analysis,
+    analyse,
+    apply_user_decisions,
+    cache_key,
+    stamped_analysis,
+    stamped_group_of,
+    stored_analysis,
+)
 from ..errors import NotFoundError
 from ..evidence.explain import basis, evidence_summary, explain_tie, tie_words
 from ..evidence.network import AsOf, Network, load_network, load_warmth, resolve_as_of, warmth_cache_key
@@ -93,13 +101,26 @@ class ResultsMixin:
         """Contacts, ties and your warmth seen from a day (cached in the workspace)."""
         return load_network(self.store, today=today, as_of=as_of)
 
-    def analysis(self, net: Network | None = None, *, as_of: Day = None, force: bool = False) -> Analysis:
-        """Groups, measures, bridges and the shape of the network (cached until something it reads changes)."""
+    def analysis(self, net: Network | None = None, *, as_of: Day = None, force: bool = False,
+                 measures: bool = True) -> Analysis:
+        """Groups, measures, bridges and the shape of the network (cached until something it reads changes).
+
+        Without ``net``, an analysis found current at this data version and day is read
+        without loading the network (``measures=False`` then leaves the per-contact
+        measures out, for a caller that shows only groups).
+        """
+        if net is None and not force:
+            when = self.as_of(as_of)
+            kept = stamped_analysis(self.store, when, measures=measures)
+            if kept is not None:
+                apply_user_decisions(self.store, Network.looking_from(when, warmth=self.warmth(when)), kept)
+                return kept
+            net = self.network(when)
         return analyse(self.store, net or self.network(as_of), force=force)
 
     def analysis_is_cached(self, net: Network) -> bool:
         """Whether the analysis of ``net`` was computed before (it may still need recomputing if inputs changed)."""
-        return self.store.has_cache(cache_key(net))
+        return self.store.analysis_stamp(cache_key(net)) is not None
 
     def cached_analysis(self, as_of: Day = None, *, today: date | None = None) -> tuple[AsOf, Analysis] | None:
         """The groups as last analysed, straight from the cache, with your names applied; None when not cached.
@@ -108,11 +129,10 @@ class ResultsMixin:
         against them (:meth:`analysis` does that).
         """
         when = self.as_of(as_of, today=today)
-        data = self.store.cached_any(cache_key(Network.looking_from(when)))
+        analysis = stored_analysis(self.store, cache_key(Network.looking_from(when)))
         warmth = self.store.cached(warmth_cache_key(when.day))
-        if data is None or warmth is None:
+        if analysis is None or warmth is None:
             return None
-        analysis = Analysis.from_json(data)
         light = Network.looking_from(when, warmth={int(k): Warmth(**v) for k, v in warmth.items()})
         apply_user_decisions(self.store, light, analysis)
         return when, analysis
@@ -131,7 +151,8 @@ class ResultsMixin:
         analysis (``group`` is then left out). Without ``net``, groups are those of the
         network seen from today (or from your newest interaction when that is stale).
         """
-        people = self.store.contacts()
+        page = not search and sort == "id" and limit > 0
+        people = self.store.contacts(limit=limit) if page else self.store.contacts()
         if search:
             people = search_contacts(people, search)
         warmth = net.warmth if net is not None else self.warmth(as_of)
@@ -141,15 +162,23 @@ class ResultsMixin:
             people.sort(key=lambda c: (-warmth[c.id].warmth, c.id))
         elif sort == "last":
             people.sort(key=lambda c: (warmth[c.id].last or "", c.id), reverse=True)
-        total = len(people)
+        total = self.store.contact_count() if page else len(people)
         if limit:
             people = people[:limit]
-        groups = self.analysis(net).group_of if with_groups else None
+        groups = self._groups_of([c.id for c in people], net, as_of) if with_groups else None
         rows = Rows(contact_fields(c, _warmth_fields(c, warmth) | ({"group": groups.get(c.id)} if groups is not None
                                                                     else {}))
                     for c in people)
         rows.total = total
         return rows
+
+    def _groups_of(self, ids: list[int], net: Network | None, as_of: Day) -> dict[int, int | None]:
+        """The groups of the contacts ``ids``: a look-up in the kept analysis when it is current."""
+        if net is None:
+            found = stamped_group_of(self.store, self.as_of(as_of), ids)
+            if found is not None:
+                return found
+        return self.analysis(net, as_of=as_of).group_of
 
     def unlisted(self) -> list[dict[str, Any]]:
         """People you met or wrote with who are not in your address book, seen often enough to matter.
