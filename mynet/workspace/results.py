@@ -12,7 +12,7 @@ from collections import Counter, defaultdict
 from datetime import date
 from typing import TYPE_CHECKING, Any, Iterable
 
-from ..analysis.audit import audit
+from ..analysis.audit import audit, ego_brokerage
 from ..analysis.intro_routes import ReachResult, reach, resolve_targets
 from ..analysis.snapshot import (
     Analysis,
@@ -22,6 +22,7 @@ from ..analysis.snapshot import (
     stamped_analysis,
     stamped_group_of,
     stored_analysis,
+    tie_graph,
 )
 from ..errors import NotFoundError
 from ..evidence.explain import basis, evidence_summary, explain_tie, tie_words
@@ -257,7 +258,18 @@ class ResultsMixin:
         net = net or self.network(as_of)
         if not net.contacts:
             raise NotFoundError("there is nothing to audit yet: import your contacts first (mynet import FILE)")
-        return audit(net, analysis or self.analysis(net), today=net.as_of.day)
+        return audit(net, analysis or self.analysis(net), today=net.as_of.day, ego=self._ego(net))
+
+    def _ego(self, net: Network) -> dict[str, float]:
+        """Your own brokerage (:func:`ego_brokerage`), kept for this data version and day."""
+        key = f"ego:v1:{net.as_of.day.isoformat()}:{int(net.as_of.cut)}"
+        current = net.data_version is not None and net.data_version == self.store.data_version
+        kept = self.store.cached(key) if current else None
+        if kept is None:
+            kept = ego_brokerage(tie_graph(net), {cid: w.warmth for cid, w in net.warmth.items()})
+            if current:
+                self.store.put_cache(key, kept)
+        return kept
 
     def explain(self, a: int, b: int, *, as_of: Day = None, net: Network | None = None) -> dict[str, Any]:
         """Every piece of evidence for the tie between two contacts, with the file and line it came from."""
