@@ -6,8 +6,11 @@ JSON document of the whole network. Each analysis carries the digest of its
 inputs (``fingerprint``, see :func:`mynet.analysis.snapshot.cache_inputs`) and
 a ``stamp``: the data version and day at which that digest was last found
 current, so a read at the same stamp needs neither the ties nor the digest.
-Everything here is derived: :meth:`DerivedMixin.drop_derived` (with every
-cache, on ``forget`` and ``compact``) removes it.
+The meetings and threads behind the ties are indexed by contact
+(``event_members``, ``event_rows``) so that ``mynet why`` reads two rows and
+the events the two share. Everything here is derived:
+:meth:`DerivedMixin.drop_derived` (with every cache, on ``forget`` and
+``compact``) removes it.
 """
 
 from __future__ import annotations
@@ -102,8 +105,43 @@ class DerivedMixin:
         row = self.conn.execute("SELECT version, data FROM blobs WHERE key = ?", (key,)).fetchone()
         return bytes(row[1]) if row is not None and row[0] == version else None
 
-    def drop_derived(self) -> None:
-        """Remove every derived row (analyses, blobs): they are computed again when next asked for."""
+    # -- the events behind the ties, by contact ---------------------------------------
+    def put_event_index(self, key: str, version: int, events: Iterable[dict[str, Any]],
+                        members: Iterable[tuple[int, list[int]]]) -> None:
+        """Replace the event index under ``key`` (event ``k`` at position ``k``), built at data version ``version``."""
+        if self.read_only:
+            return
         with self.transaction():
-            for table in ("analyses", "analysis_groups", "analysis_contacts", "blobs"):
+            for table in ("event_rows", "event_members"):
+                self.conn.execute(f"DELETE FROM {table} WHERE key = ?", (key,))  # noqa: S608 (fixed names)
+            self.conn.executemany("INSERT INTO event_rows(key, k, data) VALUES (?, ?, ?)",
+                                  ((key, k, json.dumps(ev)) for k, ev in enumerate(events)))
+            self.conn.executemany("INSERT INTO event_members(key, contact_id, events) VALUES (?, ?, ?)",
+                                  ((key, int(c), json.dumps(ks)) for c, ks in members))
+            self.conn.execute("INSERT OR REPLACE INTO blobs(key, version, data) VALUES (?, ?, ?)",
+                              (key, version, b""))
+
+    def has_event_index(self, key: str, version: int) -> bool:
+        """Whether the event index under ``key`` was built at data version ``version``."""
+        return self.blob(key, version) is not None
+
+    def events_of(self, key: str, contact_id: int) -> list[int]:
+        """The events (by position) a contact is in."""
+        row = self.conn.execute("SELECT events FROM event_members WHERE key = ? AND contact_id = ?",
+                                (key, int(contact_id))).fetchone()
+        return json.loads(row[0]) if row else []
+
+    def events_at(self, key: str, ks: Iterable[int]) -> list[dict[str, Any]]:
+        """The events at positions ``ks``."""
+        out = []
+        for k in ks:
+            row = self.conn.execute("SELECT data FROM event_rows WHERE key = ? AND k = ?", (key, int(k))).fetchone()
+            if row is not None:
+                out.append(json.loads(row[0]))
+        return out
+
+    def drop_derived(self) -> None:
+        """Remove every derived row (analyses, blobs, event index): they are computed again when next asked for."""
+        with self.transaction():
+            for table in ("analyses", "analysis_groups", "analysis_contacts", "blobs", "event_rows", "event_members"):
                 self.conn.execute(f"DELETE FROM {table}")  # noqa: S608 (fixed names)

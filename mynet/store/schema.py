@@ -67,7 +67,8 @@ MIGRATIONS: tuple[tuple[str, ...], ...] = (
     ),
     # 2 -> 3: the analysis kept in rows (a command reads the groups, or the measures of the contacts it
     # shows, not one document of the whole network), the data version and day it was last checked at,
-    # and derived arrays kept as bytes (the tie table loads without decoding text).
+    # derived arrays kept as bytes (the tie table loads without decoding text), and the events behind the ties
+    # indexed by contact.
     (
         """CREATE TABLE analyses (
             key TEXT PRIMARY KEY,
@@ -90,6 +91,19 @@ MIGRATIONS: tuple[tuple[str, ...], ...] = (
             PRIMARY KEY (key, contact_id)
         )""",
         "CREATE TABLE blobs (key TEXT PRIMARY KEY, version INTEGER NOT NULL, data BLOB NOT NULL)",
+        # The meetings and threads behind the ties, and each contact's, so that `why` reads two rows.
+        """CREATE TABLE event_rows (
+            key TEXT NOT NULL,
+            k INTEGER NOT NULL,
+            data TEXT NOT NULL,
+            PRIMARY KEY (key, k)
+        )""",
+        """CREATE TABLE event_members (
+            key TEXT NOT NULL,
+            contact_id INTEGER NOT NULL,
+            events TEXT NOT NULL,
+            PRIMARY KEY (key, contact_id)
+        )""",
     ),
 )
 
