@@ -12,7 +12,7 @@ from __future__ import annotations
 import hashlib
 import json
 from dataclasses import asdict, dataclass, field
-from typing import Any, Mapping
+from typing import Any, Callable, Mapping
 
 import numpy as np
 
@@ -31,7 +31,7 @@ nx = lazy_module("networkx")
 
 __all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest",
            "load_analysis", "contact_attrs", "stamped_analysis", "stored_analysis", "stamped_group_of",
-           "apply_user_decisions", "compute_analysis", "cache_key"]
+           "apply_user_decisions", "compute_analysis", "cache_key", "STEPS", "DONE"]
 
 CACHE_KEY = "analysis:v2"
 STATE_KEY = "groups_state"
@@ -167,14 +167,24 @@ def _first(values: list[str], fold) -> str | None:
     return fold(values[0]) if values else None
 
 
-def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[str, Any]) -> Analysis:
+#: The steps of a fresh analysis, in order (each named to ``progress`` as it starts; then :data:`DONE`).
+DONE = "done"
+STEPS = ("tie graph", "groups", "measures (betweenness, closeness, constraint)", "bridges between groups",
+         "network shape")
+
+
+def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[str, Any],
+                     progress: Callable[[str], None] | None = None) -> Analysis:
+    step = progress or (lambda _s: None)
     fp = inputs_digest(inputs)
+    step(STEPS[0])
     G = tie_graph(net)
     backend = model.backend
     if backend == "auto":
         # python-louvain is the reference implementation; igraph's multilevel (the same method in C) is
         # about ten times faster and keeps 50,000 contacts within the time budget (benchmarks/bench_groups.py).
         backend = "louvain" if G.number_of_nodes() <= 20_000 and model.resolution >= 1 else "igraph"
+    step(STEPS[1])
     gr = detect_groups(G, resolution=model.resolution, seed=model.seed, min_size=model.min_group_size,
                        backend=backend)
     state = json.loads(store.meta(STATE_KEY, "{}") or "{}")
@@ -182,6 +192,7 @@ def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: M
     mapping, events = match_groups(previous, gr.as_sets(), next_id=int(state.get("next_id", 1)))
     groups = {mapping[g]: sorted(m) for g, m in gr.groups.items()}
     group_of = {int(v): (mapping[g] if g is not None else None) for v, g in gr.membership.items()}
+    step(STEPS[2])
     measures, info = contact_measures(G, group_of, seed=model.seed, exact_limit=model.exact_limit,
                                       samples=model.samples)
     measures = {int(k): {mk: (None if isinstance(mv, float) and not np.isfinite(mv) else mv) for mk, mv in m.items()}
@@ -192,6 +203,7 @@ def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: M
     for gid in sorted(groups, key=lambda g: (-len(groups[g]), g)):
         label, share = suggest_label(groups[gid], attrs)
         infos.append(GroupInfo(gid, label, label, round(float(share), 4), False, len(groups[gid]), groups[gid]))
+    step(STEPS[3])
     links = [dict(v, a=int(g), b=int(h)) for (g, h), v in sorted(group_links(G, sets).items())]
     links = [{k: (sorted(map(int, v)) if isinstance(v, (set, frozenset)) else v) for k, v in link.items()}
              for link in links]
@@ -207,7 +219,9 @@ def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: M
         "domain": {v: x[0] for v, x in attrs["domain"].items() if x},
         "tag": {v: _first(x, fold_text) for v, x in attrs["tag"].items() if x},
     }
+    step(STEPS[4])
     summary = network_summary(G, group_of, flat, seed=model.seed)
+    step(DONE)
     new_state = {"groups": {str(g): m for g, m in groups.items()},
                  "next_id": max([int(state.get("next_id", 1)), *[g + 1 for g in groups]])}
     # A look at a past day never renumbers today's groups; a read-only workspace keeps them from the next
@@ -309,8 +323,12 @@ def stamped_group_of(store: Store, when: AsOf, ids: list[int]) -> dict[int, int 
     return {c: found.get(c) for c in ids}
 
 
-def analyse(store: Store, net: Network | None = None, *, force: bool = False) -> Analysis:
-    """The analysis, from the workspace when nothing it reads has changed (see :func:`cache_inputs`)."""
+def analyse(store: Store, net: Network | None = None, *, force: bool = False,
+            progress: Callable[[str], None] | None = None) -> Analysis:
+    """The analysis, from the workspace when nothing it reads has changed (see :func:`cache_inputs`).
+
+    ``progress`` is called with each step's name (:data:`STEPS`) when the analysis is computed afresh.
+    """
     net = net or load_network(store)
     model = AnalysisModel.from_settings(store.setting("analysis", {}))
     inputs = cache_inputs(store, net, model)
@@ -327,7 +345,7 @@ def analyse(store: Store, net: Network | None = None, *, force: bool = False) ->
             if result is not None and stamp and kept[1] != stamp:
                 store.set_analysis_stamp(key, stamp)
     if result is None:
-        result = compute_analysis(store, net, model, inputs)
+        result = compute_analysis(store, net, model, inputs, progress)
         _save(store, key, result, stamp)
     apply_user_decisions(store, net, result)
     return result

@@ -117,7 +117,7 @@ class ResultsMixin:
                 apply_user_decisions(self.store, Network.looking_from(when, warmth=self.warmth(when)), kept)
                 return kept
             net = self.network(when)
-        return analyse(self.store, net or self.network(as_of), force=force)
+        return analyse(self.store, net or self.network(as_of), force=force, progress=getattr(self, "progress", None))
 
     def analysis_is_cached(self, net: Network) -> bool:
         """Whether the analysis of ``net`` was computed before (it may still need recomputing if inputs changed)."""
