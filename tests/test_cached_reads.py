@@ -7,14 +7,13 @@ import json
 
 import numpy as np
 import pytest
+from conftest import import_sample
 
 from mynet import open_workspace
 from mynet.analysis.snapshot import analyse, stamped_analysis
 from mynet.evidence.explain import explain_tie
 from mynet.evidence.network import load_network
 from mynet.evidence.ties import TieTable
-
-from conftest import import_sample
 
 
 @pytest.fixture(scope="module")
@@ -77,8 +76,10 @@ def test_kept_analysis_is_never_served_after_a_change(sample, tmp_path, change):
         # A group's name is applied on every read (never part of the key): the kept analysis stays current.
         assert (stamped_analysis(ws.store, ws.as_of()) is None) == (change != "group name")
         after = ws.analysis()
+        with_net = ws.analysis(ws.network())  # the same through a loaded network (stamped at this version now)
         fresh = analyse(ws.store, load_network(ws.store), force=True)
-        assert _plain(after) == _plain(fresh)
+        assert _plain(after) == _plain(fresh) == _plain(with_net)
+        assert ws.analysis(ws.network(), measures=False).group_of == fresh.group_of
         if change == "group name":
             assert after.groups[0].name == "The rowers"
         elif change == "resolution":

@@ -324,22 +324,28 @@ def stamped_group_of(store: Store, when: AsOf, ids: list[int]) -> dict[int, int 
 
 
 def analyse(store: Store, net: Network | None = None, *, force: bool = False,
-            progress: Callable[[str], None] | None = None) -> Analysis:
+            progress: Callable[[str], None] | None = None, measures: bool = True) -> Analysis:
     """The analysis, from the workspace when nothing it reads has changed (see :func:`cache_inputs`).
 
     ``progress`` is called with each step's name (:data:`STEPS`) when the analysis is computed afresh.
+    ``measures=False`` lets a kept analysis be read without the per-contact measures (``measures`` empty).
     """
     net = net or load_network(store)
-    model = AnalysisModel.from_settings(store.setting("analysis", {}))
-    inputs = cache_inputs(store, net, model)
-    fp = inputs_digest(inputs)
     key = cache_key(net)
     version = getattr(net, "data_version", None)
     # The stamp is written only for a network loaded at the workspace's current data version.
     stamp = _stamp(version, net.as_of) if version is not None and version == store.data_version else ""
+    kept = None if force else store.analysis_stamp(key)
+    if kept is not None and stamp and kept[1] == stamp:  # its digest was found current at this stamp
+        result = stored_analysis(store, key, measures=measures)
+        if result is not None:
+            apply_user_decisions(store, net, result)
+            return result
+    model = AnalysisModel.from_settings(store.setting("analysis", {}))
+    inputs = cache_inputs(store, net, model)
+    fp = inputs_digest(inputs)
     result = None
     if not force:
-        kept = store.analysis_stamp(key)
         if kept is not None and kept[0] == fp:
             result = stored_analysis(store, key)
             if result is not None and stamp and kept[1] != stamp:

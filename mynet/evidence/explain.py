@@ -151,10 +151,10 @@ class _EvidenceIndex:
     records: dict[int, list[tuple[str, Any]]]
     events: EventIndex
 
-    def records_of(self, cid: int) -> list[tuple[str, Any]]:
+    def records_of(self, store: Store, net: Network, cid: int) -> list[tuple[str, Any]]:
         return self.records.get(cid, [])
 
-    def shared(self, a: int, b: int, cap: int) -> dict[str, list[Event]]:
+    def shared(self, store: Store, a: int, b: int, cap: int) -> dict[str, list[Event]]:
         return self.events.shared(a, b, cap)
 
 
@@ -163,21 +163,22 @@ _ITEM_FIELDS = ("kind", "source", "index", "line", "when", "key", "thread", "tit
 
 class _KeptIndex:
     """The same answers from the index kept in the workspace: a pair's records and the events they share are
-    read, nothing is scanned (``mynet why`` on 50,000 contacts)."""
+    read, nothing is scanned (``mynet why`` on 50,000 contacts). It holds no open store: a network outlives
+    the workspace it was loaded through (the browser opens one per task)."""
 
-    def __init__(self, store: Store, key: str, net: Network):
-        self.store, self.key, self.net = store, key, net
+    def __init__(self, key: str):
+        self.key = key
 
-    def records_of(self, cid: int) -> list[tuple[str, Any]]:
-        c = self.net.by_id.get(cid)
-        rows = self.store.records_by_id(c.record_ids) if c is not None else []
+    def records_of(self, store: Store, net: Network, cid: int) -> list[tuple[str, Any]]:
+        c = net.by_id.get(cid)
+        rows = store.records_by_id(c.record_ids) if c is not None else []
         return [(f"{src['path'].rsplit('/', 1)[-1]}:{rec.line}", rec) for _rid, _k, src, rec in rows]
 
-    def shared(self, a: int, b: int, cap: int) -> dict[str, list[Event]]:
-        ks = sorted(set(self.store.events_of(self.key, a)) & set(self.store.events_of(self.key, b)))
+    def shared(self, store: Store, a: int, b: int, cap: int) -> dict[str, list[Event]]:
+        ks = sorted(set(store.events_of(self.key, a)) & set(store.events_of(self.key, b)))
         return shared_events((Event(d["kind"], d["key"], d["participants"],
                                     [Interaction.from_dict(it) for it in d["items"]])
-                              for d in self.store.events_at(self.key, ks)), cap)
+                              for d in store.events_at(self.key, ks)), cap)
 
 
 def _kept_row(ev: Event) -> dict[str, Any]:
@@ -187,6 +188,9 @@ def _kept_row(ev: Event) -> dict[str, Any]:
 
 def _evidence_index(store: Store, net: Network) -> _EvidenceIndex | _KeptIndex:
     """The evidence index of ``net``: kept in the workspace per data version (built on first use), else in memory."""
+    if isinstance(net.evidence_index, _KeptIndex) and not store.has_event_index(net.evidence_index.key,
+                                                                                 net.data_version):
+        net.evidence_index = None  # the workspace changed since: read everything again
     if net.evidence_index is not None:
         return net.evidence_index
     if net.data_version is None or net.data_version != store.data_version or store.read_only:
@@ -194,7 +198,7 @@ def _evidence_index(store: Store, net: Network) -> _EvidenceIndex | _KeptIndex:
         return net.evidence_index
     key = "events:v1:" + (net.as_of.day.isoformat() if net.as_of.cut else "all")
     if store.has_event_index(key, net.data_version):
-        net.evidence_index = _KeptIndex(store, key, net)
+        net.evidence_index = _KeptIndex(key)
         return net.evidence_index
     full = _scan_index(store, net)
     store.put_event_index(key, net.data_version, (_kept_row(ev) for ev in full.events.events),
@@ -237,7 +241,7 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
     # Provenance of organisations and tags: file:line of every record that says so.
     said: dict[tuple[int, str, str], list[str]] = defaultdict(list)
     for cid in (a_id, b_id):
-        for where, rec in ix.records_of(cid):
+        for where, rec in ix.records_of(store, net, cid):
             for o in rec.orgs:
                 said[(cid, "org", normalise_org(o))].append(where)
             for tg in rec.tags:
@@ -257,7 +261,7 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
             ev["why_not"] = (f"{sizes[norm]} of your contacts are there; inside an organisation that large each "
                              f"person keeps only as many links as people there are seen to know, best first")
         evidence.append(ev)
-    shared = ix.shared(a_id, b_id, net.model.broadcast_cap)
+    shared = ix.shared(store, a_id, b_id, net.model.broadcast_cap)
     meetings = [ev.items[0] for ev in shared["meeting"]]
     if meetings:
         count = int(t.counts["meeting"][i]) if i is not None else len(meetings)

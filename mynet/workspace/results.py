@@ -117,7 +117,8 @@ class ResultsMixin:
                 apply_user_decisions(self.store, Network.looking_from(when, warmth=self.warmth(when)), kept)
                 return kept
             net = self.network(when)
-        return analyse(self.store, net or self.network(as_of), force=force, progress=getattr(self, "progress", None))
+        return analyse(self.store, net or self.network(as_of), force=force, progress=getattr(self, "progress", None),
+                       measures=measures)
 
     def analysis_is_cached(self, net: Network) -> bool:
         """Whether the analysis of ``net`` was computed before (it may still need recomputing if inputs changed)."""
@@ -179,7 +180,7 @@ class ResultsMixin:
             found = stamped_group_of(self.store, self.as_of(as_of), ids)
             if found is not None:
                 return found
-        return self.analysis(net, as_of=as_of).group_of
+        return self.analysis(net, as_of=as_of, measures=False).group_of
 
     def unlisted(self) -> list[dict[str, Any]]:
         """People you met or wrote with who are not in your address book, seen often enough to matter.
@@ -222,7 +223,7 @@ class ResultsMixin:
 
     def groups(self, *, as_of: Day = None, net: Network | None = None) -> list[dict[str, Any]]:
         """The groups, largest first: id, name, label, user_named, size, warm, members."""
-        a = self.analysis(net, as_of=as_of)
+        a = self.analysis(net, as_of=as_of, measures=False)
         return [{"id": g.id, "name": g.name, "label": g.label, "user_named": g.user_named, "size": g.size,
                  "warm": g.warm, "members": g.members} for g in a.groups]
 
@@ -244,7 +245,7 @@ class ResultsMixin:
                                   find_contact=self.find)
         avoid_ids = {self.find(a).id for a in avoid}
         return reach(net, targets, k=k, max_intermediaries=max_intermediaries, avoid=avoid_ids,
-                     min_strength=min_strength, groups=self.analysis(net).group_of)
+                     min_strength=min_strength, groups=self.analysis(net, measures=False).group_of)
 
     def audit(self, *, as_of: Day = None, net: Network | None = None,
               analysis: Analysis | None = None) -> list[dict[str, Any]]:
