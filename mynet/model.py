@@ -20,7 +20,11 @@ __all__ = [
     "Interaction",
     "Evidence",
     "Tie",
+    "SORTS",
 ]
+
+#: How a list of contacts can be ordered (``Workspace.contacts(sort=...)``, ``mynet contacts --sort``).
+SORTS = ("id", "name", "warmth", "last")
 
 
 _ADDRESS_ONLY = re.compile(r"^<?(?:mailto:)?[^\s@<>]+@[^\s@<>]+\.[^\s@<>]+>?$", re.IGNORECASE)
@@ -132,7 +136,7 @@ class Record:
 
     @classmethod
     def from_dict(cls, data: dict[str, Any]) -> "Record":
-        known = {f.name for f in fields(cls)}
+        known = _RECORD_KNOWN
         kwargs = {k: v for k, v in data.items() if k in known}
         kwargs["addresses"] = [Address(**a) for a in kwargs.get("addresses", [])]
         kwargs["related"] = [Related(**r) for r in kwargs.get("related", [])]
@@ -140,6 +144,7 @@ class Record:
 
 
 _RECORD_FIELDS = tuple(f.name for f in fields(Record))
+_RECORD_KNOWN = frozenset(_RECORD_FIELDS)
 
 
 @dataclass
@@ -194,8 +199,11 @@ class Contact:
 
     @classmethod
     def from_dict(cls, data: dict[str, Any]) -> "Contact":
-        known = {f.name for f in fields(cls)}
+        known = _CONTACT_KNOWN  # (dataclasses.fields on every call took half the time of loading 10,000 contacts)
         return cls(**{k: v for k, v in data.items() if k in known})
+
+
+_CONTACT_KNOWN = frozenset(f.name for f in fields(Contact))
 
 
 @dataclass

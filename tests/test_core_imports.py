@@ -39,3 +39,31 @@ def test_core_never_imports_a_view():
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "[]", out.stdout
+
+
+HEAVY = ("pandas", "textual", "igraph", "matplotlib", "networkx", "scipy", "numpy", "rich")
+
+
+def test_help_and_version_import_no_heavy_library():
+    """``mynet --help`` / ``--version`` register every command without loading what the commands use."""
+    code = (
+        "import sys, json, io, contextlib\n"
+        "from mynet.cli import main\n"
+        "for args in (['--help'], ['--version'], ['contacts', '--help'], ['report', '--help']):\n"
+        "    with contextlib.redirect_stdout(io.StringIO()):\n"
+        "        assert main(args) == 0\n"
+        f"print(json.dumps(sorted(m for m in sys.modules if m.split('.')[0] in {HEAVY!r})))\n"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "[]", out.stdout
+
+
+def test_a_lazy_module_loads_on_first_use():
+    code = ("import sys\n"
+            "from mynet.lazy import lazy_module\n"
+            "m = lazy_module('fractions')\n"
+            "sys.modules.pop('fractions', None)\n"
+            "before = 'fractions' in sys.modules\n"
+            "print(before, m.Fraction(1, 2) == 0.5, 'fractions' in sys.modules)\n")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.split() == ["False", "True", "True"]

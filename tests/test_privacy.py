@@ -60,6 +60,9 @@ def test_forget_leaves_no_trace_and_stays_forgotten(tmp_path, capsys):
     run(capsys, *base, "rate", str(zeb["id"]), "0.8")
     run(capsys, *base, "tie", str(zeb["id"]), "Bo Ek", "--note", "met at Xylophonic gala")
     run(capsys, *base, "ties", "--json")  # fill the caches with derived data about him
+    # ... and the derived rows: the analysis (groups, measures), the event index `why` reads, your brokerage
+    run(capsys, *base, "why", str(zeb["id"]), "Bo Ek")
+    run(capsys, *base, "audit")
     assert all(s.encode() in raw_bytes(ws) for s in SECRETS[:3])
     code, out, _ = run(capsys, *base, "forget", str(zeb["id"]), "--yes")
     assert code == 0 and "Forgotten" in out

@@ -20,13 +20,14 @@ from collections import Counter
 from datetime import date
 from typing import Any, Iterable
 
-import networkx as nx
-
 from ..evidence.network import Network
+from ..lazy import lazy_module
 from ..people.normalise import is_real_org, normalise_org
 from .bridges import EGO
 from .centrality import structural_holes
 from .snapshot import Analysis, tie_graph
+
+nx = lazy_module("networkx")
 
 __all__ = ["blau_index", "shannon_evenness", "ego_brokerage", "audit", "small_world_words", "WARM"]
 
@@ -105,8 +106,12 @@ def _finding(fid: str, title: str, detail: str, numbers: dict, suggestion: str, 
             "severity": severity, "score": round(score, 4)}
 
 
-def audit(net: Network, analysis: Analysis, *, today: date | None = None) -> list[dict[str, Any]]:
-    """Findings about your network, most useful first (see the module docstring)."""
+def audit(net: Network, analysis: Analysis, *, today: date | None = None,
+          ego: dict[str, float] | None = None) -> list[dict[str, Any]]:
+    """Findings about your network, most useful first (see the module docstring).
+
+    ``ego`` is :func:`ego_brokerage` of this network when already known (the workspace keeps it).
+    """
     today = today or date.today()
     findings: list[dict[str, Any]] = []
     warmth = {cid: w.warmth for cid, w in net.warmth.items()}
@@ -187,8 +192,7 @@ def audit(net: Network, analysis: Analysis, *, today: date | None = None) -> lis
         ))
 
     # 4. Your brokerage, with you in the graph.
-    G = tie_graph(net)
-    broker = ego_brokerage(G, warmth)
+    broker = ego if ego is not None else ego_brokerage(tie_graph(net), warmth)
     if broker["size"]:
         con = broker["constraint"]
         findings.append(_finding(

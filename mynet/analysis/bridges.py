@@ -28,11 +28,13 @@ from collections import defaultdict
 from collections.abc import Hashable, Iterable, Mapping
 from typing import Any
 
-import networkx as nx
 import numpy as np
 
+from ..lazy import lazy_module
 from .bridges_sparse import adjacency_matrix, bridge_spans, common_neighbours, paths3_rows
 from .groups import edge_arrays, sorted_nodes
+
+nx = lazy_module("networkx")
 
 __all__ = [
     "EGO",

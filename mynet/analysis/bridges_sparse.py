@@ -10,9 +10,12 @@ from __future__ import annotations
 import math
 from collections.abc import Hashable, Mapping
 
-import networkx as nx
 import numpy as np
-import scipy.sparse as sp
+
+from ..lazy import lazy_module
+
+nx = lazy_module("networkx")
+sp = lazy_module("scipy.sparse")
 
 # Budget of entries of one block of A @ A (memory of one chunk, ~12 bytes each).
 _BLOCK_NNZ = 4_000_000

@@ -23,12 +23,14 @@ from collections.abc import Hashable, Mapping
 from typing import Any
 
 import numpy as np
-import scipy.sparse as sp
-from scipy.sparse.csgraph import dijkstra
 
+from ..lazy import lazy_module
 from .estimate import adaptive_pivots
 from .sparse_graph import Prepared, degree_arrays, from_arrays, prepare_graph  # noqa: F401  (re-exported)
 from .spectral import eigenvector_centrality, eigenvector_values, pagerank, pagerank_values  # noqa: F401  (re-exported)
+
+sp = lazy_module("scipy.sparse")
+csgraph = lazy_module("scipy.sparse.csgraph")
 
 __all__ = [
     "ROLES", "ROLE_THRESHOLDS", "betweenness", "clustering", "constraint", "contact_measures", "contact_role",
@@ -152,7 +154,7 @@ def _harmonic(prep: Prepared, pivots: np.ndarray | None) -> np.ndarray:
         vals = g.harmonic_centrality(weights=(1.0 / prep.w).tolist(), normalized=True)
         return np.nan_to_num(np.asarray(vals, dtype=float))
     D = sp.csr_array((1.0 / prep.W.data, prep.W.indices, prep.W.indptr), shape=prep.W.shape)
-    dist = dijkstra(D, directed=True, indices=pivots)  # D is symmetric
+    dist = csgraph.dijkstra(D, directed=True, indices=pivots)  # D is symmetric
     dist[np.arange(len(pivots)), pivots] = np.inf  # a pivot's distance to itself does not count
     with np.errstate(divide="ignore"):
         inv = 1.0 / dist

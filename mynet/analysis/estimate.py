@@ -46,7 +46,10 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from scipy.special import ndtr
+
+from ..lazy import lazy_module
+
+special = lazy_module("scipy.special")
 
 __all__ = ["stratified_order", "expected_agreement", "adaptive_pivots"]
 
@@ -107,7 +110,7 @@ def expected_agreement(rounds: np.ndarray, used: int, n: int, top_share: float =
     cut = np.sort(mean)[::-1][top - 1]
     gap = np.abs(mean - cut)
     with np.errstate(divide="ignore", invalid="ignore"):
-        p = np.where(se > 0, ndtr(-gap / se), np.where(gap == 0, 0.5, 0.0))
+        p = np.where(se > 0, special.ndtr(-gap / se), np.where(gap == 0, 0.5, 0.0))
     return float(max(0.0, 1.0 - p.sum() / (2 * top)))
 
 

@@ -32,12 +32,14 @@ from collections.abc import Hashable, Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from typing import Any
 
-import networkx as nx
 import numpy as np
-import scipy.sparse as sp
-from scipy.optimize import linear_sum_assignment
 
+from ..lazy import lazy_module
 from ..people.normalise import GENERIC_TAGS, fold_text, is_real_org, is_webmail, normalise_org
+
+nx = lazy_module("networkx")
+sp = lazy_module("scipy.sparse")
+optimize = lazy_module("scipy.optimize")
 
 __all__ = [
     "GroupResult",
@@ -394,7 +396,7 @@ def match_groups(
 
     mapping: dict[int, int] = {}
     if prev_ids and cur_ids:
-        rows, cols = linear_sum_assignment(J, maximize=True)
+        rows, cols = optimize.linear_sum_assignment(J, maximize=True)
         for r, c in zip(rows.tolist(), cols.tolist()):
             if J[r, c] >= min_jaccard and J[r, c] > 0:
                 mapping[cur_ids[c]] = prev_ids[r]

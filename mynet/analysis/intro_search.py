@@ -75,10 +75,13 @@ import math
 from dataclasses import dataclass
 from typing import Any, Iterable, Mapping
 
-import networkx as nx
 import numpy as np
-import scipy.sparse as sp
-from scipy.sparse.csgraph import dijkstra
+
+from ..lazy import lazy_module
+
+nx = lazy_module("networkx")
+sp = lazy_module("scipy.sparse")
+csgraph = lazy_module("scipy.sparse.csgraph")
 
 __all__ = ["IntroPath", "PathIndex", "build_index", "find_paths", "best_per_target", "direct_route"]
 
@@ -311,7 +314,7 @@ class _Search:
             counts = np.bincount(ix.rows[keep], minlength=ix.n)
             indptr = np.concatenate([[0], np.cumsum(counts)])
             g = sp.csr_matrix((ix.cost_data[keep], ix.indices[keep], indptr), shape=(ix.n, ix.n))
-        dist, pred, _ = dijkstra(g, directed=True, indices=targets, min_only=True, return_predecessors=True)
+        dist, pred, _ = csgraph.dijkstra(g, directed=True, indices=targets, min_only=True, return_predecessors=True)
         self.dist = dist
         self.pred = pred  # next hop towards the nearest target; -9999 at targets and unreached
 

@@ -12,12 +12,12 @@ from __future__ import annotations
 import hashlib
 import json
 from dataclasses import asdict, dataclass, field
-from typing import Any, Mapping
+from typing import Any, Callable, Mapping
 
-import networkx as nx
 import numpy as np
 
-from ..evidence.network import Network, load_network
+from ..evidence.network import AsOf, Network, load_network
+from ..lazy import lazy_module
 from ..people.mailpeople import not_employer_domains
 from ..people.normalise import email_domain, fold_text, is_real_org, is_webmail, normalise_org
 from ..settings import SettingsGroup, setting
@@ -27,11 +27,13 @@ from .centrality import EXACT_LIMIT, SAMPLES, contact_measures
 from .groups import detect_groups, match_groups, suggest_label
 from .structure import network_summary
 
-__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest",
-           "load_analysis", "contact_attrs",
-           "apply_user_decisions", "compute_analysis", "cache_key"]
+nx = lazy_module("networkx")
 
-CACHE_KEY = "analysis:v1"
+__all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "cache_inputs", "inputs_digest",
+           "load_analysis", "contact_attrs", "stamped_analysis", "stored_analysis", "stamped_group_of",
+           "apply_user_decisions", "compute_analysis", "cache_key", "STEPS", "DONE"]
+
+CACHE_KEY = "analysis:v2"
 STATE_KEY = "groups_state"
 
 
@@ -165,14 +167,24 @@ def _first(values: list[str], fold) -> str | None:
     return fold(values[0]) if values else None
 
 
-def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[str, Any]) -> Analysis:
+#: The steps of a fresh analysis, in order (each named to ``progress`` as it starts; then :data:`DONE`).
+DONE = "done"
+STEPS = ("tie graph", "groups", "measures (betweenness, closeness, constraint)", "bridges between groups",
+         "network shape")
+
+
+def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: Mapping[str, Any],
+                     progress: Callable[[str], None] | None = None) -> Analysis:
+    step = progress or (lambda _s: None)
     fp = inputs_digest(inputs)
+    step(STEPS[0])
     G = tie_graph(net)
     backend = model.backend
     if backend == "auto":
         # python-louvain is the reference implementation; igraph's multilevel (the same method in C) is
         # about ten times faster and keeps 50,000 contacts within the time budget (benchmarks/bench_groups.py).
         backend = "louvain" if G.number_of_nodes() <= 20_000 and model.resolution >= 1 else "igraph"
+    step(STEPS[1])
     gr = detect_groups(G, resolution=model.resolution, seed=model.seed, min_size=model.min_group_size,
                        backend=backend)
     state = json.loads(store.meta(STATE_KEY, "{}") or "{}")
@@ -180,6 +192,7 @@ def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: M
     mapping, events = match_groups(previous, gr.as_sets(), next_id=int(state.get("next_id", 1)))
     groups = {mapping[g]: sorted(m) for g, m in gr.groups.items()}
     group_of = {int(v): (mapping[g] if g is not None else None) for v, g in gr.membership.items()}
+    step(STEPS[2])
     measures, info = contact_measures(G, group_of, seed=model.seed, exact_limit=model.exact_limit,
                                       samples=model.samples)
     measures = {int(k): {mk: (None if isinstance(mv, float) and not np.isfinite(mv) else mv) for mk, mv in m.items()}
@@ -190,6 +203,7 @@ def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: M
     for gid in sorted(groups, key=lambda g: (-len(groups[g]), g)):
         label, share = suggest_label(groups[gid], attrs)
         infos.append(GroupInfo(gid, label, label, round(float(share), 4), False, len(groups[gid]), groups[gid]))
+    step(STEPS[3])
     links = [dict(v, a=int(g), b=int(h)) for (g, h), v in sorted(group_links(G, sets).items())]
     links = [{k: (sorted(map(int, v)) if isinstance(v, (set, frozenset)) else v) for k, v in link.items()}
              for link in links]
@@ -205,7 +219,9 @@ def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: M
         "domain": {v: x[0] for v, x in attrs["domain"].items() if x},
         "tag": {v: _first(x, fold_text) for v, x in attrs["tag"].items() if x},
     }
+    step(STEPS[4])
     summary = network_summary(G, group_of, flat, seed=model.seed)
+    step(DONE)
     new_state = {"groups": {str(g): m for g, m in groups.items()},
                  "next_id": max([int(state.get("next_id", 1)), *[g + 1 for g in groups]])}
     # A look at a past day never renumbers today's groups; a read-only workspace keeps them from the next
@@ -255,21 +271,88 @@ def cache_key(net: Network) -> str:
     return CACHE_KEY + (f":{net.as_of.day.isoformat()}" if _looking_back(net) else "")
 
 
-def analyse(store: Store, net: Network | None = None, *, force: bool = False) -> Analysis:
-    """The analysis, from the cache when nothing it reads has changed (see :func:`cache_inputs`)."""
+def _stamp(version: int, when: AsOf) -> str:
+    """Where an analysis was last found current: the code's key, the data version, the day and whether it is cut.
+
+    Every input of :func:`cache_inputs` is fixed by these: the ties, contacts, labels and settings by the
+    data version (every import, decision and setting bumps it), your warmth by the day looked from.
+    """
+    return f"{CACHE_KEY}|{version}|{when.day.isoformat()}|{int(when.cut)}"
+
+
+def _save(store: Store, key: str, a: Analysis, stamp: str) -> None:
+    head = {k: v for k, v in a.to_json().items() if k not in ("groups", "group_of", "measures")}
+    members = set(a.group_of) | set(a.measures)
+    store.put_analysis(key, a.fingerprint, stamp, head, [asdict(g) for g in a.groups],
+                       ((c, a.group_of.get(c), a.measures.get(c, {})) for c in sorted(members)))
+
+
+def stored_analysis(store: Store, key: str, *, measures: bool = True) -> Analysis | None:
+    """The analysis kept under ``key`` whatever it was computed from (the caller checks it), or None.
+
+    ``measures=False`` leaves every contact's measures out (``measures`` is then empty).
+    """
+    head = store.analysis_head(key)
+    if head is None:
+        return None
+    groups = [GroupInfo(**g) for g in store.analysis_groups(key)]
+    return Analysis(groups=groups, group_of=store.analysis_group_of(key),
+                    measures=store.analysis_measures(key) if measures else {}, **head)
+
+
+def stamped_analysis(store: Store, when: AsOf, *, measures: bool = True) -> Analysis | None:
+    """The kept analysis of the day ``when`` if it was found current at this data version and day, else None.
+
+    Neither the ties nor the digest of :func:`cache_inputs` are needed: :func:`analyse` checked that
+    digest at this same stamp (see :func:`_stamp`). Your group names are not applied here.
+    """
+    key = cache_key(Network.looking_from(when))
+    kept = store.analysis_stamp(key)
+    if kept is None or kept[1] != _stamp(store.data_version, when):
+        return None
+    return stored_analysis(store, key, measures=measures)
+
+
+def stamped_group_of(store: Store, when: AsOf, ids: list[int]) -> dict[int, int | None] | None:
+    """The groups of ``ids`` (None: unclustered) from the kept analysis, when it is current (see above)."""
+    key = cache_key(Network.looking_from(when))
+    kept = store.analysis_stamp(key)
+    if kept is None or kept[1] != _stamp(store.data_version, when):
+        return None
+    found = store.analysis_group_of(key, ids)
+    return {c: found.get(c) for c in ids}
+
+
+def analyse(store: Store, net: Network | None = None, *, force: bool = False,
+            progress: Callable[[str], None] | None = None, measures: bool = True) -> Analysis:
+    """The analysis, from the workspace when nothing it reads has changed (see :func:`cache_inputs`).
+
+    ``progress`` is called with each step's name (:data:`STEPS`) when the analysis is computed afresh.
+    ``measures=False`` lets a kept analysis be read without the per-contact measures (``measures`` empty).
+    """
     net = net or load_network(store)
+    key = cache_key(net)
+    version = getattr(net, "data_version", None)
+    # The stamp is written only for a network loaded at the workspace's current data version.
+    stamp = _stamp(version, net.as_of) if version is not None and version == store.data_version else ""
+    kept = None if force else store.analysis_stamp(key)
+    if kept is not None and stamp and kept[1] == stamp:  # its digest was found current at this stamp
+        result = stored_analysis(store, key, measures=measures)
+        if result is not None:
+            apply_user_decisions(store, net, result)
+            return result
     model = AnalysisModel.from_settings(store.setting("analysis", {}))
     inputs = cache_inputs(store, net, model)
     fp = inputs_digest(inputs)
-    key = cache_key(net)
-    data = store.cached_any(key)
     result = None
-    if data and not force:
-        if data.get("fingerprint") == fp:
-            result = Analysis.from_json(data)
+    if not force:
+        if kept is not None and kept[0] == fp:
+            result = stored_analysis(store, key)
+            if result is not None and stamp and kept[1] != stamp:
+                store.set_analysis_stamp(key, stamp)
     if result is None:
-        result = compute_analysis(store, net, model, inputs)
-        store.put_cache(key, result.to_json())
+        result = compute_analysis(store, net, model, inputs, progress)
+        _save(store, key, result, stamp)
     apply_user_decisions(store, net, result)
     return result
 

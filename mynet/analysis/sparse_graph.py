@@ -9,12 +9,14 @@ from __future__ import annotations
 from dataclasses import dataclass
 from functools import cached_property
 
-import igraph as ig
-import networkx as nx
 import numpy as np
-import scipy.sparse as sp
 
+from ..lazy import lazy_module
 from .groups import sorted_nodes
+
+ig = lazy_module("igraph")
+nx = lazy_module("networkx")
+sp = lazy_module("scipy.sparse")
 
 __all__ = ["Prepared", "prepare_graph", "from_arrays", "degree_arrays"]
 

@@ -8,13 +8,15 @@ from __future__ import annotations
 
 from typing import Any
 
-import networkx as nx
 import numpy as np
-import scipy.sparse as sp
-from scipy.sparse.csgraph import connected_components
-from scipy.sparse.linalg import eigsh
 
+from ..lazy import lazy_module
 from .sparse_graph import Prepared, degree_arrays, prepare_graph
+
+nx = lazy_module("networkx")
+sp = lazy_module("scipy.sparse")
+csgraph = lazy_module("scipy.sparse.csgraph")
+splinalg = lazy_module("scipy.sparse.linalg")
 
 __all__ = ["eigenvector_centrality", "pagerank"]
 
@@ -27,7 +29,7 @@ def eigenvector_values(prep: Prepared) -> np.ndarray:
     out = np.zeros(n)
     if n == 0 or prep.W.nnz == 0:
         return out
-    count, labels = connected_components(prep.W, directed=False)
+    count, labels = csgraph.connected_components(prep.W, directed=False)
     order = np.argsort(labels, kind="stable")
     bounds = np.flatnonzero(np.r_[True, labels[order][1:] != labels[order][:-1], True])
     W = sp.csr_array(prep.W)
@@ -41,7 +43,7 @@ def eigenvector_values(prep: Prepared) -> np.ndarray:
             x = vecs[:, -1]
         else:
             start = np.asarray(A.sum(axis=1)).ravel() + 1.0  # a fixed start keeps the result deterministic
-            vals, vecs = eigsh(A.astype(float), k=1, which="LA", v0=start, tol=1e-12, maxiter=10_000)
+            vals, vecs = splinalg.eigsh(A.astype(float), k=1, which="LA", v0=start, tol=1e-12, maxiter=10_000)
             x = vecs[:, 0]
         x = np.abs(x)  # the Perron vector of a connected component has one sign
         out[members] = x / x.max()

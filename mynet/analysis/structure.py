@@ -13,10 +13,12 @@ from collections.abc import Hashable, Mapping
 from typing import Any
 
 import numpy as np
-import scipy.sparse as sp
-from scipy.sparse.csgraph import connected_components, shortest_path
 
+from ..lazy import lazy_module
 from .centrality import Prepared, clustering_values, from_arrays, prepare_graph
+
+sp = lazy_module("scipy.sparse")
+csgraph = lazy_module("scipy.sparse.csgraph")
 
 __all__ = [
     "attribute_assortativity",
@@ -32,7 +34,7 @@ __all__ = [
 def _components(prep: Prepared) -> tuple[int, np.ndarray]:
     if prep.n == 0:
         return 0, np.zeros(0, dtype=np.int64)
-    return connected_components(prep.W, directed=False)
+    return csgraph.connected_components(prep.W, directed=False)
 
 
 def _largest(prep: Prepared) -> np.ndarray:
@@ -57,7 +59,7 @@ def _path_length(prep: Prepared, path_samples: int, seed) -> tuple[float, bool, 
                                                          replace=False)) if sampled else np.arange(m)
     total = 0.0
     for start in range(0, len(sources), 256):  # bounded memory: 256 rows of distances at a time
-        d = shortest_path(A, directed=True, unweighted=True, indices=sources[start:start + 256])  # A is symmetric
+        d = csgraph.shortest_path(A, directed=True, unweighted=True, indices=sources[start:start + 256])
         total += float(d.sum())
     return total / (len(sources) * (m - 1)), sampled, len(sources)
 

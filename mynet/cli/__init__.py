@@ -27,11 +27,13 @@ __all__ = ["main", "cli"]
     default=None,
     help="Workspace file to use (default: $MYNET_WORKSPACE, else your user data folder).",
 )
+@click.option("--progress/--no-progress", "progress", default=None,
+              help="Show the steps of a long analysis on stderr (default: when stderr is a terminal).")
 @click.version_option(package_name="mynet")
 @click.pass_context
-def cli(ctx: click.Context, workspace: str | None) -> None:
+def cli(ctx: click.Context, workspace: str | None, progress: bool | None) -> None:
     """mynet: your contact exports, turned into your professional network, on your machine."""
-    ctx.obj = Ctx(workspace)
+    ctx.obj = Ctx(workspace, progress=progress)
 
 
 #: The command families, one module each; every module lists its commands in ``COMMANDS``.

@@ -11,27 +11,75 @@ from __future__ import annotations
 
 import json
 import shutil
-from typing import Any, Iterable, Sequence
+from typing import TYPE_CHECKING, Any, Iterable, Sequence
 
 import click
 
-from ..evidence.network import AsOf, Network
 from ..safetext import json_escape, shown
-from ..workspace import Workspace, open_workspace
+
+if TYPE_CHECKING:  # the workspace (and numpy, the analysis...) loads when a command runs, never for --help
+    from ..evidence.network import AsOf, Network
+    from ..workspace import Workspace
 
 
 class Ctx:
     """Per-invocation state: the workspace path (``--workspace``) and the workspace, opened on first use."""
 
-    def __init__(self, path: str | None):
+    def __init__(self, path: str | None, *, progress: bool | None = None):
         self.path = path
+        self.progress = progress
         self._workspace: Workspace | None = None
 
     def workspace(self, *, create: bool = True) -> Workspace:
         if self._workspace is None:
+            from ..workspace import open_workspace
+
             self._workspace = open_workspace(self.path, create=create)
-            click.get_current_context().call_on_close(self._workspace.close)
+            ctx = click.get_current_context()
+            ctx.call_on_close(self._workspace.close)
+            if self.progress or (self.progress is None and click.get_text_stream("stderr").isatty()):
+                bar = StepBar()
+                self._workspace.progress = bar
+                ctx.call_on_close(bar.close)
         return self._workspace
+
+
+class StepBar:
+    """The steps of a fresh analysis on stderr: a bar naming the step on a terminal, else one line per step.
+
+    Nothing shows when the analysis comes from the workspace. stdout (``--json``) is never touched.
+    """
+
+    def __init__(self) -> None:
+        self.bar: Any = None
+        self.task: Any = None
+        self.lines = not click.get_text_stream("stderr").isatty()
+
+    def __call__(self, step: str) -> None:
+        from ..analysis.snapshot import DONE, STEPS
+
+        if step == DONE:
+            self.close()
+            return
+        if self.lines:
+            note(f"analysis: {step} ({STEPS.index(step) + 1 if step in STEPS else '?'}/{len(STEPS)})")
+            return
+        if self.bar is None:
+            from rich.console import Console
+            from rich.progress import BarColumn, Progress, TextColumn, TimeElapsedColumn
+
+            self.bar = Progress(TextColumn("analysis"), BarColumn(), TextColumn("{task.fields[step]}"),
+                                TimeElapsedColumn(), console=Console(stderr=True), transient=True)
+            self.bar.start()
+            self.task = self.bar.add_task("analysis", total=len(STEPS), step="")
+        else:
+            self.bar.advance(self.task)
+        self.bar.update(self.task, step=shown(step, one_line=True))
+
+    def close(self) -> None:
+        if self.bar is not None:
+            self.bar.stop()
+            self.bar = None
 
 
 def echo(text: Any = "", *, nl: bool = True, err: bool = False) -> None:

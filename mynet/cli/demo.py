@@ -5,16 +5,17 @@ from __future__ import annotations
 import json
 import tempfile
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import click
 
 from ..errors import MynetError
-from ..evidence.explain import describe
-from ..evidence.network import Network
-from ..report import write_report
-from ..workspace import Workspace, open_workspace
 from .common import echo, note, table
 from .sources import region_words
+
+if TYPE_CHECKING:
+    from ..evidence.network import Network
+    from ..workspace import Workspace
 
 
 def sample_dir() -> Path:
@@ -90,6 +91,8 @@ def ties_and_why(ws: Workspace, net: Network) -> None:
         a, b = multiplex["a"], multiplex["b"]
         ex = ws.explain(a, b, net=net)
         heading(f"6. Why? (mynet why {a} {b})")
+        from ..evidence.explain import describe
+
         echo(f"   {ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}")
         for ev in ex["evidence"]:
             prov = ev.get("provenance")
@@ -137,6 +140,9 @@ def audit_and_reach(ws: Workspace, net: Network, analysis, truth: dict) -> None:
 @click.option("--keep", type=click.Path(file_okay=False), help="Keep the demo workspace in this folder.")
 def demo_cmd(keep):
     """Run mynet on the bundled invented sample contacts, in a throw-away workspace."""
+    from ..report import write_report
+    from ..workspace import open_workspace
+
     src = sample_dir()
     truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
     folder = Path(keep) if keep else Path(tempfile.mkdtemp(prefix="mynet-demo-"))

@@ -5,7 +5,7 @@ from __future__ import annotations
 import click
 
 from ..errors import MynetError, NotFoundError
-from .common import as_of_option, echo, emit_json, json_option, load_net, note, table
+from .common import as_of_option, echo, emit_json, json_option, load_net, note, table, when
 
 
 def describe_event(ev: dict, names: dict[int, str]) -> str:
@@ -39,7 +39,7 @@ def groups_cmd(ctx, as_of, as_json):
     if ctx.invoked_subcommand:
         return
     ws = ctx.obj.workspace()
-    a = ws.analysis(load_net(ws, as_of))
+    a = ws.analysis(as_of=when(ws, as_of), measures=False)  # the kept groups: the ties are not loaded
     if as_json:
         emit_json({
             "modularity": round(a.modularity, 4), "resolution": a.resolution,
@@ -73,7 +73,7 @@ def groups_cmd(ctx, as_of, as_json):
 def groups_name(obj, gid, name, clear):
     """Give group GID your own name (kept as its members change)."""
     ws = obj.workspace()
-    g = ws.analysis(load_net(ws, None)).group(gid)
+    g = ws.analysis(as_of=when(ws, None), measures=False).group(gid)
     if g is None:
         raise NotFoundError(f"no group {gid} (see: mynet groups)")
     if not clear and not (name or "").strip():

@@ -5,10 +5,16 @@ from __future__ import annotations
 import click
 
 from ..errors import NotFoundError
-from ..people.identity import names_compatible
-from ..workspace.results import SORTS, contact_fields
+from ..model import SORTS
 from .common import as_of_option, clip, confirm_or_refuse, echo, emit_json, json_option, note, plural, table, when
 from .sources import region_words
+
+
+def contact_fields(c, extra=None):
+    """:func:`mynet.workspace.results.contact_fields`, imported when a command prints a contact."""
+    from ..workspace.results import contact_fields as fields
+
+    return fields(c, extra)
 
 
 @click.command("me")
@@ -163,6 +169,8 @@ def merge_cmd(obj, who, yes, as_json):
     """Merge two or more contacts into one person (kept across re-imports)."""
     ws = obj.workspace()
     people = [ws.find(w) for w in who]
+    from ..people.identity import names_compatible
+
     odd = [p for p in people[1:] if not names_compatible(people[0].name, p.name)]
     if odd and not yes:
         confirm_or_refuse(f"{people[0].name} and {', '.join(p.name for p in odd)} have different names. Merge anyway?")

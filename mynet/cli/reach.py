@@ -2,11 +2,15 @@
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import click
 
-from ..analysis.intro_routes import ReachResult, distinct_names
-from ..evidence.network import Network
 from .common import as_of_option, echo, emit_json, json_option, load_net, note
+
+if TYPE_CHECKING:
+    from ..analysis.intro_routes import ReachResult
+    from ..evidence.network import Network
 
 
 def print_path(rank: int, p: dict) -> None:
@@ -55,6 +59,8 @@ def print_answer(result: ReachResult, max_intermediaries: int) -> None:
 
 
 def print_per_target(net: Network, result: ReachResult) -> None:
+    from ..analysis.intro_routes import distinct_names
+
     """For a set of targets: the best way to each person, and those with no path."""
     if len(result.per_target) > 1:
         echo("\nBest way to each person there:")

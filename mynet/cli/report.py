@@ -7,8 +7,7 @@ from pathlib import Path
 
 import click
 
-from ..report import MAX_CONTACTS_DRAWN, STEPS, write_report
-from ..report.export import FORMATS, export_network
+from ..report.files import FORMATS, MAX_CONTACTS_DRAWN, STEPS
 from .common import as_of_option, echo, note, when
 
 
@@ -46,6 +45,8 @@ def _progress(label: str, steps: tuple[str, ...]):
 @click.pass_obj
 def report_cmd(obj, output, markdown, redact, seed, max_contacts, as_of):
     """Write a self-contained report on your network (opens offline, prints in grey)."""
+    from ..report import write_report
+
     out = Path(output or ("network.md" if markdown else "network.html"))
     ws = obj.workspace()
     chosen = when(ws, as_of)
@@ -71,6 +72,8 @@ def report_cmd(obj, output, markdown, redact, seed, max_contacts, as_of):
 @click.pass_obj
 def export_cmd(obj, fmt, output, redact, as_of):
     """Write the network with every computed attribute as GraphML, CSV or JSON (node-link)."""
+    from ..report.export import export_network
+
     ws = obj.workspace()
     chosen = when(ws, as_of)
     with _progress("export", ("export",)) as step:

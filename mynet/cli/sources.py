@@ -3,12 +3,14 @@
 from __future__ import annotations
 
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import click
 
 from ..errors import InputError
-from ..workspace import ImportReport
-from ..workspace.importing import check_region, read_mapping
+
+if TYPE_CHECKING:
+    from ..workspace import ImportReport
 from .common import confirm_or_refuse, echo, emit_json, json_option, note, plural, table
 
 
@@ -94,6 +96,8 @@ def import_cmd(obj, paths, strict, maps, mapping_file, region, as_of, skip_bad_f
     shared addresses never do. Re-importing a file replaces its records and
     keeps your decisions. Nothing is stored if a file is refused.
     """
+    from ..workspace.importing import check_region, read_mapping
+
     mapping = read_mapping(mapping_file, maps)
     check_region(region)  # before the workspace is opened (and created)
     ws = obj.workspace()

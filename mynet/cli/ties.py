@@ -5,7 +5,6 @@ from __future__ import annotations
 import click
 
 from ..errors import MynetError
-from ..evidence.explain import describe
 from .common import as_of_option, echo, emit_json, json_option, load_net, note, table
 
 
@@ -43,6 +42,8 @@ def ties_cmd(obj, show_all, of, limit, as_of, as_json):
 
 def print_evidence(ex: dict) -> None:
     """Each piece of evidence of :meth:`Workspace.explain`, where it came from, and how the strength adds up."""
+    from ..evidence.explain import describe
+
     for ev in ex["evidence"]:
         line = describe(ev)
         if ev.get("provenance") and isinstance(ev["provenance"], list):
@@ -76,6 +77,8 @@ def why_cmd(obj, a, b, as_of, as_json):
     if ex["basis"] == "assumed":
         echo("  They may know each other: they share something, but nothing shows they have met or written.")
     if not any(e.get("counted", True) for e in ex["evidence"]):
+        from ..evidence.explain import describe
+
         for ev in ex["evidence"]:
             echo(f"  - {describe(ev)}")
         echo("  No evidence that they know each other.")

@@ -14,7 +14,7 @@ from typing import Iterable, Sequence
 
 from ..model import Contact, Interaction
 
-__all__ = ["Event", "EventLists", "event_lists", "evidence_events", "contact_of_email", "EventIndex"]
+__all__ = ["Event", "EventLists", "event_lists", "evidence_events", "contact_of_email", "EventIndex", "shared_events"]
 
 
 @dataclass
@@ -111,11 +111,15 @@ class EventIndex:
 
     def shared(self, a: int, b: int, cap: int) -> dict[str, list[Event]]:
         """The meetings and threads of 2..``cap`` people both ``a`` and ``b`` are in, oldest first."""
-        out: dict[str, list[Event]] = {"meeting": [], "thread": []}
-        for k in sorted(self.of.get(a, set()) & self.of.get(b, set())):
-            ev = self.events[k]
-            if 2 <= ev.size <= cap:
-                out[ev.kind].append(ev)
-        for evs in out.values():
-            evs.sort(key=lambda ev: (min(it.when for it in ev.items), ev.key))
-        return out
+        return shared_events((self.events[k] for k in sorted(self.of.get(a, set()) & self.of.get(b, set()))), cap)
+
+
+def shared_events(events: Iterable[Event], cap: int) -> dict[str, list[Event]]:
+    """The events of 2..``cap`` people among ``events`` (two people's common ones), by kind, oldest first."""
+    out: dict[str, list[Event]] = {"meeting": [], "thread": []}
+    for ev in events:
+        if 2 <= ev.size <= cap:
+            out[ev.kind].append(ev)
+    for evs in out.values():
+        evs.sort(key=lambda ev: (min(it.when for it in ev.items), ev.key))
+    return out

@@ -18,6 +18,7 @@ from ..model import Contact, Interaction
 from ..people.mailpeople import evidence_interactions
 from ..people.normalise import email_domain, fold_text, is_webmail, normalise_org
 from ..store import Store
+from .events import Event, shared_events
 from .network import Network, interactions_until
 from .ties import KINDS, OBSERVED_KINDS, EventIndex, TieTable
 
@@ -145,15 +146,68 @@ def describe(ev: dict[str, Any]) -> str:
 
 @dataclass
 class _EvidenceIndex:
-    """Records per contact and the shared-event index, built once per loaded network."""
+    """Records per contact and the shared-event index, built once per loaded network (every record and event read)."""
 
     records: dict[int, list[tuple[str, Any]]]
     events: EventIndex
 
+    def records_of(self, store: Store, net: Network, cid: int) -> list[tuple[str, Any]]:
+        return self.records.get(cid, [])
 
-def _evidence_index(store: Store, net: Network) -> _EvidenceIndex:
+    def shared(self, store: Store, a: int, b: int, cap: int) -> dict[str, list[Event]]:
+        return self.events.shared(a, b, cap)
+
+
+_ITEM_FIELDS = ("kind", "source", "index", "line", "when", "key", "thread", "title", "participants")
+
+
+class _KeptIndex:
+    """The same answers from the index kept in the workspace: a pair's records and the events they share are
+    read, nothing is scanned (``mynet why`` on 50,000 contacts). It holds no open store: a network outlives
+    the workspace it was loaded through (the browser opens one per task)."""
+
+    def __init__(self, key: str):
+        self.key = key
+
+    def records_of(self, store: Store, net: Network, cid: int) -> list[tuple[str, Any]]:
+        c = net.by_id.get(cid)
+        rows = store.records_by_id(c.record_ids) if c is not None else []
+        return [(f"{src['path'].rsplit('/', 1)[-1]}:{rec.line}", rec) for _rid, _k, src, rec in rows]
+
+    def shared(self, store: Store, a: int, b: int, cap: int) -> dict[str, list[Event]]:
+        ks = sorted(set(store.events_of(self.key, a)) & set(store.events_of(self.key, b)))
+        return shared_events((Event(d["kind"], d["key"], d["participants"],
+                                    [Interaction.from_dict(it) for it in d["items"]])
+                              for d in store.events_at(self.key, ks)), cap)
+
+
+def _kept_row(ev: Event) -> dict[str, Any]:
+    return {"kind": ev.kind, "key": ev.key, "participants": ev.participants,
+            "items": [{f: getattr(it, f) for f in _ITEM_FIELDS} for it in ev.items]}
+
+
+def _evidence_index(store: Store, net: Network) -> _EvidenceIndex | _KeptIndex:
+    """The evidence index of ``net``: kept in the workspace per data version (built on first use), else in memory."""
+    if isinstance(net.evidence_index, _KeptIndex) and not store.has_event_index(net.evidence_index.key,
+                                                                                 net.data_version):
+        net.evidence_index = None  # the workspace changed since: read everything again
     if net.evidence_index is not None:
         return net.evidence_index
+    if net.data_version is None or net.data_version != store.data_version or store.read_only:
+        net.evidence_index = _scan_index(store, net)
+        return net.evidence_index
+    key = "events:v1:" + (net.as_of.day.isoformat() if net.as_of.cut else "all")
+    if store.has_event_index(key, net.data_version):
+        net.evidence_index = _KeptIndex(key)
+        return net.evidence_index
+    full = _scan_index(store, net)
+    store.put_event_index(key, net.data_version, (_kept_row(ev) for ev in full.events.events),
+                          sorted((c, sorted(ks)) for c, ks in full.events.of.items()))
+    net.evidence_index = full
+    return full
+
+
+def _scan_index(store: Store, net: Network) -> _EvidenceIndex:
     cmap = store.contact_map()
     records: dict[int, list[tuple[str, Any]]] = defaultdict(list)
     for _rid, key, src, rec in store.records():
@@ -163,9 +217,7 @@ def _evidence_index(store: Store, net: Network) -> _EvidenceIndex:
     interactions = evidence_interactions(store, store.interactions())
     if net.as_of.cut:
         interactions = interactions_until(interactions, net.as_of.day)
-    ix = _EvidenceIndex(dict(records), EventIndex(net.contacts, interactions))
-    net.evidence_index = ix
-    return ix
+    return _EvidenceIndex(dict(records), EventIndex(net.contacts, interactions))
 
 
 def _where(it: Interaction) -> str:
@@ -189,7 +241,7 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
     # Provenance of organisations and tags: file:line of every record that says so.
     said: dict[tuple[int, str, str], list[str]] = defaultdict(list)
     for cid in (a_id, b_id):
-        for where, rec in ix.records.get(cid, []):
+        for where, rec in ix.records_of(store, net, cid):
             for o in rec.orgs:
                 said[(cid, "org", normalise_org(o))].append(where)
             for tg in rec.tags:
@@ -209,7 +261,7 @@ def explain_tie(store: Store, net: Network, a_id: int, b_id: int) -> dict[str, A
             ev["why_not"] = (f"{sizes[norm]} of your contacts are there; inside an organisation that large each "
                              f"person keeps only as many links as people there are seen to know, best first")
         evidence.append(ev)
-    shared = ix.events.shared(a_id, b_id, net.model.broadcast_cap)
+    shared = ix.shared(store, a_id, b_id, net.model.broadcast_cap)
     meetings = [ev.items[0] for ev in shared["meeting"]]
     if meetings:
         count = int(t.counts["meeting"][i]) if i is not None else len(meetings)

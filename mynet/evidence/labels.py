@@ -31,9 +31,11 @@ from dataclasses import asdict, dataclass
 from typing import Mapping, Sequence
 
 import numpy as np
-import scipy.sparse as sp
 
+from ..lazy import lazy_module
 from ..people.normalise import GENERIC_TAGS, fold_text
+
+sp = lazy_module("scipy.sparse")
 
 __all__ = ["LabelVerdict", "workflow_wording", "usage_verdict", "judge_labels", "WORKFLOW_PHRASES", "WORKFLOW_WORDS",
            "USAGE_MIN_USES", "USAGE_MIN_SEEN", "USAGE_MIN_ORGS", "USAGE_MAX_LINKED"]

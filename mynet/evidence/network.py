@@ -25,7 +25,7 @@ from .warmth import Warmth, WarmthModel, compute_warmth
 __all__ = ["Network", "AsOf", "resolve_as_of", "load_network", "load_warmth", "interactions_until", "tie_decisions",
            "label_decisions", "anchor_key", "contact_of_key", "TIES_CACHE", "warmth_cache_key"]
 
-TIES_CACHE = "ties:v2"
+TIES_CACHE = "ties:v3"
 #: Days without any interaction after which mynet measures warmth at your newest interaction by default.
 STALE_DAYS = 365
 
@@ -105,6 +105,8 @@ class Network:
     #: Filled on first use by :mod:`mynet.evidence.explain` (contacts per organisation; records and shared events).
     org_sizes: dict[str, int] | None = field(default=None, repr=False, compare=False)
     evidence_index: Any = field(default=None, repr=False, compare=False)
+    #: The workspace's data version the network was loaded at (None: not loaded from a workspace).
+    data_version: int | None = field(default=None, repr=False, compare=False)
 
     def name(self, cid: int) -> str:
         c = self.by_id.get(cid)
@@ -254,6 +256,7 @@ def load_network(store: Store, *, today: date | None = None, as_of: AsOf | date 
         and warmth is measured on it. Default: see :func:`resolve_as_of`.
     """
     when = as_of if isinstance(as_of, AsOf) else resolve_as_of(store, as_of, today=today)
+    version = store.data_version
     contacts = store.contacts()
     by_id = {c.id: c for c in contacts}
     model = TieModel.from_settings(store.setting("tie_model", {}))
@@ -261,10 +264,10 @@ def load_network(store: Store, *, today: date | None = None, as_of: AsOf | date 
     me = _me_emails(store)
     manual, notes, suppressed, ratings = tie_decisions(store)
     key = TIES_CACHE + (f":{when.day.isoformat()}" if when.cut else "")
-    cached = store.cached(key)
+    cached = store.blob(key, store.data_version)
     interactions: list[Interaction] | None = None
     if cached is not None:
-        all_ties = TieTable.from_json(cached)
+        all_ties = TieTable.from_bytes(cached)
     else:
         interactions = evidence_interactions(store)
         if when.cut:
@@ -275,7 +278,7 @@ def load_network(store: Store, *, today: date | None = None, as_of: AsOf | date 
             extra_webmail=not_employer_domains(store),
             label_decisions=label_decisions(store),
         )
-        store.put_cache(key, all_ties.to_json())
+        store.put_blob(key, all_ties.to_bytes(), store.data_version)
     warmth = load_warmth(store, contacts, today=when.day, interactions=interactions, ratings=ratings)
     mask = all_ties.strength >= model.min_strength
     if all_ties.manual is not None:
@@ -287,4 +290,5 @@ def load_network(store: Store, *, today: date | None = None, as_of: AsOf | date 
             keep |= ties.manual
         ties = ties.select(keep)
     labels = {v["key"]: v for v in all_ties.labels}
-    return Network(contacts, by_id, all_ties, ties, warmth, model, wmodel, me, notes, when, labels)
+    return Network(contacts, by_id, all_ties, ties, warmth, model, wmodel, me, notes, when, labels,
+                   data_version=version)

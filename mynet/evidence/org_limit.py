@@ -34,7 +34,10 @@ import math
 from typing import TYPE_CHECKING
 
 import numpy as np
-import scipy.sparse as sp
+
+from ..lazy import lazy_module
+
+sp = lazy_module("scipy.sparse")
 
 if TYPE_CHECKING:
     from .ties import TieModel

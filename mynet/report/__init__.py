@@ -17,15 +17,25 @@ import html as _html
 import os
 from datetime import date
 from pathlib import Path
-from typing import Callable, Iterable
+from typing import TYPE_CHECKING, Any, Callable, Iterable
 
 from ..errors import MynetError
-from ..workspace import Workspace
-from .data import MAX_CONTACTS_DRAWN, STEPS, ReportData, collect
-from .files import private_dir, write_private
-from .redact import Pseudonyms, find_leaks
+from .files import MAX_CONTACTS_DRAWN, STEPS, private_dir, write_private
+
+if TYPE_CHECKING:  # loaded when a report is written: ``mynet --help`` reads only the constants above
+    from ..workspace import Workspace
+    from .redact import Pseudonyms
 
 __all__ = ["write_report", "collect", "ReportData", "STEPS", "MAX_CONTACTS_DRAWN", "RedactionError", "check_redacted"]
+
+
+def __getattr__(name: str) -> Any:
+    """``collect`` and ``ReportData`` load on first use (with the analysis they need)."""
+    if name in ("collect", "ReportData"):
+        from . import data
+
+        return getattr(data, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 
 class RedactionError(MynetError):
@@ -39,6 +49,8 @@ def check_redacted(texts: Iterable[str], ps: Pseudonyms | None) -> None:
     """
     if ps is None:
         return
+    from .redact import find_leaks
+
     for text in texts:
         for t in (text, _html.unescape(text)):
             leaks = find_leaks(t, ps.identifiers)
@@ -93,6 +105,8 @@ def write_report(
     out = Path(path)
     if out.parent and not out.parent.is_dir():
         raise MynetError(f"cannot write {out}: the folder {out.parent} does not exist")
+    from .data import collect
+
     d = collect(ws, redact=redact, today=today, max_contacts=max_contacts, progress=step, as_of=as_of)
     step("picture")
     from . import charts

@@ -22,15 +22,11 @@ from ..evidence.explain import basis, evidence_summary, tie_words
 from ..evidence.network import AsOf, Network
 from ..evidence.warmth import BEYOND, NONE, TIERS
 from ..workspace import Workspace
+from .files import MAX_CONTACTS_DRAWN, STEPS
 from .redact import Pseudonyms, redact_analysis, redact_network
 
 __all__ = ["ReportData", "collect", "STEPS", "MAX_CONTACTS_DRAWN"]
 
-#: Above this many contacts the picture shows the map of groups instead of every contact.
-MAX_CONTACTS_DRAWN = 2000
-
-#: The steps :func:`collect` and :func:`mynet.report.write_report` report to ``progress``.
-STEPS = ("load network", "analyse", "audit", "intro paths", "timeline", "picture", "charts", "write")
 
 
 

@@ -38,20 +38,20 @@ from datetime import date
 from pathlib import Path
 from typing import Any, Iterable
 
-import networkx as nx
-
 from ..errors import MynetError
+from ..lazy import lazy_module
 from ..safetext import shown
 from ..workspace import Workspace
 from ..workspace.frames import MEASURES_FLOAT, MEASURES_INT, network_graph
 from . import check_redacted
-from .files import write_private
+from .files import FORMATS, write_private
 from .redact import redact_analysis, redact_network
+
+nx = lazy_module("networkx")
 
 __all__ = ["FORMATS", "shown_attributes", "graphml_text", "csv_texts", "json_text", "neutralise", "csv_paths",
            "export_network"]
 
-FORMATS = ("graphml", "csv", "json")
 _SUFFIX = {".graphml": "graphml", ".xml": "graphml", ".csv": "csv", ".json": "json"}
 _RISKY = ("=", "+", "-", "@", "\t", "\r")
 

@@ -13,7 +13,16 @@ from pathlib import Path
 
 from ..errors import MynetError
 
-__all__ = ["write_private", "private_dir", "FILE_MODE", "DIR_MODE"]
+#: Above this many contacts the picture shows the map of groups instead of every contact.
+MAX_CONTACTS_DRAWN = 2000
+
+#: The steps :func:`mynet.report.data.collect` and :func:`mynet.report.write_report` report to ``progress``.
+STEPS = ("load network", "analyse", "audit", "intro paths", "timeline", "picture", "charts", "write")
+
+#: The formats ``mynet export`` writes.
+FORMATS = ("graphml", "csv", "json")
+
+__all__ = ["write_private", "private_dir", "FILE_MODE", "DIR_MODE", "MAX_CONTACTS_DRAWN", "STEPS", "FORMATS"]
 
 FILE_MODE = 0o600
 DIR_MODE = 0o700

@@ -22,8 +22,11 @@ from __future__ import annotations
 import math
 from typing import Hashable, Sequence
 
-import networkx as nx
 import numpy as np
+
+from ..lazy import lazy_module
+
+nx = lazy_module("networkx")
 
 __all__ = ["place_discs", "group_layout", "sunflower"]
 

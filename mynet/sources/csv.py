@@ -52,15 +52,16 @@ from itertools import islice
 from pathlib import Path
 from typing import Callable
 
-import pandas as pd
-
 from ..errors import InputError, RecordError
+from ..lazy import lazy_module
 from ..model import Address, ParseResult, Record, Related, Skipped
 from .csv_headers import BLOCK as _BLOCK
 from .csv_headers import QUALIFIERS as _QUALIFIERS
 from .csv_headers import SUFFIX_OK as _SUFFIX_OK
 from .csv_headers import SYNONYM_TEXT as _SYNONYM_TEXT
 from .csv_text import NEWLINE, Lines, RawRow, decode_table, read_rows
+
+pd = lazy_module("pandas")
 
 __all__ = ["parse_csv", "load_mapping_file", "classify_header", "MAPPABLE_FIELDS"]
 

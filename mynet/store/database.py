@@ -29,6 +29,7 @@ from urllib.parse import quote
 
 from ..errors import WorkspaceError
 from ..model import Contact, Interaction, Record
+from .derived import DerivedMixin
 from .schema import MIGRATIONS, SCHEMA_VERSION
 
 __all__ = ["Store", "SCHEMA_VERSION", "SourceRow"]
@@ -71,7 +72,7 @@ def _read_only_uris(path: Path) -> list[str]:
     return [base + "?mode=ro", base + "?mode=ro&immutable=1"]
 
 
-class Store:
+class Store(DerivedMixin):
     """The workspace file.
 
     Parameters
@@ -282,6 +283,7 @@ class Store:
         """Forget every cached result (they are derived: computed again when next asked for)."""
         with self.transaction():
             self.conn.execute("DELETE FROM cache")
+            self.drop_derived()
 
     def compact(self) -> None:
         """Drop caches, truncate the write-ahead log and vacuum, so deleted rows leave no trace in the file."""
@@ -457,8 +459,13 @@ class Store:
             self.conn.execute("DELETE FROM contact_map WHERE contact_id = ?", (contact_id,))
             self.conn.execute("DELETE FROM contacts WHERE id = ?", (contact_id,))
 
-    def contacts(self) -> list[Contact]:
-        return [Contact.from_dict(json.loads(d)) for (d,) in self.conn.execute("SELECT data FROM contacts ORDER BY id")]
+    def contacts(self, *, limit: int = 0) -> list[Contact]:
+        """Every contact by id (the first ``limit`` only, when given)."""
+        sql = "SELECT data FROM contacts ORDER BY id" + (" LIMIT ?" if limit else "")
+        return [Contact.from_dict(json.loads(d)) for (d,) in self.conn.execute(sql, (limit,) if limit else ())]
+
+    def contact_count(self) -> int:
+        return self.conn.execute("SELECT COUNT(*) FROM contacts").fetchone()[0]
 
     def contact(self, contact_id: int) -> Contact | None:
         row = self.conn.execute("SELECT data FROM contacts WHERE id = ?", (contact_id,)).fetchone()

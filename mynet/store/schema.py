@@ -65,6 +65,46 @@ MIGRATIONS: tuple[tuple[str, ...], ...] = (
         "ALTER TABLE sources ADD COLUMN reader TEXT NOT NULL DEFAULT ''",
         "ALTER TABLE sources ADD COLUMN new_contacts INTEGER NOT NULL DEFAULT 1",
     ),
+    # 2 -> 3: the analysis kept in rows (a command reads the groups, or the measures of the contacts it
+    # shows, not one document of the whole network), the data version and day it was last checked at,
+    # derived arrays kept as bytes (the tie table loads without decoding text), and the events behind the ties
+    # indexed by contact.
+    (
+        """CREATE TABLE analyses (
+            key TEXT PRIMARY KEY,
+            fingerprint TEXT NOT NULL,
+            stamp TEXT NOT NULL,
+            head TEXT NOT NULL
+        )""",
+        """CREATE TABLE analysis_groups (
+            key TEXT NOT NULL,
+            id INTEGER NOT NULL,
+            rank INTEGER NOT NULL,
+            data TEXT NOT NULL,
+            PRIMARY KEY (key, id)
+        )""",
+        """CREATE TABLE analysis_contacts (
+            key TEXT NOT NULL,
+            contact_id INTEGER NOT NULL,
+            group_id INTEGER,
+            measures TEXT NOT NULL,
+            PRIMARY KEY (key, contact_id)
+        )""",
+        "CREATE TABLE blobs (key TEXT PRIMARY KEY, version INTEGER NOT NULL, data BLOB NOT NULL)",
+        # The meetings and threads behind the ties, and each contact's, so that `why` reads two rows.
+        """CREATE TABLE event_rows (
+            key TEXT NOT NULL,
+            k INTEGER NOT NULL,
+            data TEXT NOT NULL,
+            PRIMARY KEY (key, k)
+        )""",
+        """CREATE TABLE event_members (
+            key TEXT NOT NULL,
+            contact_id INTEGER NOT NULL,
+            events TEXT NOT NULL,
+            PRIMARY KEY (key, contact_id)
+        )""",
+    ),
 )
 
 SCHEMA_VERSION = len(MIGRATIONS)

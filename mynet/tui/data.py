@@ -302,7 +302,9 @@ def load_extras(path: Path, snap: Snapshot, status: Status | None = None) -> Ext
 
     def run(ws: Workspace) -> Extras:
         extras = Extras(suggestions=ws.suggestions())
-        extras.findings = list(audit(snap.net, snap.analysis, today=snap.today))
+        # Through the workspace when there are contacts: your own brokerage is then kept per data version.
+        extras.findings = (list(ws.audit(net=snap.net, analysis=snap.analysis)) if snap.net.contacts
+                           else list(audit(snap.net, snap.analysis, today=snap.today)))
         return extras
 
     return with_workspace(path, run, status)

@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import os
 from pathlib import Path
+from typing import Callable
 
 from ..store import Store
 from .decisions import DecisionsMixin
@@ -53,7 +54,12 @@ class Workspace(ImportingMixin, PeopleMixin, DecisionsMixin, SettingsMixin, Priv
         :class:`~mynet.errors.WorkspaceError`.
     store : mynet.store.Store
         The SQLite file underneath (for the core; the views use the methods).
+    progress : callable or None
+        Called with the name of each step of a fresh analysis (``mynet.analysis.snapshot.STEPS``);
+        the command line sets it to a progress bar on stderr.
     """
+
+    progress: Callable[[str], None] | None = None
 
     def __init__(self, path: str | os.PathLike | None = None, *, create: bool = True, timeout: float = 30.0):
         self.store = Store(resolve_workspace_path(path), create=create, timeout=timeout)

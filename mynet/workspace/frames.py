@@ -11,13 +11,14 @@ from __future__ import annotations
 import math
 from typing import TYPE_CHECKING, Any
 
-import networkx as nx
-
 from ..analysis.bridges import neighbourhood_overlap
 from ..analysis.snapshot import Analysis, tie_graph
 from ..evidence.explain import basis, evidence_summary, tie_words
 from ..evidence.network import Network
 from ..evidence.ties import KINDS
+from ..lazy import lazy_module
+
+nx = lazy_module("networkx")
 
 if TYPE_CHECKING:
     import pandas as pd

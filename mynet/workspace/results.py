@@ -12,14 +12,23 @@ from collections import Counter, defaultdict
 from datetime import date
 from typing import TYPE_CHECKING, Any, Iterable
 
-from ..analysis.audit import audit
+from ..analysis.audit import audit, ego_brokerage
 from ..analysis.intro_routes import ReachResult, reach, resolve_targets
-from ..analysis.snapshot import Analysis, analyse, apply_user_decisions, cache_key
+from ..analysis.snapshot import (
+    Analysis,
+    analyse,
+    apply_user_decisions,
+    cache_key,
+    stamped_analysis,
+    stamped_group_of,
+    stored_analysis,
+    tie_graph,
+)
 from ..errors import NotFoundError
 from ..evidence.explain import basis, evidence_summary, explain_tie, tie_words
 from ..evidence.network import AsOf, Network, load_network, load_warmth, resolve_as_of, warmth_cache_key
 from ..evidence.warmth import Warmth, unlisted_people
-from ..model import Contact
+from ..model import SORTS, Contact
 from ..people.mailpeople import evidence_interactions, me_emails
 from ..people.normalise import normalise_email
 from ..store import Store
@@ -35,8 +44,6 @@ __all__ = ["ResultsMixin", "Rows", "contact_fields", "SORTS"]
 
 Day = AsOf | date | str | None
 
-#: How :meth:`ResultsMixin.contacts` can order the contacts.
-SORTS = ("id", "name", "warmth", "last")
 
 _MONTH = re.compile(r"^(\d{4})-(\d{2})")
 
@@ -95,13 +102,27 @@ class ResultsMixin:
         """Contacts, ties and your warmth seen from a day (cached in the workspace)."""
         return load_network(self.store, today=today, as_of=as_of)
 
-    def analysis(self, net: Network | None = None, *, as_of: Day = None, force: bool = False) -> Analysis:
-        """Groups, measures, bridges and the shape of the network (cached until something it reads changes)."""
-        return analyse(self.store, net or self.network(as_of), force=force)
+    def analysis(self, net: Network | None = None, *, as_of: Day = None, force: bool = False,
+                 measures: bool = True) -> Analysis:
+        """Groups, measures, bridges and the shape of the network (cached until something it reads changes).
+
+        Without ``net``, an analysis found current at this data version and day is read
+        without loading the network (``measures=False`` then leaves the per-contact
+        measures out, for a caller that shows only groups).
+        """
+        if net is None and not force:
+            when = self.as_of(as_of)
+            kept = stamped_analysis(self.store, when, measures=measures)
+            if kept is not None:
+                apply_user_decisions(self.store, Network.looking_from(when, warmth=self.warmth(when)), kept)
+                return kept
+            net = self.network(when)
+        return analyse(self.store, net or self.network(as_of), force=force, progress=getattr(self, "progress", None),
+                       measures=measures)
 
     def analysis_is_cached(self, net: Network) -> bool:
         """Whether the analysis of ``net`` was computed before (it may still need recomputing if inputs changed)."""
-        return self.store.has_cache(cache_key(net))
+        return self.store.analysis_stamp(cache_key(net)) is not None
 
     def cached_analysis(self, as_of: Day = None, *, today: date | None = None) -> tuple[AsOf, Analysis] | None:
         """The groups as last analysed, straight from the cache, with your names applied; None when not cached.
@@ -110,11 +131,10 @@ class ResultsMixin:
         against them (:meth:`analysis` does that).
         """
         when = self.as_of(as_of, today=today)
-        data = self.store.cached_any(cache_key(Network.looking_from(when)))
+        analysis = stored_analysis(self.store, cache_key(Network.looking_from(when)))
         warmth = self.store.cached(warmth_cache_key(when.day))
-        if data is None or warmth is None:
+        if analysis is None or warmth is None:
             return None
-        analysis = Analysis.from_json(data)
         light = Network.looking_from(when, warmth={int(k): Warmth(**v) for k, v in warmth.items()})
         apply_user_decisions(self.store, light, analysis)
         return when, analysis
@@ -133,7 +153,8 @@ class ResultsMixin:
         analysis (``group`` is then left out). Without ``net``, groups are those of the
         network seen from today (or from your newest interaction when that is stale).
         """
-        people = self.store.contacts()
+        page = not search and sort == "id" and limit > 0
+        people = self.store.contacts(limit=limit) if page else self.store.contacts()
         if search:
             people = search_contacts(people, search)
         warmth = net.warmth if net is not None else self.warmth(as_of)
@@ -143,15 +164,23 @@ class ResultsMixin:
             people.sort(key=lambda c: (-warmth[c.id].warmth, c.id))
         elif sort == "last":
             people.sort(key=lambda c: (warmth[c.id].last or "", c.id), reverse=True)
-        total = len(people)
+        total = self.store.contact_count() if page else len(people)
         if limit:
             people = people[:limit]
-        groups = self.analysis(net).group_of if with_groups else None
+        groups = self._groups_of([c.id for c in people], net, as_of) if with_groups else None
         rows = Rows(contact_fields(c, _warmth_fields(c, warmth) | ({"group": groups.get(c.id)} if groups is not None
                                                                     else {}))
                     for c in people)
         rows.total = total
         return rows
+
+    def _groups_of(self, ids: list[int], net: Network | None, as_of: Day) -> dict[int, int | None]:
+        """The groups of the contacts ``ids``: a look-up in the kept analysis when it is current."""
+        if net is None:
+            found = stamped_group_of(self.store, self.as_of(as_of), ids)
+            if found is not None:
+                return found
+        return self.analysis(net, as_of=as_of, measures=False).group_of
 
     def unlisted(self) -> list[dict[str, Any]]:
         """People you met or wrote with who are not in your address book, seen often enough to matter.
@@ -194,7 +223,7 @@ class ResultsMixin:
 
     def groups(self, *, as_of: Day = None, net: Network | None = None) -> list[dict[str, Any]]:
         """The groups, largest first: id, name, label, user_named, size, warm, members."""
-        a = self.analysis(net, as_of=as_of)
+        a = self.analysis(net, as_of=as_of, measures=False)
         return [{"id": g.id, "name": g.name, "label": g.label, "user_named": g.user_named, "size": g.size,
                  "warm": g.warm, "members": g.members} for g in a.groups]
 
@@ -216,7 +245,7 @@ class ResultsMixin:
                                   find_contact=self.find)
         avoid_ids = {self.find(a).id for a in avoid}
         return reach(net, targets, k=k, max_intermediaries=max_intermediaries, avoid=avoid_ids,
-                     min_strength=min_strength, groups=self.analysis(net).group_of)
+                     min_strength=min_strength, groups=self.analysis(net, measures=False).group_of)
 
     def audit(self, *, as_of: Day = None, net: Network | None = None,
               analysis: Analysis | None = None) -> list[dict[str, Any]]:
@@ -230,7 +259,18 @@ class ResultsMixin:
         net = net or self.network(as_of)
         if not net.contacts:
             raise NotFoundError("there is nothing to audit yet: import your contacts first (mynet import FILE)")
-        return audit(net, analysis or self.analysis(net), today=net.as_of.day)
+        return audit(net, analysis or self.analysis(net), today=net.as_of.day, ego=self._ego(net))
+
+    def _ego(self, net: Network) -> dict[str, float]:
+        """Your own brokerage (:func:`ego_brokerage`), kept for this data version and day."""
+        key = f"ego:v1:{net.as_of.day.isoformat()}:{int(net.as_of.cut)}"
+        current = net.data_version is not None and net.data_version == self.store.data_version
+        kept = self.store.cached(key) if current else None
+        if kept is None:
+            kept = ego_brokerage(tie_graph(net), {cid: w.warmth for cid, w in net.warmth.items()})
+            if current:
+                self.store.put_cache(key, kept)
+        return kept
 
     def explain(self, a: int, b: int, *, as_of: Day = None, net: Network | None = None) -> dict[str, Any]:
         """Every piece of evidence for the tie between two contacts, with the file and line it came from."""
