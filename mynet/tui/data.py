@@ -136,7 +136,7 @@ class Snapshot:
 
     def role(self, cid: int) -> str:
         m = self.analysis.measures.get(cid)
-        return (m or {}).get("role") or "isolated"
+        return (m or {}).get("role") or "no ties"
 
     def ungrouped(self) -> list[int]:
         grouped = {m for g in self.analysis.groups for m in g.members}

@@ -52,7 +52,7 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
         bits.append(f" · last {last}" if last else " · no interaction on record")
     line("Warmth", bits)
     m = snap.analysis.measures.get(cid) or {}
-    line("Group", group_title(snap, snap.group_of(cid)) + Text(" · ") + Text(m.get("role") or "isolated", style="bold")
+    line("Group", group_title(snap, snap.group_of(cid)) + Text(" · ") + Text(m.get("role") or "no ties", style="bold")
          + Text(f" · {plural(int(m.get('degree') or 0), 'tie')}"))
     line("Standing", standing_words(m.get("eigenvector")))
     titles = f" ({', '.join(c.titles)})" if c.titles else ""
