@@ -31,7 +31,7 @@ __all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "ca
            "load_analysis", "contact_attrs",
            "apply_user_decisions", "compute_analysis", "cache_key"]
 
-CACHE_KEY = "analysis:v1"
+CACHE_KEY = "analysis:v2"  # v2: roles in our own words
 STATE_KEY = "groups_state"
 
 

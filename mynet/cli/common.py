@@ -14,6 +14,7 @@ import shutil
 from typing import Any, Iterable, Sequence
 
 import click
+from rich.cells import cell_len, set_cell_size
 
 from ..evidence.network import AsOf, Network
 from ..safetext import json_escape, shown
@@ -55,23 +56,70 @@ def note(text: str) -> None:
 
 
 def clip(text: str, width: int) -> str:
+    """``text`` on one line in at most ``width`` terminal cells (wide characters count two), ``…`` when cut."""
     text = " ".join(shown(text, one_line=True).split())
-    return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+    if cell_len(text) <= width:
+        return text
+    return set_cell_size(text, max(0, width - 1)).rstrip() + "…" if width > 0 else ""
+
+
+def pad(text: str, width: int) -> str:
+    """``text`` padded with spaces to ``width`` terminal cells."""
+    return text + " " * max(0, width - cell_len(text))
+
+
+def fit_widths(natural: Sequence[int], total: int, floors: Sequence[int]) -> list[int]:
+    """Column widths within ``total`` cells: the widest column gives way first, one cell at a time.
+
+    No column shrinks below its floor (its header, at most 12 cells), so an ellipsis only ever shows in a
+    column after every wider one has given up what it could.
+    """
+    widths = list(natural)
+    excess = sum(widths) + 2 * (len(widths) - 1) - total
+    while excess > 0:
+        i = max(range(len(widths)), key=lambda k: (widths[k] - floors[k] > 0, widths[k]))
+        if widths[i] <= floors[i]:
+            break
+        widths[i] -= 1
+        excess -= 1
+    return widths
 
 
 def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequence[int] | None = None) -> str:
-    """A plain aligned text table that fits the terminal (last column takes the rest)."""
+    """A plain aligned text table that fits the terminal, measured in terminal cells (wide characters count two).
+
+    When the rows are wider than the terminal, the widest columns give way first (see :func:`fit_widths`);
+    a cell is cut with ``…`` only after that.
+    """
     rows = [[" ".join(shown(c, one_line=True).split()) if c is not None else "" for c in r] for r in rows]
     total = shutil.get_terminal_size((100, 24)).columns
     if widths is None:
-        widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(headers)]
-        fixed = sum(widths[:-1]) + 2 * (len(widths) - 1)
-        widths = list(widths[:-1]) + [max(10, min(widths[-1], total - fixed))]
-    lines = ["  ".join(clip(h, w).ljust(w) for h, w in zip(headers, widths)).rstrip()]
+        natural = [max([cell_len(h)] + [cell_len(r[i]) for r in rows]) for i, h in enumerate(headers)]
+        widths = fit_widths(natural, total, [min(12, cell_len(h)) for h in headers])
+    lines = ["  ".join(pad(clip(h, w), w) for h, w in zip(headers, widths)).rstrip()]
     lines.append("  ".join("-" * w for w in widths))
+    indent = sum(widths[:-1]) + 2 * (len(widths) - 1)
     for r in rows:
-        lines.append("  ".join(clip(c, w).ljust(w) for c, w in zip(r, widths)).rstrip())
+        # The last column (reasons, names of groups) wraps onto lines of its own instead of being cut.
+        last = wrap_cells(r[-1], widths[-1]) if r else [""]
+        lines.append("  ".join([*(pad(clip(c, w), w) for c, w in zip(r[:-1], widths[:-1])), last[0]]).rstrip())
+        lines.extend(" " * indent + more for more in last[1:])
     return "\n".join(lines)
+
+
+def wrap_cells(text: str, width: int) -> list[str]:
+    """``text`` in lines of at most ``width`` cells, broken between words (a longer word is cut with ``…``)."""
+    lines: list[str] = []
+    line = ""
+    for word in text.split():
+        joined = f"{line} {word}" if line else word
+        if cell_len(joined) <= width:
+            line = joined
+            continue
+        if line:
+            lines.append(line)
+        line = clip(word, width)
+    return [*lines, line] if line or not lines else lines
 
 
 json_option = click.option("--json", "as_json", is_flag=True, help="Print one JSON document on stdout.")

@@ -19,6 +19,7 @@ from __future__ import annotations
 
 from typing import Any
 
+from rich.cells import cell_len, set_cell_size
 from rich.text import Text
 from textual import widgets
 from textual.theme import Theme
@@ -95,9 +96,11 @@ class Label(_SafeText, widgets.Label):
 def clip(text: str, width: int) -> str:
     """Text cut to ``width`` cells with an ellipsis; a trailing "(…)" aside goes first; controls shown."""
     text = " ".join(shown(text, one_line=True).split())
-    if len(text) > width and text.endswith(")") and " (" in text:
+    if cell_len(text) > width and text.endswith(")") and " (" in text:
         text = text[: text.rindex(" (")]
-    return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+    if cell_len(text) <= width:
+        return text
+    return set_cell_size(text, max(0, width - 1)).rstrip() + "…" if width > 0 else ""
 
 
 def density_class(density: float) -> int:
