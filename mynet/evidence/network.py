@@ -22,8 +22,8 @@ from ..store import Store
 from .ties import TieModel, TieTable, disparity_filter, infer_ties
 from .warmth import Warmth, WarmthModel, compute_warmth
 
-__all__ = ["Network", "in_words", "AsOf", "resolve_as_of", "load_network", "load_warmth", "interactions_until", "tie_decisions",
-           "label_decisions", "anchor_key", "contact_of_key", "TIES_CACHE", "warmth_cache_key"]
+__all__ = ["Network", "in_words", "AsOf", "resolve_as_of", "load_network", "load_warmth", "interactions_until",
+           "tie_decisions", "label_decisions", "anchor_key", "contact_of_key", "TIES_CACHE", "warmth_cache_key"]
 
 TIES_CACHE = "ties:v2"
 #: Days without any interaction after which mynet measures warmth at your newest interaction by default.

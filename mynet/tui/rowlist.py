@@ -107,6 +107,7 @@ class RowList(ScrollView, can_focus=True):
         want = cursor_key if cursor_key is not None else old
         self.rows = list(rows)
         self._lines.clear()
+        self._widths = (-1, [])
         index = 0
         if want is not None:
             index = next((i for i, r in enumerate(self.rows) if r.key == want and not r.heading), 0)
@@ -205,8 +206,17 @@ class RowList(ScrollView, can_focus=True):
             self.cursor = index
 
     # -- drawing -----------------------------------------------------------------
+    #: Rows measured for the widths of the flexible columns (the first ones: a long list costs no more).
+    MEASURED = 300
+
     def widths(self, total: int) -> list[int]:
-        """Column widths for a total width: fixed columns, the flexible ones share the rest."""
+        """Column widths for a total width: fixed columns as given, the flexible ones share the rest by need.
+
+        Each flexible column wants the display width of its widest cell among the first rows (wide characters
+        count two). When all wants fit, the room left goes to the last flexible column; when they do not, the
+        widest flexible column gives way first, one cell at a time, so a cell is cut (with an ellipsis) only
+        after the other columns shrank as far as they could.
+        """
         if self._widths[0] == total:
             return self._widths[1]
         gaps = len(self.columns)  # one cell before each column (the first holds the cursor mark)
@@ -214,8 +224,24 @@ class RowList(ScrollView, can_focus=True):
         flex = [i for i, c in enumerate(self.columns) if c.width == 0]
         room = max(0, total - fixed - gaps)
         out = [c.width for c in self.columns]
-        for n, i in enumerate(flex):
-            out[i] = room // len(flex) + (1 if n < room % len(flex) else 0)
+        if flex:
+            want = {i: len(self.columns[i].title) for i in flex}
+            for row in self.rows[: self.MEASURED]:
+                if row.heading:
+                    continue
+                values = row.values()
+                for i in flex:
+                    if i < len(values):
+                        want[i] = max(want[i], safe(values[i], one_line=True).cell_len)
+            floor = {i: min(8, want[i]) for i in flex}
+            while sum(want.values()) > room:
+                i = max(flex, key=lambda k: (want[k] > floor[k], want[k]))
+                if want[i] <= floor[i]:
+                    break
+                want[i] -= 1
+            for i in flex:
+                out[i] = want[i]
+            out[flex[-1]] += max(0, room - sum(want.values()))
         self._widths = (total, out)
         return out
 

@@ -16,7 +16,7 @@ from ..analysis.intro_routes import reach, resolve_targets
 from ..errors import MynetError
 from ..safetext import shown
 from .data import Choice, Snapshot, tier_of
-from .look import Static, clip, plural, safe, severity_tag
+from .look import Static, plural, priority_tag, safe
 from .page import View
 from .rowlist import Col, Row, RowList
 
@@ -353,7 +353,7 @@ class FindingsView(View, Vertical):
     hint = "The audit of your network's shape, the most useful finding first."
 
     def compose(self) -> ComposeResult:
-        yield RowList([Col("Priority", 10), Col("Finding")], empty="No findings.", id="findings-list")
+        yield RowList([Col("What to do", 14), Col("Finding")], empty="No findings.", id="findings-list")
         with VerticalScroll(classes="detail-scroll", id="finding-box"):
             yield Static("", id="finding-detail")
 
@@ -371,7 +371,7 @@ class FindingsView(View, Vertical):
             lst.set_rows([])
             return
         self.findings = snap.extras.findings
-        lst.set_rows([Row(i, (severity_tag(f.get("severity", "low")), f.get("title", "")))
+        lst.set_rows([Row(i, (priority_tag(f.get("severity", "low")), f.get("title", "")))
                       for i, f in enumerate(self.findings)])
         self.show(lst.current_key)
 
@@ -387,10 +387,6 @@ class FindingsView(View, Vertical):
         out.append("\n" + shown(f.get("detail", "")))
         numbers = f.get("numbers") or {}
         snap = self.mynet_app.snapshot
-        plain = {k: v for k, v in numbers.items() if not isinstance(v, (list, tuple, dict))}
-        if plain:
-            out.append(shown("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in plain.items())),
-                       style="italic")
         people = numbers.get("people")
         if snap is not None and isinstance(people, list) and people and all(isinstance(p, int) for p in people):
             out.append(shown("\nPeople: " + ", ".join(snap.net.name(p) for p in people[:12])
@@ -398,15 +394,9 @@ class FindingsView(View, Vertical):
         if f.get("suggestion"):
             out.append("\nWhat to do: ", style="bold")
             out.append(shown(f["suggestion"]))
+        out.append("\nWhat the words mean and the methods behind them: ? (help) or mynet explain findings",
+                   style="italic")
         box.update(out)
 
     def on_row_list_highlighted(self, event: RowList.Highlighted) -> None:
         self.show(event.key)
-
-
-def _num(v: Any) -> str:
-    if isinstance(v, float):
-        return f"{v:.2f}" if abs(v) < 100 else f"{v:,.0f}"
-    if isinstance(v, (list, tuple)):
-        return clip(", ".join(map(str, v)), 40)
-    return str(v)

@@ -19,8 +19,8 @@ from ..people.normalise import fold_text, normalise_email, normalise_name, norma
 from ..people.refresh import get_me, refresh_contacts
 from ..store import Store
 
-__all__ = ["set_me", "detach_address", "search_contacts", "find_contact", "merge_contacts", "merge_many", "unmerge_contact",
-           "reject_suggestion", "merge_suggestions", "contact_records", "PeopleMixin"]
+__all__ = ["set_me", "detach_address", "search_contacts", "find_contact", "merge_contacts", "merge_many",
+           "unmerge_contact", "reject_suggestion", "merge_suggestions", "contact_records", "PeopleMixin"]
 
 
 def set_me(store: Store, emails: Sequence[str], names: Sequence[str], *, replace: bool = False,
