@@ -63,6 +63,9 @@ def groups_cmd(ctx, as_of, as_json):
             "events": a.events,
         })
         return
+    if not a.group_of:
+        echo("No contacts yet, so no groups: mynet import FILE... (or try mynet demo).")
+        return
     if not a.groups:
         echo("No groups yet: groups appear once contacts are tied (mynet ties).")
         return

@@ -245,7 +245,7 @@ def _side(snap: Snapshot, cid: int) -> Text:
     if c is None:
         return Text("(gone)")
     w, tier, last = tier_of(snap.net, cid)
-    lines = [Text(shown(f"{c.name}  #{c.id}", one_line=True), style="bold")]
+    lines = [Text(shown(c.name, one_line=True), style="bold")]
     for label, values in (("works at", c.orgs), ("worked at", c.past_orgs), ("e-mail", c.emails), ("phone", c.phones),
                           ("tags", c.tags), ("place", c.localities),
                           ("files", sorted({s.rsplit('/', 1)[-1] for s in c.sources}))):
@@ -258,13 +258,17 @@ def _side(snap: Snapshot, cid: int) -> Text:
 class DuplicatesView(View, Vertical):
     """Pairs that may be one person: merge them, keep them apart, or leave them for later."""
 
-    hint = "Each decision is saved at once and kept across re-imports."
+    hint = "Each decision is saved at once and kept across re-imports. M merges every pair 0.90 sure or more."
 
     BINDINGS = [
         Binding("m", "merge", "Merge"),
         Binding("k", "apart", "Keep apart"),
         Binding("s", "skip", "Skip"),
+        Binding("M", "merge_sure", "Merge the surest"),
     ]
+
+    #: The least score of a pair that ``M`` merges with the others (after a look at them and a yes).
+    SURE = 0.9
 
     def __init__(self, **kw) -> None:
         super().__init__(**kw)
@@ -273,7 +277,7 @@ class DuplicatesView(View, Vertical):
 
     def compose(self) -> ComposeResult:
         yield Static("", classes="count", id="dupes-head")
-        yield RowList([Col("Score", 5, "right"), Col("One", 20), Col("Other", 20), Col("Why"), Col("", 5)],
+        yield RowList([Col("Sure", 5, "right"), Col("One"), Col("Other"), Col("Why"), Col("", 5)],
                       empty="No duplicates left to decide.", id="dupes-list")
         with Horizontal(classes="compare", id="dupes-compare"):
             yield Static("", id="dupes-a")
@@ -334,6 +338,37 @@ class DuplicatesView(View, Vertical):
     def action_apart(self) -> None:
         self._decide("Keeping {names} apart…", "Kept apart: {names} will not be suggested again.",
                      lambda ws, pair: ws.apart(*pair))
+
+    def action_merge_sure(self) -> None:
+        """Every pair scoring :data:`SURE` or more, shown in a question; on yes merged in one step."""
+        from .person import ConfirmScreen
+
+        snap = self.mynet_app.snapshot
+        if snap is None or snap.extras is None:
+            return
+        net = snap.net
+        sure = [s for s in snap.extras.suggestions if s.score >= self.SURE and (s.a, s.b) not in self.decided
+                and s.a in net.by_id and s.b in net.by_id]
+        if not sure:
+            self.mynet_app.status_text = f"No pair is {self.SURE:.2f} sure or more; decide them one by one."
+            return
+        listed = "\n".join(f"  {net.name(s.a)} / {net.name(s.b)}: {s.reason}" for s in sure[:8])
+        more = f"\n  and {len(sure) - 8} more" if len(sure) > 8 else ""
+        question = (f"Merge these {len(sure)} pairs, each {self.SURE:.2f} sure or more, into one person each?\n"
+                    f"{listed}{more}\nA wrong one can be split again: mynet unmerge ID.")
+        pairs = [(s.a, s.b) for s in sure]
+
+        def answer(yes: bool | None) -> None:
+            if not yes:
+                self.mynet_app.status_text = "Nothing merged."
+                return
+            self.decided.update(pairs)
+            self.refresh_view(snap)
+            self.mynet_app.edit(f"Merging {plural(len(pairs), 'pair')}…",
+                                lambda ws: ws.merge_suggested(self.SURE),
+                                said=f"Merged {plural(len(pairs), 'pair')}, each into one person.")
+
+        self.app.push_screen(ConfirmScreen(question), answer)
 
     def action_skip(self) -> None:
         pair = self._pair()
