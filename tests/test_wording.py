@@ -23,7 +23,7 @@ def run(capsys, *args):
     return code, out, err
 
 
-# -- words ----------------------------------------------------------------------------------------------------------
+# -- words ------------------------------------------------------------------------------------------------------
 
 FRONT_LINE_JARGON = ("(Louvain)", "Granovetter 1973", "∏", "node-link", "▲", "◆", "count: ", "Blau)", "(Shannon)")
 
@@ -73,7 +73,7 @@ def test_clarity_words_follow_the_modularity():
     assert clarity_words(0.1) == "only loosely"
 
 
-# -- widths -----------------------------------------------------------------------------------------------------------
+# -- widths -------------------------------------------------------------------------------------------------------
 
 def test_table_aligns_by_display_width(monkeypatch):
     monkeypatch.setenv("COLUMNS", "100")
@@ -95,7 +95,7 @@ def test_widest_column_gives_way_first_and_the_last_column_wraps(monkeypatch):
     assert all(cell_len(line) <= 60 for line in out.splitlines())
 
 
-# -- empty workspaces ---------------------------------------------------------------------------------------------------
+# -- empty workspaces -----------------------------------------------------------------------------------------------
 
 def test_an_empty_workspace_says_so_in_words(capsys, tmp_path):
     w = ("--workspace", str(tmp_path / "empty.sqlite"))
@@ -109,7 +109,7 @@ def test_an_empty_workspace_says_so_in_words(capsys, tmp_path):
     assert "import" in out + err
 
 
-# -- the sample: group ids, audit, bulk merge -------------------------------------------------------------------------
+# -- the sample: group ids, audit, bulk merge ---------------------------------------------------------------------
 
 @pytest.fixture(scope="module")
 def sample_path(tmp_path_factory):
@@ -212,7 +212,7 @@ def test_contacts_column_holds_what_its_header_says(capsys, sample_path):
     assert "e-mail or phone" in header and not re.search(r"e-mail\s*$", header)
 
 
-# -- the demo -----------------------------------------------------------------------------------------------------------
+# -- the demo -------------------------------------------------------------------------------------------------------
 
 def test_the_demo_names_people_not_ids_and_leaves_nothing_behind(capsys, tmp_path, monkeypatch):
     import tempfile
