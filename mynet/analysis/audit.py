@@ -283,9 +283,9 @@ def audit(net: Network, analysis: Analysis, *, today: date | None = None) -> lis
     pieces = ("all in one piece" if s.get("components", 0) == 1 else
               f"{s.get('components', 0)} separate pieces, the largest with {s.get('largest_component', 0)} people")
     findings.append(_finding(
-        "shape", f"{s.get('nodes', 0)} contacts in {len(groups)} groups, {clarity_words(analysis.modularity)} "
-        f"apart (group clarity {analysis.modularity:.2f})",
-        f"{s.get('ties', 0)} ties, {s.get('density', 0):.1%} of all that could be; "
+        "shape", f"{s.get('nodes', 0)} contacts in {len(groups)} groups, {clarity_words(analysis.modularity)} apart",
+        f"Group clarity {analysis.modularity:.2f} (0-1, above 0.3 is clear). {s.get('ties', 0)} ties, "
+        f"{s.get('density', 0):.1%} of all that could be; "
         f"{pieces}. "
         f"Close-knit: {s.get('average_clustering', 0):.2f} of a person's contacts know each other, against "
         f"{(sw.get('C_random') or 0):.2f} in a random network of the same size; {small_world_words(sw)}. "

@@ -68,18 +68,25 @@ def pad(text: str, width: int) -> str:
     return text + " " * max(0, width - cell_len(text))
 
 
-def fit_widths(natural: Sequence[int], total: int, floors: Sequence[int]) -> list[int]:
-    """Column widths within ``total`` cells: the widest column gives way first, one cell at a time.
+def fit_widths(natural: Sequence[int], total: int, floors: Sequence[int],
+               cells: Sequence[Sequence[int]] | None = None) -> list[int]:
+    """Column widths within ``total`` cells, giving way one cell at a time.
 
-    No column shrinks below its floor (its header, at most 12 cells), so an ellipsis only ever shows in a
-    column after every wider one has given up what it could.
+    With ``cells`` (each column's cell widths) the column where one cell less cuts the fewest cells gives way
+    (the widest on a tie), so one odd long name shrinks before a column whose every cell is long; without, the
+    widest column. No column shrinks below its floor (its header, at most 12 cells), so an ellipsis only ever
+    shows after the other columns gave up what they could.
     """
     widths = list(natural)
     excess = sum(widths) + 2 * (len(widths) - 1) - total
     while excess > 0:
-        i = max(range(len(widths)), key=lambda k: (widths[k] - floors[k] > 0, widths[k]))
-        if widths[i] <= floors[i]:
+        movable = [k for k in range(len(widths)) if widths[k] > floors[k]]
+        if not movable:
             break
+        if cells is None:
+            i = max(movable, key=lambda k: widths[k])
+        else:
+            i = min(movable, key=lambda k: (sum(1 for w in cells[k] if w >= widths[k]), -widths[k]))
         widths[i] -= 1
         excess -= 1
     return widths
@@ -94,8 +101,10 @@ def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequenc
     rows = [[" ".join(shown(c, one_line=True).split()) if c is not None else "" for c in r] for r in rows]
     total = shutil.get_terminal_size((100, 24)).columns
     if widths is None:
-        natural = [max([cell_len(h)] + [cell_len(r[i]) for r in rows]) for i, h in enumerate(headers)]
-        widths = fit_widths(natural, total, [min(12, cell_len(h)) for h in headers])
+        cells = [[cell_len(h)] + [cell_len(r[i]) for r in rows] for i, h in enumerate(headers)]
+        # the last column wraps rather than being cut: it may give way first, down to what is left
+        floors = [min(12, cell_len(h)) for h in headers[:-1]] + [min(24, max(cells[-1]))]
+        widths = fit_widths([max(c) for c in cells], total, floors, cells[:-1] + [[0]])
     lines = ["  ".join(pad(clip(h, w), w) for h, w in zip(headers, widths)).rstrip()]
     lines.append("  ".join("-" * w for w in widths))
     indent = sum(widths[:-1]) + 2 * (len(widths) - 1)

@@ -62,7 +62,7 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
     line("Tags", ", ".join(c.tags))
     line("Place", ", ".join(c.localities))
     line("Web", ", ".join(c.urls))
-    line("In commands", Text(f"mynet show {c.id}", style="italic"))
+    line("Id", Text(f"{c.id} (for commands: mynet show {c.id})", style="italic"))
     for note in c.notes[:3]:
         line("Note", clip(note, 200))
     if sources is None:
@@ -82,7 +82,7 @@ def standing_words(eigenvector: float | None) -> Text:
         words = "tied to well-tied people"
     else:
         words = "further from the best-tied circle"
-    return Text(words) + Text(f" · eigenvector {eigenvector:.2f} of 1", style="italic")
+    return Text(words) + Text(f" · {eigenvector:.2f} of 1", style="italic")
 
 
 SAME_WORDS = "may be the same person: decide in Duplicates (5)"

@@ -23,7 +23,7 @@ from textual.strip import Strip
 
 from .look import safe
 
-__all__ = ["Col", "Row", "RowList"]
+__all__ = ["Col", "Row", "RowList", "shrink_to_fit"]
 
 CURSOR_MARK = "▸"
 
@@ -47,6 +47,21 @@ class Row:
 
     def values(self) -> Sequence[Any]:
         return self.cells() if callable(self.cells) else self.cells
+
+
+def shrink_to_fit(cells: dict[int, list[int]], room: int, floor: int = 8) -> dict[int, int]:
+    """Widths for columns of cells (their display widths) within ``room``: each column starts at its widest cell;
+    while they do not fit, the column where one cell less cuts the fewest cells gives way (the widest on a tie),
+    never below ``floor`` (or its widest cell, when narrower)."""
+    want = {i: max(c) for i, c in cells.items()}
+    low = {i: min(floor, want[i]) for i in cells}
+    while sum(want.values()) > room:
+        movable = [i for i in cells if want[i] > low[i]]
+        if not movable:
+            break
+        i = min(movable, key=lambda k: (sum(1 for w in cells[k] if w >= want[k]), -want[k]))
+        want[i] -= 1
+    return want
 
 
 class RowList(ScrollView, can_focus=True):
@@ -214,8 +229,9 @@ class RowList(ScrollView, can_focus=True):
 
         Each flexible column wants the display width of its widest cell among the first rows (wide characters
         count two). When all wants fit, the room left goes to the last flexible column; when they do not, the
-        widest flexible column gives way first, one cell at a time, so a cell is cut (with an ellipsis) only
-        after the other columns shrank as far as they could.
+        columns give way one cell at a time, each time the one where the fewest cells get cut (the widest on a
+        tie): a long column of one odd name shrinks before a column whose every cell is long, and a cell is cut
+        (with an ellipsis) only after the other columns shrank as far as they could.
         """
         if self._widths[0] == total:
             return self._widths[1]
@@ -225,20 +241,15 @@ class RowList(ScrollView, can_focus=True):
         room = max(0, total - fixed - gaps)
         out = [c.width for c in self.columns]
         if flex:
-            want = {i: len(self.columns[i].title) for i in flex}
+            cells: dict[int, list[int]] = {i: [len(self.columns[i].title)] for i in flex}
             for row in self.rows[: self.MEASURED]:
                 if row.heading:
                     continue
                 values = row.values()
                 for i in flex:
                     if i < len(values):
-                        want[i] = max(want[i], safe(values[i], one_line=True).cell_len)
-            floor = {i: min(8, want[i]) for i in flex}
-            while sum(want.values()) > room:
-                i = max(flex, key=lambda k: (want[k] > floor[k], want[k]))
-                if want[i] <= floor[i]:
-                    break
-                want[i] -= 1
+                        cells[i].append(safe(values[i], one_line=True).cell_len)
+            want = shrink_to_fit({i: c for i, c in cells.items()}, room, floor=8)
             for i in flex:
                 out[i] = want[i]
             out[flex[-1]] += max(0, room - sum(want.values()))

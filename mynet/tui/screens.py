@@ -40,7 +40,9 @@ class GroupScreen(Page):
         if snap is None:
             return "Group"
         g = snap.group(self.gid)
-        return clip(("" if g is None or g.user_named else SUGGESTED) + snap.group_name(self.gid), 34)
+        if g is None:
+            return "In no group"
+        return group_ref(g.id) + " " + clip(("" if g.user_named else SUGGESTED) + g.name, 30)
 
     def body(self) -> ComposeResult:
         yield Static("", classes="head", id="group-head")

@@ -258,7 +258,7 @@ def _side(snap: Snapshot, cid: int) -> Text:
 class DuplicatesView(View, Vertical):
     """Pairs that may be one person: merge them, keep them apart, or leave them for later."""
 
-    hint = "Each decision is saved at once and kept across re-imports. M merges every pair 0.90 sure or more."
+    hint = "Saved at once, kept across re-imports · M merges every pair 0.90 sure or more"
 
     BINDINGS = [
         Binding("m", "merge", "Merge"),
@@ -277,7 +277,7 @@ class DuplicatesView(View, Vertical):
 
     def compose(self) -> ComposeResult:
         yield Static("", classes="count", id="dupes-head")
-        yield RowList([Col("Sure", 5, "right"), Col("One"), Col("Other"), Col("Why"), Col("", 5)],
+        yield RowList([Col("Sure", 5, "right"), Col("One"), Col("Other"), Col("Why")],
                       empty="No duplicates left to decide.", id="dupes-list")
         with Horizontal(classes="compare", id="dupes-compare"):
             yield Static("", id="dupes-a")
@@ -296,8 +296,8 @@ class DuplicatesView(View, Vertical):
         net = snap.net
         todo = [s for s in snap.extras.suggestions if (s.a, s.b) not in self.decided and s.a in net.by_id
                 and s.b in net.by_id]
-        rows = [Row((s.a, s.b), (f"{s.score:.2f}", net.name(s.a), net.name(s.b), s.reason,
-                                 "later" if (s.a, s.b) in self.skipped else "")) for s in todo]
+        rows = [Row((s.a, s.b), ("later" if (s.a, s.b) in self.skipped else f"{s.score:.2f}", net.name(s.a),
+                                 net.name(s.b), s.reason)) for s in todo]
         lst.set_rows(rows)
         head.update(f" {plural(len(todo), 'pair')} that may be one person. m merges, k keeps them apart, s skips."
                     if todo else " Nothing to decide: no likely duplicates left.")
@@ -352,10 +352,10 @@ class DuplicatesView(View, Vertical):
         if not sure:
             self.mynet_app.status_text = f"No pair is {self.SURE:.2f} sure or more; decide them one by one."
             return
-        listed = "\n".join(f"  {net.name(s.a)} / {net.name(s.b)}: {s.reason}" for s in sure[:8])
+        listed = "\n".join(f"  {net.name(s.a)} / {net.name(s.b)}" for s in sure[:8])
         more = f"\n  and {len(sure) - 8} more" if len(sure) > 8 else ""
-        question = (f"Merge these {len(sure)} pairs, each {self.SURE:.2f} sure or more, into one person each?\n"
-                    f"{listed}{more}\nA wrong one can be split again: mynet unmerge ID.")
+        question = (f"Merge these {len(sure)} pairs ({self.SURE:.2f} sure or more),\neach into one person?\n"
+                    f"{listed}{more}\nA wrong one splits again: mynet unmerge ID")
         pairs = [(s.a, s.b) for s in sure]
 
         def answer(yes: bool | None) -> None:
