@@ -225,3 +225,15 @@ def test_the_demo_names_people_not_ids_and_leaves_nothing_behind(capsys, tmp_pat
     assert not re.search(r"mynet why \d+ \d+", out)
     assert re.search(r'mynet why "[^"]+" ', out)
     assert not any(j in out for j in FRONT_LINE_JARGON)
+
+
+def test_a_suggested_duplicate_is_never_shown_as_a_tie(capsys, sample_path):
+    w = ("--workspace", str(sample_path))
+    code, out, _ = run(capsys, *w, "contacts", "--suggested", "--json")
+    pair = next(s for s in json.loads(out) if s["score"] >= 0.9)
+    code, out, _ = run(capsys, *w, "why", str(pair["a"]), str(pair["b"]))
+    assert code == 0 and "may be the same person" in out.splitlines()[0] and "strength" not in out.splitlines()[0]
+    code, out, _ = run(capsys, *w, "ties", "--of", str(pair["a"]), "--all", "--limit", "0")
+    line = next((ln for ln in out.splitlines() if f"id {pair['b']}" in ln), None)
+    if line is not None:  # when the two are linked at all, the link reads as what it is
+        assert "may be the same person" in line
