@@ -426,6 +426,52 @@ def test_changes_made_elsewhere_show_up(workspace):
     _run(run())
 
 
+def test_a_rename_in_this_window_is_never_taken_for_a_change_elsewhere(workspace):
+    import mynet.tui.app as tui_app
+
+    async def run():
+        app = create_app(workspace, today=TODAY, watch_interval=0.1)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await started(pilot)
+            said = []
+            gid = app.snapshot.analysis.groups[0].id
+            await pilot.press("n", *"Rowing club", "enter")
+            for _ in range(20):  # the watcher looks every 0.1 s; give it time to (wrongly) notice the rename
+                await pilot.pause(0.1)
+                await settle(pilot)
+                said.append(app.status_text)
+            assert app.snapshot.group(gid).name == "Rowing club"
+            assert tui_app.CHANGED_ELSEWHERE not in said
+            # A reload that was already under way when the name was saved is not "elsewhere" either.
+            app._rebaseline(app.snapshot)
+            await settle(pilot)
+            assert app.status_text != tui_app.CHANGED_ELSEWHERE
+
+    _run(run())
+
+
+def test_bulk_merge_of_the_surest_duplicates_asks_first(workspace):
+    async def run():
+        app = create_app(workspace, today=TODAY, watch_interval=0)
+        async with app.run_test(size=(100, 30)) as pilot:
+            await started(pilot)
+            before = len(app.snapshot.contacts)
+            sure = [s for s in app.snapshot.extras.suggestions if s.score >= 0.9]
+            assert len(sure) >= 2
+            await pilot.press("5", "M")
+            question = str(app.screen.query_one("#ask-question").render())
+            assert f"{len(sure)} pairs" in question and "unmerge" in question
+            await pilot.press("n")  # no: nothing merged
+            await settle(pilot)
+            assert len(app.snapshot.contacts) == before
+            await pilot.press("M", "y")
+            await until(pilot, lambda: len(app.snapshot.contacts) == before - len(sure))
+        with Store(workspace) as store:
+            assert not [s for s in merge_suggestions(store) if s.score >= 0.9]
+
+    _run(run())
+
+
 def test_an_import_while_the_network_loads_is_noticed(workspace, tmp_path, monkeypatch):
     # Another process imports right after the browser has read the workspace but before it shows it:
     # the browser must not take that import as already shown (no polling here: watch_interval=0).
