@@ -89,6 +89,8 @@ def test_widest_column_gives_way_first_and_the_last_column_wraps(monkeypatch):
     assert fit_widths([5, 5], 80, [2, 2]) == [5, 5]
     assert clip("王小明张三", 6) == "王小…" and cell_len(clip("王小明张三", 6)) <= 6
     assert wrap_cells("share +441214960803 but the names differ", 20) == ["share +441214960803", "but the names differ"]
+    assert wrap_cells("lena.kohler@ombrelle.example", 12) == ["lena.kohler@", "ombrelle.exa", "mple"]
+    assert wrap_cells("王小明张三", 4) == ["王小", "明张", "三"]
     monkeypatch.setenv("COLUMNS", "60")
     out = table(["a", "why"], [("x" * 20, "share +441214960803 but the names differ from each other")])
     assert "…" not in out and "each other" in out

@@ -95,21 +95,32 @@ def fit_widths(natural: Sequence[int], total: int, floors: Sequence[int],
 def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequence[int] | None = None) -> str:
     """A plain aligned text table that fits the terminal, measured in terminal cells (wide characters count two).
 
-    When the rows are wider than the terminal, the widest columns give way first (see :func:`fit_widths`);
-    a cell is cut with ``…`` only after that.
+    When the rows are wider than the terminal, a header of several words wraps onto a second line first; then
+    the columns give way one cell at a time, the one where the fewest cells get cut first (see
+    :func:`fit_widths`), never below their floor: a short column (an id, a number, a date: ten cells or less)
+    is never cut, a longer one not below ten cells. The last column wraps onto lines of its own instead of being
+    cut. So a cell is cut with ``…`` only after every other column gave up what it could.
     """
     rows = [[" ".join(shown(c, one_line=True).split()) if c is not None else "" for c in r] for r in rows]
     total = shutil.get_terminal_size((100, 24)).columns
     if widths is None:
-        cells = [[cell_len(h)] + [cell_len(r[i]) for r in rows] for i, h in enumerate(headers)]
+        data = [[cell_len(r[i]) for r in rows] or [0] for i in range(len(headers))]
+        words = [max((cell_len(w) for w in h.split()), default=0) for h in headers]
+        natural = [max(max(d), cell_len(h)) for d, h in zip(data, headers)]
+        floors = [max(words[i], min(max(data[i]), 10)) for i in range(len(headers))]
         # the last column wraps rather than being cut: it may give way first, down to what is left
-        floors = [min(12, cell_len(h)) for h in headers[:-1]] + [min(24, max(cells[-1]))]
-        widths = fit_widths([max(c) for c in cells], total, floors, cells[:-1] + [[0]])
-    lines = ["  ".join(pad(clip(h, w), w) for h, w in zip(headers, widths)).rstrip()]
+        floors[-1] = max(words[-1], min(24, max(data[-1])))
+        needed = [max(max(d), w) for d, w in zip(data, words)]
+        widths = fit_widths(natural, total, needed)  # first: headers wrap onto a second line
+        if sum(widths) + 2 * (len(widths) - 1) > total:
+            widths = fit_widths(widths, total, floors, [*data[:-1], [0]])
+    head = [wrap_cells(h, w) for h, w in zip(headers, widths)]
+    depth = max(len(h) for h in head)
+    lines = ["  ".join(pad(h[k] if k < len(h) else "", w) for h, w in zip(head, widths)).rstrip()
+             for k in range(depth)]
     lines.append("  ".join("-" * w for w in widths))
     indent = sum(widths[:-1]) + 2 * (len(widths) - 1)
     for r in rows:
-        # The last column (reasons, names of groups) wraps onto lines of its own instead of being cut.
         last = wrap_cells(r[-1], widths[-1]) if r else [""]
         lines.append("  ".join([*(pad(clip(c, w), w) for c, w in zip(r[:-1], widths[:-1])), last[0]]).rstrip())
         lines.extend(" " * indent + more for more in last[1:])
@@ -117,7 +128,8 @@ def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequenc
 
 
 def wrap_cells(text: str, width: int) -> list[str]:
-    """``text`` in lines of at most ``width`` cells, broken between words (a longer word is cut with ``…``)."""
+    """``text`` in lines of at most ``width`` cells, broken between words; a word longer than a line (an
+    address) is broken inside, so nothing is cut."""
     lines: list[str] = []
     line = ""
     for word in text.split():
@@ -127,7 +139,12 @@ def wrap_cells(text: str, width: int) -> list[str]:
             continue
         if line:
             lines.append(line)
-        line = clip(word, width)
+        line = word
+        while cell_len(line) > width > 0:
+            head = set_cell_size(line, width).rstrip()
+            head = head if cell_len(head) <= width and head else line[:1]
+            lines.append(head)
+            line = line[len(head):]
     return [*lines, line] if line or not lines else lines
 
 
