@@ -262,12 +262,36 @@ def test_person_shows_ties_strongest_first_with_evidence(workspace):
             card = str(app.screen.query_one("#person-card").render())
             assert snap.net.name(cid) in card and ".vcf:" in card  # the sources with their lines
             eig = snap.analysis.measures[cid]["eigenvector"]
-            assert "Standing" in card and f"eigenvector {eig:.2f} of 1" in card  # plain words, then the number
+            assert "Standing" in card and f"{eig:.2f} of 1" in card  # plain words, then the number
+            assert "eigenvector" not in card  # the method's name is one step away (mynet explain, help)
+            assert "#" + str(cid) not in card and f"mynet show {cid}" in card  # no raw id in a sentence
             await pilot.press("enter")  # the other end of the tie
             await settle(pilot)
             assert app.screen.cid == ties[0].key
             await pilot.press("escape", "escape")
             assert type(app.screen).__name__ == "MainScreen"
+
+    _run(run())
+
+
+def test_a_suggested_duplicate_is_not_shown_as_a_tie(workspace):
+    from mynet.tui.person import SAME_WORDS
+
+    async def run():
+        app = create_app(workspace, today=TODAY, watch_interval=0)
+        async with app.run_test(size=(100, 36)) as pilot:
+            await started(pilot)
+            snap = app.snapshot
+            linked = [(s.a, s.b) for s in snap.extras.suggestions
+                      if any(o == s.b for o, _s, _r in snap.ties_of(s.a))]
+            assert linked, "the sample has duplicates that share an employer, so mynet links them"
+            a, b = linked[0]
+            app.open_person(a)
+            await settle(pilot)
+            row = next(r for r in rows(app, "#tie-list") if r.key == b)
+            assert row.values()[2] == SAME_WORDS
+            others = [r for r in rows(app, "#tie-list") if r.key != b]
+            assert all(r.values()[2] != SAME_WORDS for r in others)
 
     _run(run())
 
