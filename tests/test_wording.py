@@ -239,3 +239,11 @@ def test_a_suggested_duplicate_is_never_shown_as_a_tie(capsys, sample_path):
     line = next((ln for ln in out.splitlines() if f"id {pair['b']}" in ln), None)
     if line is not None:  # when the two are linked at all, the link reads as what it is
         assert "may be the same person" in line
+
+
+def test_an_ask_names_a_nameless_target_by_their_address(capsys, sample_path):
+    code, out, _ = run(capsys, "--workspace", str(sample_path), "reach", "--to", "hnguyen@orsolan.example")
+    assert code == 0 and out.startswith("Reaching ")
+    asks = [ln for ln in out.splitlines() if "ask:" in ln]
+    assert asks and all("the person at hnguyen@orsolan.example" in a for a in asks)
+    assert not any(re.search(r"introduce you to hnguyen@", a) for a in asks)
