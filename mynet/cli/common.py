@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import json
 import shutil
+from bisect import bisect_left
 from typing import Any, Iterable, Sequence
 
 import click
@@ -55,17 +56,25 @@ def note(text: str) -> None:
     echo(text, err=True)
 
 
+def cells(text: str) -> int:
+    """The display width of ``text`` in terminal cells (wide characters count two; plain ASCII is its length)."""
+    return len(text) if text.isascii() else cell_len(text)
+
+
 def clip(text: str, width: int) -> str:
     """``text`` on one line in at most ``width`` terminal cells (wide characters count two), ``…`` when cut."""
-    text = " ".join(shown(text, one_line=True).split())
-    if cell_len(text) <= width:
+    return _clip(" ".join(shown(text, one_line=True).split()), width)
+
+
+def _clip(text: str, width: int) -> str:
+    if cells(text) <= width:
         return text
     return set_cell_size(text, max(0, width - 1)).rstrip() + "…" if width > 0 else ""
 
 
 def pad(text: str, width: int) -> str:
     """``text`` padded with spaces to ``width`` terminal cells."""
-    return text + " " * max(0, width - cell_len(text))
+    return text + " " * max(0, width - cells(text))
 
 
 def fit_widths(natural: Sequence[int], total: int, floors: Sequence[int],
@@ -79,14 +88,18 @@ def fit_widths(natural: Sequence[int], total: int, floors: Sequence[int],
     """
     widths = list(natural)
     excess = sum(widths) + 2 * (len(widths) - 1) - total
+    ordered = [sorted(c) for c in cells] if cells is not None else None
+
+    def cut(k: int) -> int:  # how many cells of column k one cell less would cut
+        assert ordered is not None
+        return len(ordered[k]) - bisect_left(ordered[k], widths[k])
+
     while excess > 0:
         movable = [k for k in range(len(widths)) if widths[k] > floors[k]]
         if not movable:
             break
-        if cells is None:
-            i = max(movable, key=lambda k: widths[k])
-        else:
-            i = min(movable, key=lambda k: (sum(1 for w in cells[k] if w >= widths[k]), -widths[k]))
+        i = max(movable, key=lambda k: widths[k]) if ordered is None else \
+            min(movable, key=lambda k: (cut(k), -widths[k]))
         widths[i] -= 1
         excess -= 1
     return widths
@@ -104,9 +117,9 @@ def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequenc
     rows = [[" ".join(shown(c, one_line=True).split()) if c is not None else "" for c in r] for r in rows]
     total = shutil.get_terminal_size((100, 24)).columns
     if widths is None:
-        data = [[cell_len(r[i]) for r in rows] or [0] for i in range(len(headers))]
-        words = [max((cell_len(w) for w in h.split()), default=0) for h in headers]
-        natural = [max(max(d), cell_len(h)) for d, h in zip(data, headers)]
+        data = [[cells(r[i]) for r in rows] or [0] for i in range(len(headers))]
+        words = [max((cells(w) for w in h.split()), default=0) for h in headers]
+        natural = [max(max(d), cells(h)) for d, h in zip(data, headers)]
         floors = [max(words[i], min(max(data[i]), 10)) for i in range(len(headers))]
         # the last column wraps rather than being cut: it may give way first, down to what is left
         floors[-1] = max(words[-1], min(24, max(data[-1])))
@@ -122,7 +135,7 @@ def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequenc
     indent = sum(widths[:-1]) + 2 * (len(widths) - 1)
     for r in rows:
         last = wrap_cells(r[-1], widths[-1]) if r else [""]
-        lines.append("  ".join([*(pad(clip(c, w), w) for c, w in zip(r[:-1], widths[:-1])), last[0]]).rstrip())
+        lines.append("  ".join([*(pad(_clip(c, w), w) for c, w in zip(r[:-1], widths[:-1])), last[0]]).rstrip())
         lines.extend(" " * indent + more for more in last[1:])
     return "\n".join(lines)
 
@@ -134,15 +147,15 @@ def wrap_cells(text: str, width: int) -> list[str]:
     line = ""
     for word in text.split():
         joined = f"{line} {word}" if line else word
-        if cell_len(joined) <= width:
+        if cells(joined) <= width:
             line = joined
             continue
         if line:
             lines.append(line)
         line = word
-        while cell_len(line) > width > 0:
+        while cells(line) > width > 0:
             head = set_cell_size(line, width).rstrip()
-            head = head if cell_len(head) <= width and head else line[:1]
+            head = head if cells(head) <= width and head else line[:1]
             lines.append(head)
             line = line[len(head):]
     return [*lines, line] if line or not lines else lines

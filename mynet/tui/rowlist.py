@@ -7,6 +7,7 @@ highlight, so it stays visible on a monochrome terminal.
 
 from __future__ import annotations
 
+from bisect import bisect_left
 from dataclasses import dataclass
 from typing import Any, Callable, Hashable, Sequence
 
@@ -53,13 +54,14 @@ def shrink_to_fit(cells: dict[int, list[int]], room: int, floor: int = 8) -> dic
     """Widths for columns of cells (their display widths) within ``room``: each column starts at its widest cell;
     while they do not fit, the column where one cell less cuts the fewest cells gives way (the widest on a tie),
     never below ``floor`` (or its widest cell, when narrower)."""
-    want = {i: max(c) for i, c in cells.items()}
+    ordered = {i: sorted(c) for i, c in cells.items()}
+    want = {i: c[-1] for i, c in ordered.items()}
     low = {i: min(floor, want[i]) for i in cells}
     while sum(want.values()) > room:
         movable = [i for i in cells if want[i] > low[i]]
         if not movable:
             break
-        i = min(movable, key=lambda k: (sum(1 for w in cells[k] if w >= want[k]), -want[k]))
+        i = min(movable, key=lambda k: (len(ordered[k]) - bisect_left(ordered[k], want[k]), -want[k]))
         want[i] -= 1
     return want
 
