@@ -250,7 +250,7 @@ def top_share(values: dict, share: float = 0.10) -> set:
 
 
 def test_broker_cut_is_stable_with_the_default_settings():
-    # The broker role takes the top 10% by betweenness. Exact values are used up to 5,000 contacts
+    # The estimate's error is stated on the top 10% by betweenness. Exact values are used up to 5,000 contacts
     # (the analysis setting and the function agree); above, the estimate keeps >= 90% of the exact top 10%.
     import inspect
 
