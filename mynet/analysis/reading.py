@@ -73,7 +73,7 @@ TOPICS: tuple[Topic, ...] = (
           f"{_T['switch_gateway_p']}, betweenness {_T['switch_broker_betweenness']}, z {_T['switch_edge_z']}). "
           "The broker and edge rules and the keep and switch levels are our own rules of thumb."),
     Topic("brokers", "Who holds your network together",
-          "People who sit between others: without them some of your contacts would be much further apart.",
+          "The contacts who sit between others: without them some of your contacts would be much further apart.",
           (("between others", "the share of shortest routes between two other contacts that pass through them"),
            ("closed in", "how much their contacts know each other, 0-1 (low: they link people who are apart)"),
            ("separate contacts", "how many of their contacts do not know each other"),
