@@ -2,6 +2,9 @@
 
 from __future__ import annotations
 
+import shutil
+import textwrap
+
 import click
 
 from ..analysis.reading import TOPICS, topic, topic_names
@@ -29,15 +32,17 @@ def explain_cmd(obj, name, as_json):
     if as_json:
         emit_json({"topic": t.name, "title": t.title, "plain": t.plain, "words": dict(t.words), "method": t.method})
         return
+    cols = min(100, shutil.get_terminal_size((100, 24)).columns) - 1
     echo(t.title)
     echo("")
-    echo(t.plain)
+    echo(textwrap.fill(t.plain, cols))
     echo("")
     width = max(len(w) for w, _ in t.words)
     for word, meaning in t.words:
-        echo(f"  {word:<{width}}  {meaning}")
+        echo(textwrap.fill(meaning, cols, initial_indent=f"  {word:<{width}}  ",
+                           subsequent_indent=" " * (width + 4)))
     echo("")
-    echo(f"Method: {t.method}")
+    echo(textwrap.fill(f"Method: {t.method}", cols))
 
 
 COMMANDS = (explain_cmd,)
