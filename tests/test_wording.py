@@ -247,3 +247,20 @@ def test_an_ask_names_a_nameless_target_by_their_address(capsys, sample_path):
     asks = [ln for ln in out.splitlines() if "ask:" in ln]
     assert asks and all("the person at hnguyen@orsolan.example" in a for a in asks)
     assert not any(re.search(r"introduce you to hnguyen@", a) for a in asks)
+
+
+def test_forget_drops_the_persons_remembered_role(sample_path, tmp_path):
+    import shutil
+
+    from mynet.workspace import Workspace
+
+    path = tmp_path / "ws.sqlite"
+    shutil.copy(sample_path, path)
+    with Workspace(path) as ws:
+        ws.analysis(ws.network())
+        state = json.loads(ws.store.meta("groups_state", "{}"))
+        cid = int(next(iter(state["roles"])))
+        ws.forget(cid)
+        state = json.loads(ws.store.meta("groups_state", "{}"))
+    assert str(cid) not in state.get("roles", {})
+    assert all(cid not in members for members in state["groups"].values())

@@ -254,6 +254,7 @@ class HelpScreen(ModalScreen):
     def compose(self) -> ComposeResult:
         out = Text()
         out.append("mynet browse: your network, from your own exports. Nothing leaves this machine.\n", style="bold")
+        out.append("Below the keys: how to read this (what the words and numbers mean).\n")
         out.append("Every change (a group's name, a merge, a rating, a tie) is saved at once.\n"
                    "G7 is a group's id, the same everywhere; ~ marks a group label mynet suggested; ! on the map "
                    "marks a link that hangs on one person.\n"
