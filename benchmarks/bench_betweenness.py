@@ -6,7 +6,7 @@ A script, not a test: it prints figures and asserts nothing.
     python benchmarks/bench_betweenness.py --quick    # 5,000 contacts only
     python benchmarks/bench_betweenness.py --sizes 10000 --no-lfr --skip-nx
 
-The broker role takes the top 10% by betweenness, so what matters is the *overlap*: the share
+Who holds the network together is ranked by betweenness, so what matters is the *overlap*: the share
 of the exact top 10% (ties by node) that an estimate also ranks in its top 10%. For each graph:
 
 * exact: igraph's Brandes betweenness over every source (what mynet uses up to 5,000 contacts);

@@ -13,7 +13,7 @@ ROOT = Path(__file__).resolve().parents[1]
 def test_readme_lists_exactly_the_roles_the_code_gives():
     text = (ROOT / "README.md").read_text(encoding="utf-8")
     block = text[text.index("- **Roles**"):text.index("- **Bridges**")]
-    named = set(re.findall(r"\*([a-z][a-z ]+?)\*", block))
+    named = set(re.findall(r"\*([a-z][a-z -]+?)\*", block))
     assert named == set(ROLES)
     # ... and the code gives nothing else: every combination of the rules' inputs lands in ROLES.
     for degree in (0, 1, 5):
@@ -22,7 +22,8 @@ def test_readme_lists_exactly_the_roles_the_code_gives():
                 for b in (0.0, 0.5):
                     m = {"degree": degree, "within_z": z, "participation": p, "betweenness": b, "constraint": 0.1}
                     for grouped in (True, False):
-                        assert contact_role(m, broker_betweenness=0.4, broker_constraint=0.2, grouped=grouped) in ROLES
+                        for previous in (None, *ROLES):
+                            assert contact_role(m, grouped=grouped, previous=previous) in ROLES
 
 
 def test_readme_states_the_exact_betweenness_limit_and_the_distance():

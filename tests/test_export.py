@@ -79,20 +79,26 @@ def test_graphml_attribute_types(sample, tmp_path):
     assert 'attr.name="between_groups" attr.type="boolean"' in text
 
 
-def test_json_node_link_round_trip(sample, tmp_path):
+def test_json_holds_the_contacts_and_ties_under_the_csv_names(sample, tmp_path):
     (path,) = export_network(Workspace.over(sample), tmp_path / "net.json", today=TODAY)
     data = json.loads(path.read_text(encoding="utf-8"))
-    assert set(data) >= {"nodes", "edges", "graph", "directed", "multigraph"}
-    H = nx.node_link_graph(data, edges="edges")
+    assert set(data) == {"network", "contacts", "ties"}
     net = load_network(sample, today=TODAY)
     G = network_graph(net, analyse(sample, net))
-    assert set(H.nodes) == set(G.nodes)
-    assert {frozenset(e) for e in H.edges} == {frozenset(e) for e in G.edges}
+    contacts = {c["contact_id"]: c for c in data["contacts"]}
+    assert set(contacts) == set(G.nodes)
+    assert all(set(c) <= set(CONTACT_COLUMNS) for c in contacts.values())
+    assert all(set(t) <= set(TIE_COLUMNS) for t in data["ties"])
+    ties = {frozenset((t["contact_a"], t["contact_b"])): t for t in data["ties"]}
+    assert set(ties) == {frozenset(e) for e in G.edges}
     for a, b, d in G.edges(data=True):
-        assert H.edges[a, b] == d
+        t = ties[frozenset((a, b))]
+        assert t["strength"] == d["weight"] and t["basis"] == d["basis"] in ("observed", "assumed")
+        assert (t["name_a"], t["name_b"]) == (G.nodes[t["contact_a"]]["label"], G.nodes[t["contact_b"]]["label"])
     for n, d in G.nodes(data=True):
-        assert H.nodes[n] == d
-    assert H.graph["contacts"] == 228 and H.graph["redacted"] is False
+        assert contacts[n]["name"] == d["label"] and contacts[n].get("group_id") == d.get("group")
+        assert contacts[n].get("places") == d.get("localities")
+    assert data["network"]["contacts"] == 228 and data["network"]["redacted"] is False
 
 
 def test_csv_neutralises_formulas_in_text_cells(injection, tmp_path):
@@ -100,7 +106,7 @@ def test_csv_neutralises_formulas_in_text_cells(injection, tmp_path):
     assert (contacts.name, ties.name) == ("net-contacts.csv", "net-ties.csv")
     raw = contacts.read_text(encoding="utf-8-sig")
     rows = list(csv.DictReader(io.StringIO(raw)))
-    names = {r["label"] for r in rows}
+    names = {r["name"] for r in rows}
     assert "'=HYPERLINK(\"http://x.example\")" in names and "'@SUM(1)" in names
     orgs = {r["organisations"] for r in rows}
     assert "'=1+1" in orgs
@@ -111,7 +117,7 @@ def test_csv_neutralises_formulas_in_text_cells(injection, tmp_path):
             assert not cell.startswith(RISKY), (col, cell)
     tie_rows = list(csv.DictReader(io.StringIO(ties.read_text(encoding="utf-8-sig"))))
     assert tie_rows and all(not c.startswith(RISKY) for r in tie_rows for c in r.values())
-    assert any(r["source_label"].startswith("'=HYPERLINK") or r["target_label"].startswith("'=HYPERLINK")
+    assert any(r["name_a"].startswith("'=HYPERLINK") or r["name_b"].startswith("'=HYPERLINK")
                for r in tie_rows)
     assert list(rows[0]) == list(CONTACT_COLUMNS) and list(tie_rows[0]) == list(TIE_COLUMNS)
 
@@ -159,7 +165,7 @@ def test_format_must_be_known(sample, tmp_path):
     with pytest.raises(MynetError, match="--format"):
         export_network(Workspace.over(sample), tmp_path / "net.txt")
     (p,) = export_network(Workspace.over(sample), tmp_path / "net.txt", "json", today=TODAY)
-    assert json.loads(p.read_text(encoding="utf-8"))["graph"]["generator"] == "mynet"
+    assert json.loads(p.read_text(encoding="utf-8"))["network"]["generator"] == "mynet"
     with pytest.raises(MynetError, match="does not exist"):
         export_network(Workspace.over(sample), tmp_path / "missing" / "net.json")
 

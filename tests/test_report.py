@@ -82,8 +82,11 @@ def test_findings_appear_in_the_audit_order(outputs, sample):
     net = load_network(store, today=TODAY)
     expected = [f["title"] for f in audit(net, analyse(store, net), today=TODAY)]
     root = parse_html(outputs["html-plain"])
-    shown = [all_text(h).rsplit(" ", 1)[0] for h in root.iter(XHTML + "h3")][: len(expected)]
+    # the title is the heading's own text; the mark and words of what to do follow in a span of their own
+    shown = [" ".join((h.text or "").split()) for h in root.iter(XHTML + "h3")][: len(expected)]
     assert shown == [" ".join(t.split()) for t in expected]
+    marks = [all_text(h)[len(h.text or ""):].strip() for h in root.iter(XHTML + "h3")][: len(expected)]
+    assert all(m in ("» act on this", "› worth a look", "· for context") for m in marks), marks
 
 
 def test_html_is_self_contained(outputs):

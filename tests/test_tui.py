@@ -262,12 +262,36 @@ def test_person_shows_ties_strongest_first_with_evidence(workspace):
             card = str(app.screen.query_one("#person-card").render())
             assert snap.net.name(cid) in card and ".vcf:" in card  # the sources with their lines
             eig = snap.analysis.measures[cid]["eigenvector"]
-            assert "Standing" in card and f"eigenvector {eig:.2f} of 1" in card  # plain words, then the number
+            assert "Standing" in card and f"{eig:.2f} of 1" in card  # plain words, then the number
+            assert "eigenvector" not in card  # the method's name is one step away (mynet explain, help)
+            assert "#" + str(cid) not in card and f"mynet show {cid}" in card  # no raw id in a sentence
             await pilot.press("enter")  # the other end of the tie
             await settle(pilot)
             assert app.screen.cid == ties[0].key
             await pilot.press("escape", "escape")
             assert type(app.screen).__name__ == "MainScreen"
+
+    _run(run())
+
+
+def test_a_suggested_duplicate_is_not_shown_as_a_tie(workspace):
+    from mynet.tui.person import SAME_WORDS
+
+    async def run():
+        app = create_app(workspace, today=TODAY, watch_interval=0)
+        async with app.run_test(size=(100, 36)) as pilot:
+            await started(pilot)
+            snap = app.snapshot
+            linked = [(s.a, s.b) for s in snap.extras.suggestions
+                      if any(o == s.b for o, _s, _r in snap.ties_of(s.a))]
+            assert linked, "the sample has duplicates that share an employer, so mynet links them"
+            a, b = linked[0]
+            app.open_person(a)
+            await settle(pilot)
+            row = next(r for r in rows(app, "#tie-list") if r.key == b)
+            assert row.values()[2] == SAME_WORDS
+            others = [r for r in rows(app, "#tie-list") if r.key != b]
+            assert all(r.values()[2] != SAME_WORDS for r in others)
 
     _run(run())
 
@@ -422,6 +446,52 @@ def test_changes_made_elsewhere_show_up(workspace):
                 if app.snapshot.group(gid).name == "Named elsewhere":
                     break
             assert app.snapshot.group(gid).name == "Named elsewhere"
+
+    _run(run())
+
+
+def test_a_rename_in_this_window_is_never_taken_for_a_change_elsewhere(workspace):
+    import mynet.tui.app as tui_app
+
+    async def run():
+        app = create_app(workspace, today=TODAY, watch_interval=0.1)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await started(pilot)
+            said = []
+            gid = app.snapshot.analysis.groups[0].id
+            await pilot.press("n", *"Rowing club", "enter")
+            for _ in range(20):  # the watcher looks every 0.1 s; give it time to (wrongly) notice the rename
+                await pilot.pause(0.1)
+                await settle(pilot)
+                said.append(app.status_text)
+            assert app.snapshot.group(gid).name == "Rowing club"
+            assert tui_app.CHANGED_ELSEWHERE not in said
+            # A reload that was already under way when the name was saved is not "elsewhere" either.
+            app._rebaseline(app.snapshot)
+            await settle(pilot)
+            assert app.status_text != tui_app.CHANGED_ELSEWHERE
+
+    _run(run())
+
+
+def test_bulk_merge_of_the_surest_duplicates_asks_first(workspace):
+    async def run():
+        app = create_app(workspace, today=TODAY, watch_interval=0)
+        async with app.run_test(size=(100, 30)) as pilot:
+            await started(pilot)
+            before = len(app.snapshot.contacts)
+            sure = [s for s in app.snapshot.extras.suggestions if s.score >= 0.9]
+            assert len(sure) >= 2
+            await pilot.press("5", "M")
+            question = str(app.screen.query_one("#ask-question").render())
+            assert f"{len(sure)} pairs" in question and "unmerge" in question
+            await pilot.press("n")  # no: nothing merged
+            await settle(pilot)
+            assert len(app.snapshot.contacts) == before
+            await pilot.press("M", "y")
+            await until(pilot, lambda: len(app.snapshot.contacts) == before - len(sure))
+        with Store(workspace) as store:
+            assert not [s for s in merge_suggestions(store) if s.score >= 0.9]
 
     _run(run())
 

@@ -39,14 +39,24 @@ __all__ = [
     "structural_holes", "within_module_degree",
 ]
 
-#: Thresholds for :func:`contact_role`. ``hub_z`` and the P cut-offs are the published
-#: values of Guimerà & Amaral (2005): hubs have z >= 2.5; hubs with P <= 0.30 are
-#: "provincial" (R5), above it "connector"/"kinless" (R6/R7); non-hubs with
-#: P > 0.62 are "connectors"/"kinless" (R3/R4). The broker and peripheral rules
-#: are our own rules of thumb (no single published source).
+#: Thresholds for :func:`contact_role`, each an absolute value of the person's own position (no quantile
+#: of everyone, so a merge elsewhere cannot move them). ``hub_z`` and the P cut-offs are the published
+#: values of Guimerà & Amaral (2005): hubs have z >= 2.5; hubs with P <= 0.30 keep their ties in their
+#: own module (R5), above it they reach others (R6/R7); non-hubs with P > 0.62 spread their ties over
+#: modules (R3/R4). The broker and edge rules, the ratio guards and every ``keep_`` and ``switch_`` level
+#: (the hysteresis against last run's role, see :func:`contact_role`) are our own rules of thumb.
 ROLE_THRESHOLDS: dict[str, float] = {
     "hub_z": 2.5, "hub_p": 0.30, "gateway_p": 0.62,  # published (Guimerà & Amaral 2005)
-    "broker_betweenness_quantile": 0.90, "broker_constraint_quantile": 0.50, "peripheral_z": -1.0,  # our own
+    "broker_betweenness": 0.03, "broker_constraint": 0.30, "edge_z": -1.0,  # our own
+    # our own guard for tight groups, where a tiny spread makes z jump: a centre has at least 1.5 times the
+    # group's average number of ties inside it, a person on the edge at most half of it
+    "hub_ratio": 1.5, "edge_ratio": 0.5,
+    # our own hysteresis: a person keeps last run's role down to its keep level, and moves to another role
+    # only past its switch level (beyond the entry level)
+    "keep_hub_z": 2.0, "keep_hub_ratio": 1.3, "keep_hub_p_band": 0.05, "keep_gateway_p": 0.55,
+    "keep_broker_betweenness": 0.02, "keep_broker_constraint": 0.35, "keep_edge_z": -0.75, "keep_edge_ratio": 0.6,
+    "switch_hub_z": 3.0, "switch_hub_ratio": 1.7, "switch_gateway_p": 0.68, "switch_broker_betweenness": 0.04,
+    "switch_broker_constraint": 0.25, "switch_edge_z": -1.25, "switch_edge_ratio": 0.4,
 }
 
 #: Betweenness and closeness are exact up to this many contacts (see :func:`contact_measures`).
@@ -57,7 +67,8 @@ EXACT_LIMIT = 5000
 SAMPLES = 8192
 
 #: Every role :func:`contact_role` gives, in the order of its rules (the README lists the same).
-ROLES = ("isolated", "hub of its group", "hub across groups", "hub", "gateway", "broker", "peripheral", "member")
+ROLES = ("no ties", "centre of a group", "centre across groups", "centre", "go-between", "broker", "on the edge",
+         "member")
 
 # Row blocks for the structural-hole products are sized so that one block's
 # two-step neighbourhood holds about this many entries (bounds peak memory).
@@ -390,6 +401,15 @@ def _within_z(K: sp.csr_array, labels: np.ndarray) -> np.ndarray:
     return np.divide(kappa - mean[labels], sd, out=np.zeros(n), where=sd > 0)
 
 
+def _within_ratio(K: sp.csr_array, labels: np.ndarray) -> np.ndarray:
+    """kappa_i over the mean kappa of i's group (1 where the mean is 0)."""
+    n = len(labels)
+    kappa = np.asarray(K[np.arange(n), labels]).ravel() if n else np.zeros(0)
+    count = np.bincount(labels, minlength=K.shape[1]).astype(float)
+    mean = (np.bincount(labels, kappa, minlength=K.shape[1]) / np.maximum(count, 1))[labels]
+    return np.divide(kappa, mean, out=np.ones(n), where=mean > 0)
+
+
 def participation_coefficient(G, groups: Mapping | None, weight: str | None = None) -> dict[Any, float]:
     """Participation coefficient P_i = 1 - sum_s (k_is / k_i)^2.
 
@@ -451,30 +471,39 @@ def within_module_degree(G, groups: Mapping | None, weight: str | None = None) -
     return dict(zip(prep.nodes, _within_z(_module_degrees(prep, labels, weight is not None), labels).tolist()))
 
 
-def contact_role(m: Mapping[str, float], *, broker_betweenness: float, broker_constraint: float,
-                 grouped: bool = True) -> str:
-    """Name a contact's role in plain words from its measures.
+def contact_role(m: Mapping[str, float], *, grouped: bool = True, previous: str | None = None,
+                 ratio: float | None = None) -> str:
+    """Name a contact's role in plain words from their own measures.
 
-    Rules, first match wins (thresholds in :data:`ROLE_THRESHOLDS`):
+    Rules, first match wins (thresholds in :data:`ROLE_THRESHOLDS`, all absolute):
 
-    1. "isolated": no ties.
-    2. z >= 2.5 (Guimerà & Amaral's hub threshold): "hub of its group" when
-       P <= 0.30, else "hub across groups" (their R5 vs R6/R7). Without groups: "hub".
-    3. P > 0.62 (their non-hub connector/kinless cut-off, R3/R4): "gateway".
-    4. betweenness > 0 and >= ``broker_betweenness`` and constraint <=
-       ``broker_constraint``: "broker" (own rule of thumb: top 10% betweenness
-       and constraint at or below the median).
-    5. one tie, or z <= -1 (own rule of thumb): "peripheral".
+    1. "no ties": no tie to any other contact.
+    2. z >= 2.5 (Guimerà & Amaral's hub threshold) and at least 1.5 times the group's
+       average number of ties inside it: "centre of a group" when P <= 0.30, else
+       "centre across groups" (their R5 vs R6/R7). Without groups: "centre".
+    3. P > 0.62 (their non-hub cut-off for ties spread over modules, R3/R4): "go-between".
+    4. betweenness >= 0.03 (on the shortest way between at least 3% of the pairs of
+       other contacts) and constraint <= 0.30 (few of their contacts know each other):
+       "broker" (own rule of thumb).
+    5. one tie, or z <= -1 with at most half the group's average number of ties inside it
+       (own rule of thumb): "on the edge".
     6. otherwise "member".
+
+    With ``previous`` (last run's role of the same person), that role is kept while the
+    person still meets its keep level (``keep_`` thresholds, a little short of the entry ones),
+    and another role is taken only past its switch level (``switch_``, a little beyond): a role
+    changes only when the person's own position clearly does.
 
     Parameters
     ----------
     m : mapping
         Needs degree, betweenness, constraint, participation, within_z.
-    broker_betweenness, broker_constraint : float
-        The network's cut-offs for rule 4 (see :func:`contact_measures`).
     grouped : bool
         Whether groups were given.
+    previous : str or None
+        Last run's role of this person.
+    ratio : float or None
+        The person's ties inside their group over the group's average (None: not checked).
 
     Returns
     -------
@@ -486,25 +515,38 @@ def contact_role(m: Mapping[str, float], *, broker_betweenness: float, broker_co
        complex metabolic networks. Nature 433, 895-900.
     .. [2] Burt, R. S. (1992). Structural Holes. Harvard University Press.
     """
-    t = ROLE_THRESHOLDS
     if m["degree"] == 0:
-        return "isolated"
-    if m["within_z"] >= t["hub_z"]:
+        return "no ties"
+    z, p, c, b = m["within_z"], m["participation"], m["constraint"], m["betweenness"]
+    r = 1.0 if ratio is None else ratio
+    hubs = ROLES[1:4]
+
+    def level(name: str, *roles: str) -> float:
+        """The level of a rule for this person: keep (had the role), switch (had another), else enter."""
+        if previous is None:
+            return ROLE_THRESHOLDS[name]
+        return ROLE_THRESHOLDS[("keep_" if previous in roles else "switch_") + name]
+
+    if z >= level("hub_z", *hubs) and (ratio is None or r >= level("hub_ratio", *hubs)):
         if not grouped:
-            return "hub"
-        return "hub of its group" if m["participation"] <= t["hub_p"] else "hub across groups"
-    if m["participation"] > t["gateway_p"]:
-        return "gateway"
-    c = m["constraint"]
-    if m["betweenness"] > 0 and m["betweenness"] >= broker_betweenness and not math.isnan(c) and c <= broker_constraint:
+            return "centre"
+        if previous in hubs[:2] and abs(p - ROLE_THRESHOLDS["hub_p"]) <= ROLE_THRESHOLDS["keep_hub_p_band"]:
+            return previous
+        return "centre of a group" if p <= ROLE_THRESHOLDS["hub_p"] else "centre across groups"
+    if p > level("gateway_p", "go-between"):
+        return "go-between"
+    if (c is not None and not math.isnan(c) and b >= level("broker_betweenness", "broker")
+            and c <= level("broker_constraint", "broker")):
         return "broker"
-    if m["degree"] == 1 or m["within_z"] <= t["peripheral_z"]:
-        return "peripheral"
+    if m["degree"] == 1 or (z <= level("edge_z", "on the edge")
+                            and (ratio is None or r <= level("edge_ratio", "on the edge"))):
+        return "on the edge"
     return "member"
 
 
 def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: int = EXACT_LIMIT,
-                     samples: int = SAMPLES) -> tuple[dict[Any, dict], dict[str, Any]]:
+                     samples: int = SAMPLES, previous_roles: Mapping | None = None
+                     ) -> tuple[dict[Any, dict], dict[str, Any]]:
     """Every per-contact measure in one pass over a shared sparse representation.
 
     Per node: ``degree``, ``strength`` (sum of tie strengths), ``betweenness``
@@ -533,6 +575,8 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
     exact_limit : int
     samples : int
         Most pivots of the estimate.
+    previous_roles : mapping or None
+        node -> last run's role (see :func:`contact_role`: a role is kept while its keep level holds).
 
     Returns
     -------
@@ -542,8 +586,8 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
         ``betweenness_sampled`` (bool), ``betweenness_samples`` (number of
         source nodes used: n when exact), ``betweenness_agreement`` (the
         expected share of the true top 10% kept; 1.0 when exact), ``closeness_sampled``, ``distance``
-        ("1/weight"), ``clustering`` ("unweighted"), ``broker_betweenness`` and
-        ``broker_constraint`` (the cut-offs used for roles), ``role_thresholds``.
+        ("1/weight"), ``clustering`` ("unweighted"), ``role_thresholds`` (the absolute
+        cut-offs of the roles).
 
     References
     ----------
@@ -573,10 +617,8 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
     K = _module_degrees(prep, labels, weighted=False)
     part = _participation(K)
     wz = _within_z(K, labels)
+    ratio = _within_ratio(K, labels)
 
-    broker_b = float(np.quantile(bet, ROLE_THRESHOLDS["broker_betweenness_quantile"])) if n else 0.0
-    finite = cons[~np.isnan(cons)]
-    broker_c = float(np.quantile(finite, ROLE_THRESHOLDS["broker_constraint_quantile"])) if finite.size else 0.0
     cols = {"degree": deg.astype(int), "strength": strength, "betweenness": bet, "closeness": clo, "pagerank": pr,
             "eigenvector": eig,
             "clustering": clu, "constraint": cons, "effective_size": eff, "participation": part, "within_z": wz}
@@ -584,10 +626,11 @@ def contact_measures(G, groups: Mapping | None = None, *, seed=0, exact_limit: i
     measures: dict[Any, dict] = {}
     for i, v in enumerate(prep.nodes):
         m = {name: col[i] for name, col in cols.items()}
-        m["role"] = contact_role(m, broker_betweenness=broker_b, broker_constraint=broker_c, grouped=groups is not None)
+        m["role"] = contact_role(m, grouped=groups is not None, previous=(previous_roles or {}).get(v),
+                                 ratio=float(ratio[i]))
         measures[v] = m
     info = {"betweenness_sampled": sampled, "betweenness_samples": len(pivots) if sampled else n,
             "betweenness_agreement": round(agreement, 4),
             "closeness_sampled": sampled, "distance": "1/weight", "clustering": "unweighted",
-            "broker_betweenness": broker_b, "broker_constraint": broker_c, "role_thresholds": dict(ROLE_THRESHOLDS)}
+            "role_thresholds": dict(ROLE_THRESHOLDS)}
     return measures, info

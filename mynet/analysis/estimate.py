@@ -2,8 +2,9 @@
 
 Brandes & Pich (2007) estimate betweenness from the shortest-path dependencies of a
 sample of *pivot* sources, scaled by n / k. On networks shaped like ours (many
-circles of 10-60 people) a uniform sample is a poor basis for the broker role,
-which takes the top 10% by betweenness: a contact's betweenness comes mostly from
+circles of 10-60 people) a uniform sample is a poor basis for the list of who holds the
+network together, whose head is the top 10% by betweenness (where the brokers are): a
+contact's betweenness comes mostly from
 the pivots inside their own circle, and a uniform draw puts a varying, small number
 of pivots there. Measured in ``benchmarks/bench_betweenness.py`` (5,000 contacts), 256
 uniform pivots keep only about 65% of the exact top 10%.
@@ -60,7 +61,7 @@ FIRST = 512
 TARGET_AGREEMENT = 0.92
 #: Compute exact values instead when the estimate would need more than this share of all contacts.
 EXACT_SHARE = 0.7
-#: The cut the broker role uses (top 10% by betweenness).
+#: The cut the stated error is about: the top 10% by betweenness (the head of who holds the network together).
 TOP_SHARE = 0.10
 
 

@@ -43,6 +43,8 @@ optimize = lazy_module("scipy.optimize")
 
 __all__ = [
     "GroupResult",
+    "group_ref",
+    "parse_group_ref",
     "detect_groups",
     "match_groups",
     "normalised_mutual_information",
@@ -51,6 +53,19 @@ __all__ = [
 ]
 
 BACKENDS = ("louvain", "igraph")
+
+
+def group_ref(gid: int | None) -> str:
+    """How a group is referred to everywhere: ``G7`` (its stable id), ``no group`` for none."""
+    return "no group" if gid is None else f"G{int(gid)}"
+
+
+def parse_group_ref(text: str | int) -> int | None:
+    """The group id in ``"G7"``, ``"g7"`` or ``"7"``; None when it is neither."""
+    t = str(text).strip()
+    if t[:1] in ("G", "g"):
+        t = t[1:]
+    return int(t) if t.isdigit() else None
 
 
 @dataclass(frozen=True)

@@ -208,12 +208,12 @@ def _ask(net: Network, p: IntroPath, whys: list[str], bases: list[str]) -> str:
             return w[len("may know ("):-1].split("; ")[0] + "; they may not know each other"
         return w.split("; ")[0] or "linked"
 
-    first = net.name(p.nodes[0])
-    target = net.name(p.target)
+    first = net.said(p.nodes[0])
+    target = net.said(p.target)
     if len(p.nodes) == 2:
         why = reason(1) if whys[1] else "they are linked"
         return f"Ask {first} whether they would introduce you to {target} ({why})."
-    second = net.name(p.nodes[1])
+    second = net.said(p.nodes[1])
     return (f"Ask {first} to put you in touch with {second} ({reason(1)}), "
             f"who may introduce you to {target} ({reason(len(whys) - 1)}).")
 
@@ -284,7 +284,7 @@ def no_path_reason(net: Network, index: PathIndex, targets: list[int], *, max_in
     from .intro_search import find_paths
 
     def names(ids: list[int]) -> str:
-        shown = ", ".join(net.name(m) for m in ids[:3])
+        shown = ", ".join(net.said(m) for m in ids[:3])
         return shown + (f" and {len(ids) - 3} more" if len(ids) > 3 else "")
 
     if not targets:

@@ -33,7 +33,7 @@ __all__ = ["AnalysisModel", "GroupInfo", "Analysis", "tie_graph", "analyse", "ca
            "load_analysis", "contact_attrs", "stamped_analysis", "stored_analysis", "stamped_group_of",
            "apply_user_decisions", "compute_analysis", "cache_key", "STEPS", "DONE"]
 
-CACHE_KEY = "analysis:v2"
+CACHE_KEY = "analysis:v3"  # v2: rows; v3: roles in our own words
 STATE_KEY = "groups_state"
 
 
@@ -193,8 +193,10 @@ def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: M
     groups = {mapping[g]: sorted(m) for g, m in gr.groups.items()}
     group_of = {int(v): (mapping[g] if g is not None else None) for v, g in gr.membership.items()}
     step(STEPS[2])
+    # Last run's roles: a person keeps theirs while still meeting its keep level (hysteresis).
+    previous_roles = {int(k): v for k, v in state.get("roles", {}).items()}
     measures, info = contact_measures(G, group_of, seed=model.seed, exact_limit=model.exact_limit,
-                                      samples=model.samples)
+                                      samples=model.samples, previous_roles=previous_roles)
     measures = {int(k): {mk: (None if isinstance(mv, float) and not np.isfinite(mv) else mv) for mk, mv in m.items()}
                 for k, m in measures.items()}
     sets = {g: set(m) for g, m in groups.items()}
@@ -223,6 +225,7 @@ def compute_analysis(store: Store, net: Network, model: AnalysisModel, inputs: M
     summary = network_summary(G, group_of, flat, seed=model.seed)
     step(DONE)
     new_state = {"groups": {str(g): m for g, m in groups.items()},
+                 "roles": {str(k): m["role"] for k, m in sorted(measures.items())},
                  "next_id": max([int(state.get("next_id", 1)), *[g + 1 for g in groups]])}
     # A look at a past day never renumbers today's groups; a read-only workspace keeps them from the next
     # writable run on.

@@ -11,15 +11,20 @@ from __future__ import annotations
 
 import json
 import shutil
+from bisect import bisect_left
 from typing import TYPE_CHECKING, Any, Iterable, Sequence
 
 import click
 
+from ..lazy import lazy_module
 from ..safetext import json_escape, shown
 
 if TYPE_CHECKING:  # the workspace (and numpy, the analysis...) loads when a command runs, never for --help
     from ..evidence.network import AsOf, Network
     from ..workspace import Workspace
+
+
+rich_cells = lazy_module("rich.cells")  # display widths (wide characters count two), loaded by the first table
 
 
 class Ctx:
@@ -102,24 +107,109 @@ def note(text: str) -> None:
     echo(text, err=True)
 
 
+def cells(text: str) -> int:
+    """The display width of ``text`` in terminal cells (wide characters count two; plain ASCII is its length)."""
+    return len(text) if text.isascii() else rich_cells.cell_len(text)
+
+
 def clip(text: str, width: int) -> str:
-    text = " ".join(shown(text, one_line=True).split())
-    return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+    """``text`` on one line in at most ``width`` terminal cells (wide characters count two), ``…`` when cut."""
+    return _clip(" ".join(shown(text, one_line=True).split()), width)
+
+
+def _clip(text: str, width: int) -> str:
+    if cells(text) <= width:
+        return text
+    return rich_cells.set_cell_size(text, max(0, width - 1)).rstrip() + "…" if width > 0 else ""
+
+
+def pad(text: str, width: int) -> str:
+    """``text`` padded with spaces to ``width`` terminal cells."""
+    return text + " " * max(0, width - cells(text))
+
+
+def fit_widths(natural: Sequence[int], total: int, floors: Sequence[int],
+               cells: Sequence[Sequence[int]] | None = None) -> list[int]:
+    """Column widths within ``total`` cells, giving way one cell at a time.
+
+    With ``cells`` (each column's cell widths) the column where one cell less cuts the fewest cells gives way
+    (the widest on a tie), so one odd long name shrinks before a column whose every cell is long; without, the
+    widest column. No column shrinks below its floor (its header, at most 12 cells), so an ellipsis only ever
+    shows after the other columns gave up what they could.
+    """
+    widths = list(natural)
+    excess = sum(widths) + 2 * (len(widths) - 1) - total
+    ordered = [sorted(c) for c in cells] if cells is not None else None
+
+    def cut(k: int) -> int:  # how many cells of column k one cell less would cut
+        assert ordered is not None
+        return len(ordered[k]) - bisect_left(ordered[k], widths[k])
+
+    while excess > 0:
+        movable = [k for k in range(len(widths)) if widths[k] > floors[k]]
+        if not movable:
+            break
+        i = max(movable, key=lambda k: widths[k]) if ordered is None else \
+            min(movable, key=lambda k: (cut(k), -widths[k]))
+        widths[i] -= 1
+        excess -= 1
+    return widths
 
 
 def table(headers: Sequence[str], rows: Iterable[Sequence[Any]], widths: Sequence[int] | None = None) -> str:
-    """A plain aligned text table that fits the terminal (last column takes the rest)."""
+    """A plain aligned text table that fits the terminal, measured in terminal cells (wide characters count two).
+
+    When the rows are wider than the terminal, a header of several words wraps onto a second line first; then
+    the columns give way one cell at a time, the one where the fewest cells get cut first (see
+    :func:`fit_widths`), never below their floor: a short column (an id, a number, a date: ten cells or less)
+    is never cut, a longer one not below ten cells. The last column wraps onto lines of its own instead of being
+    cut. So a cell is cut with ``…`` only after every other column gave up what it could.
+    """
     rows = [[" ".join(shown(c, one_line=True).split()) if c is not None else "" for c in r] for r in rows]
     total = shutil.get_terminal_size((100, 24)).columns
     if widths is None:
-        widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(headers)]
-        fixed = sum(widths[:-1]) + 2 * (len(widths) - 1)
-        widths = list(widths[:-1]) + [max(10, min(widths[-1], total - fixed))]
-    lines = ["  ".join(clip(h, w).ljust(w) for h, w in zip(headers, widths)).rstrip()]
+        data = [[cells(r[i]) for r in rows] or [0] for i in range(len(headers))]
+        words = [max((cells(w) for w in h.split()), default=0) for h in headers]
+        natural = [max(max(d), cells(h)) for d, h in zip(data, headers)]
+        floors = [max(words[i], min(max(data[i]), 10)) for i in range(len(headers))]
+        # the last column wraps rather than being cut: it may give way first, down to what is left
+        floors[-1] = max(words[-1], min(24, max(data[-1])))
+        needed = [max(max(d), w) for d, w in zip(data, words)]
+        widths = fit_widths(natural, total, needed)  # first: headers wrap onto a second line
+        if sum(widths) + 2 * (len(widths) - 1) > total:
+            widths = fit_widths(widths, total, floors, [*data[:-1], [0]])
+    head = [wrap_cells(h, w) for h, w in zip(headers, widths)]
+    depth = max(len(h) for h in head)
+    lines = ["  ".join(pad(h[k] if k < len(h) else "", w) for h, w in zip(head, widths)).rstrip()
+             for k in range(depth)]
     lines.append("  ".join("-" * w for w in widths))
+    indent = sum(widths[:-1]) + 2 * (len(widths) - 1)
     for r in rows:
-        lines.append("  ".join(clip(c, w).ljust(w) for c, w in zip(r, widths)).rstrip())
+        last = wrap_cells(r[-1], widths[-1]) if r else [""]
+        lines.append("  ".join([*(pad(_clip(c, w), w) for c, w in zip(r[:-1], widths[:-1])), last[0]]).rstrip())
+        lines.extend(" " * indent + more for more in last[1:])
     return "\n".join(lines)
+
+
+def wrap_cells(text: str, width: int) -> list[str]:
+    """``text`` in lines of at most ``width`` cells, broken between words; a word longer than a line (an
+    address) is broken inside, so nothing is cut."""
+    lines: list[str] = []
+    line = ""
+    for word in text.split():
+        joined = f"{line} {word}" if line else word
+        if cells(joined) <= width:
+            line = joined
+            continue
+        if line:
+            lines.append(line)
+        line = word
+        while cells(line) > width > 0:
+            head = rich_cells.set_cell_size(line, width).rstrip()
+            head = head if cells(head) <= width and head else line[:1]
+            lines.append(head)
+            line = line[len(head):]
+    return [*lines, line] if line or not lines else lines
 
 
 json_option = click.option("--json", "as_json", is_flag=True, help="Print one JSON document on stdout.")

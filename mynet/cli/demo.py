@@ -75,9 +75,13 @@ def people_and_duplicates(ws: Workspace) -> None:
         (c.id, c.name, ", ".join(c.orgs), ", ".join(c.past_orgs), len(c.sources)) for c in multi
     ]))
     sugg = ws.suggestions()
-    heading(f"4. Possible duplicates, for you to decide ({len(sugg)}; mynet merge A B / mynet apart A B)")
-    for s in sugg[:5]:
-        echo(f"   {s.score:.2f}  {s.a} {names[s.a]}  /  {s.b} {names[s.b]}: {s.reason}")
+    heading(f"4. Possible duplicates, for you to decide ({len(sugg)}; mynet contacts --suggested)")
+    echo(table(["sure", "id", "one", "id", "the other", "why"], [
+        (f"{s.score:.2f}", s.a, names[s.a], s.b, names[s.b], s.reason) for s in sugg[:5]
+    ]))
+    sure = sum(1 for s in sugg if s.score >= 0.9)
+    echo("   One by one: mynet merge A B (or mynet apart A B)"
+         + (f"; the {sure} surest at once: mynet contacts --suggested --merge-above 0.9" if sure > 1 else ""))
 
 
 def ties_and_why(ws: Workspace, net: Network) -> None:
@@ -90,7 +94,7 @@ def ties_and_why(ws: Workspace, net: Network) -> None:
     if multiplex is not None:
         a, b = multiplex["a"], multiplex["b"]
         ex = ws.explain(a, b, net=net)
-        heading(f"6. Why? (mynet why {a} {b})")
+        heading(f"6. Why? (mynet why {handle(ws, net, a)} {handle(ws, net, b)})")
         from ..evidence.explain import describe
 
         echo(f"   {ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}")
@@ -101,6 +105,9 @@ def ties_and_why(ws: Workspace, net: Network) -> None:
 
 
 def warmth_and_groups(ws: Workspace, net: Network):
+    from ..analysis.groups import group_ref
+    from ..analysis.reading import clarity_words
+
     warm = sorted(net.warmth.values(), key=lambda w: (-w.warmth, w.contact_id))[:5]
     heading("7. Your warmest contacts (mynet contacts --sort warmth)")
     echo(table(["warmth", "tier", "name", "meetings", "mails", "last"], [
@@ -108,24 +115,28 @@ def warmth_and_groups(ws: Workspace, net: Network):
         for w in warm
     ]))
     analysis = ws.analysis(net)
-    heading(f"8. The groups of your network (mynet groups; modularity {analysis.modularity:.2f})")
-    echo(table(["id", "size", "warm", "suggested name"], [(g.id, g.size, g.warm, g.name) for g in analysis.groups]))
+    heading(f"8. The groups of your network (mynet groups): they fall apart {clarity_words(analysis.modularity)}")
+    echo(table(["group", "people", "warm", "suggested name"],
+               [(group_ref(g.id), g.size, g.warm, g.name) for g in analysis.groups]))
     gnames = {g.id: g.name for g in analysis.groups}
     if analysis.bridges:
         b = analysis.bridges[0]
         heading("9. A bridge between groups (mynet bridges)")
-        pair = " and ".join(f"group {g} ({gnames.get(g, '?')})" for g in b["groups"])
+        pair = " and ".join(f"{group_ref(g)} {gnames.get(g, '')}".rstrip() for g in b["groups"])
         only = "the only tie" if b.get("ties_between") == 1 else "a tie"
         echo(f"   {net.name(b['a'])} - {net.name(b['b'])}: {only} between {pair}")
     return analysis
 
 
 def audit_and_reach(ws: Workspace, net: Network, analysis, truth: dict) -> None:
+    from ..analysis.audit import PRIORITY
+
     findings = ws.audit(net=net, analysis=analysis)
     heading("10. The audit, most useful findings first (mynet audit)")
     for i, f in enumerate(findings[:3], 1):
-        echo(f"   {i}. {f['title']}")
-        echo(f"      -> {f['suggestion']}")
+        mark, words = PRIORITY[f["severity"]]
+        echo(f"   {i}. {mark} {f['title']}  ({words})")
+        echo(f"      What to do: {f['suggestion']}")
     target = _demo_target(ws, truth, net)
     if target:
         org, result = target
@@ -137,18 +148,33 @@ def audit_and_reach(ws: Workspace, net: Network, analysis, truth: dict) -> None:
 
 
 @click.command("demo")
-@click.option("--keep", type=click.Path(file_okay=False), help="Keep the demo workspace in this folder.")
+@click.option("--keep", type=click.Path(file_okay=False),
+              help="Keep the demo's workspace and report in this folder (to browse them afterwards).")
 def demo_cmd(keep):
-    """Run mynet on the bundled invented sample contacts, in a throw-away workspace."""
+    """See the whole job on invented people, in a throw-away workspace removed at the end (--keep FOLDER keeps it).
+
+    Nothing of yours is read or changed. Without --keep the demo's workspace and report live in a temporary
+    folder that is deleted when the demo ends, so runs leave nothing behind; with --keep they stay in FOLDER.
+    """
+    src = sample_dir()
+    truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
+    if keep:
+        folder = Path(keep)
+        folder.mkdir(parents=True, exist_ok=True)
+        run_demo(src, truth, folder, kept=True)
+        return
+    with tempfile.TemporaryDirectory(prefix="mynet-demo-") as tmp:
+        run_demo(src, truth, Path(tmp), kept=False)
+    note("The demo's workspace and report were in a temporary folder, now deleted: nothing is left behind. "
+         "To look around afterwards: mynet demo --keep FOLDER")
+
+
+def run_demo(src: Path, truth: dict, folder: Path, *, kept: bool) -> None:
     from ..report import write_report
     from ..workspace import open_workspace
 
-    src = sample_dir()
-    truth = json.loads((src / "ground_truth.json").read_text(encoding="utf-8"))
-    folder = Path(keep) if keep else Path(tempfile.mkdtemp(prefix="mynet-demo-"))
-    folder.mkdir(parents=True, exist_ok=True)
     path = folder / "demo.sqlite"
-    note(f"Demo workspace: {path} (your own workspace is not touched)")
+    note(f"Demo workspace: {path} ({'kept' if kept else 'deleted at the end'}; your own workspace is not touched)")
     echo("mynet demo: an invented person's exports, turned into their network. Everyone here is made up.")
     with open_workspace(path) as ws:
         who_you_are(ws, truth)
@@ -159,9 +185,27 @@ def demo_cmd(keep):
         analysis = warmth_and_groups(ws, net)
         audit_and_reach(ws, net, analysis, truth)
         report = write_report(ws, folder / "network.html")
-        heading("12. A report to keep (mynet report -o network.html; --redact for one to share)")
-        echo(f"   Written to {report}")
-    echo(f"\nTry it yourself: mynet --workspace {path} browse   (or: groups, reach --org NAME, audit)")
+        if kept:
+            heading("12. A report to keep (mynet report -o network.html; --redact for one to share)")
+            echo(f"   Written to {report}, kept with the demo's workspace")
+        else:
+            heading("12. A report (mynet report -o network.html; --redact for one to share)")
+            echo(f"   Written to {report} (deleted with the demo; mynet demo --keep FOLDER keeps it)")
+    if kept:
+        echo(f"\nTry it yourself: mynet --workspace {path} browse   (or: groups, reach --org NAME, audit)")
+        echo(f"When you are done: delete the folder {folder}")
+    else:
+        echo("\nTry it yourself: mynet demo --keep mynet-demo, then mynet --workspace mynet-demo/demo.sqlite browse")
+
+
+def handle(ws: Workspace, net: Network, cid: int) -> str:
+    """How a command line names a contact: the name in quotes when it is unique, else an address, else the id."""
+    c = net.by_id.get(cid)
+    if c is None:
+        return str(cid)
+    if sum(1 for o in net.contacts if o.name == c.name) == 1:
+        return '"' + c.name.replace('"', "'") + '"'
+    return c.emails[0] if c.emails else str(cid)
 
 
 def _demo_target(ws: Workspace, truth: dict, net: Network):

@@ -5,21 +5,23 @@ from __future__ import annotations
 import click
 
 from ..errors import MynetError, NotFoundError
-from .common import as_of_option, echo, emit_json, json_option, load_net, note, table, when
+from .common import as_of_option, echo, emit_json, json_option, load_net, note, plural, table, when
 
 
 def describe_event(ev: dict, names: dict[int, str]) -> str:
     """A split or merge of groups since the last analysis, in words."""
+    from ..analysis.groups import group_ref
+
     def ids(x):
         return x if isinstance(x, list) else [x]
 
     def label(g):
-        return f"{g} ({names[g]})" if g in names else str(g)
+        return f"{group_ref(g)} {names[g]}" if g in names else group_ref(g)
 
     src, dst = ids(ev.get("from")), ids(ev.get("into"))
     if ev["kind"] == "split":
-        return f"group {src[0]} split into groups {', '.join(label(g) for g in dst)}"
-    return f"groups {', '.join(map(str, src))} merged into group {label(dst[0])}"
+        return f"{group_ref(src[0])} split into {', '.join(label(g) for g in dst)}"
+    return f"{', '.join(map(group_ref, src))} merged into {label(dst[0])}"
 
 
 def organisation(net, cid: int) -> str:
@@ -30,12 +32,29 @@ def organisation(net, cid: int) -> str:
     return ", ".join(c.orgs) or (f"(was {c.past_orgs[0]})" if c.past_orgs else "")
 
 
+class GroupId(click.ParamType):
+    """A group as ``G7`` (the way every screen shows it) or ``7``."""
+
+    name = "GROUP"
+
+    def convert(self, value, param, ctx):
+        from ..analysis.groups import parse_group_ref
+
+        gid = parse_group_ref(value)
+        if gid is None:
+            self.fail(f"{value!r} is not a group: give it as G7 (see: mynet groups)", param, ctx)
+        return gid
+
+
 @click.group("groups", invoke_without_command=True)
 @as_of_option
 @json_option
 @click.pass_context
 def groups_cmd(ctx, as_of, as_json):
-    """The clusters of your network (Louvain), with names you can give them."""
+    """The groups your contacts fall into, with names you can give them (how: mynet explain groups)."""
+    from ..analysis.groups import group_ref
+    from ..analysis.reading import clarity_words
+
     if ctx.invoked_subcommand:
         return
     ws = ctx.obj.workspace()
@@ -49,52 +68,61 @@ def groups_cmd(ctx, as_of, as_json):
             "events": a.events,
         })
         return
+    if not a.group_of:
+        echo("No contacts yet, so no groups: mynet import FILE... (or try mynet demo).")
+        return
     if not a.groups:
         echo("No groups yet: groups appear once contacts are tied (mynet ties).")
         return
-    echo(table(["id", "size", "warm", "name"], [
-        (g.id, g.size, f"{g.warm} ({g.warm_share:.0%})", g.name + ("" if g.user_named else "  [suggested]"))
+    echo(table(["group", "people", "warm", "name"], [
+        (group_ref(g.id), g.size, f"{g.warm} ({g.warm_share:.0%})", g.name + ("" if g.user_named else "  [suggested]"))
         for g in a.groups
     ]))
     loose = sum(1 for g in a.group_of.values() if g is None)
-    echo(f"\nModularity {a.modularity:.2f}; {loose} contacts unclustered (few or no ties).")
+    echo(f"\nYour contacts fall into groups {clarity_words(a.modularity)} (group clarity {a.modularity:.2f}); "
+         f"{plural(loose, 'contact')} in no group (few or no ties).")
     names = {g.id: g.name for g in a.groups}
     for ev in a.events:
         if ev.get("kind") in ("split", "merge"):
             echo("Note: " + describe_event(ev, names))
-    note("Name one: mynet groups name ID \"Old team\"   Members: mynet groups show ID")
+    first = group_ref(a.groups[0].id)
+    note(f"Name one: mynet groups name {first} \"Old team\"   Members: mynet groups show {first}")
 
 
 @groups_cmd.command("name")
-@click.argument("gid", type=int)
+@click.argument("gid", type=GroupId())
 @click.argument("name", required=False)
 @click.option("--clear", is_flag=True, help="Go back to the suggested label.")
 @click.pass_obj
 def groups_name(obj, gid, name, clear):
     """Give group GID your own name (kept as its members change)."""
+    from ..analysis.groups import group_ref
+
     ws = obj.workspace()
     g = ws.analysis(as_of=when(ws, None), measures=False).group(gid)
     if g is None:
-        raise NotFoundError(f"no group {gid} (see: mynet groups)")
+        raise NotFoundError(f"no group {group_ref(gid)} (see: mynet groups)")
     if not clear and not (name or "").strip():
         raise MynetError("give a name, or --clear to go back to the suggested label")
     ws.name_group(gid, None if clear else name)
-    echo(f"Group {gid}: {name if not clear else g.label}")
+    echo(f"{group_ref(gid)}: {name if not clear else g.label}")
 
 
 @groups_cmd.command("show")
-@click.argument("gid", type=int)
+@click.argument("gid", type=GroupId())
 @as_of_option
 @json_option
 @click.pass_obj
 def groups_show(obj, gid, as_of, as_json):
     """List a group's members with their roles."""
+    from ..analysis.groups import group_ref
+
     ws = obj.workspace()
     net = load_net(ws, as_of)
     a = ws.analysis(net)
     g = a.group(gid)
     if g is None:
-        raise NotFoundError(f"no group {gid} (see: mynet groups)")
+        raise NotFoundError(f"no group {group_ref(gid)} (see: mynet groups)")
     rows = sorted(g.members, key=lambda c: (-(net.warmth[c].warmth if c in net.warmth else 0), c))
     if as_json:
         emit_json({"id": g.id, "name": g.name, "label": g.label, "size": g.size, "members": [
@@ -102,7 +130,7 @@ def groups_show(obj, gid, as_of, as_json):
              "warmth": round(net.warmth[c].warmth, 4) if c in net.warmth else 0.0, "orgs": net.by_id[c].orgs}
             for c in rows]})
         return
-    echo(f"Group {g.id}: {g.name}  ({g.size} people, {g.warm} warm)")
+    echo(f"{group_ref(g.id)} {g.name}  ({g.size} people, {g.warm} warm)")
     if g.user_named:
         echo(f"  suggested label: {g.label}")
     echo(table(["id", "name", "role", "warmth", "organisation"], [

@@ -66,9 +66,12 @@ def print_unlisted(ws, limit: int, as_json: bool) -> None:
     note(f"{total} people met {threshold}+ times who are not in your address book")
 
 
-def print_suggestions(ws, as_json: bool) -> None:
-    """``contacts --suggested``: possible duplicates, best first."""
+def print_suggestions(ws, as_json: bool, merge_above: float | None = None, yes: bool = False) -> None:
+    """``contacts --suggested``: possible duplicates, best first; ``--merge-above``: merge the sure ones at once."""
     sugg = ws.suggestions()
+    if merge_above is not None:
+        merge_suggested(ws, sugg, merge_above, yes, as_json)
+        return
     if as_json:
         emit_json([{"a": s.a, "b": s.b, "score": round(s.score, 3), "reason": s.reason} for s in sugg])
         return
@@ -76,16 +79,49 @@ def print_suggestions(ws, as_json: bool) -> None:
         echo("No possible duplicates to review.")
         return
     names = {c.id: c.name for c in ws.people()}
-    echo(table(["score", "a", "b", "why"], [
-        (f"{s.score:.2f}", f"{s.a} {names[s.a]}", f"{s.b} {names[s.b]}", s.reason) for s in sugg
+    echo(table(["sure", "id", "one", "id", "the other", "why"], [
+        (f"{s.score:.2f}", s.a, names[s.a], s.b, names[s.b], s.reason) for s in sugg
     ]))
     echo("\nSame person: mynet merge A B    Different people: mynet apart A B")
+    sure = sum(1 for s in sugg if s.score >= 0.9)
+    if sure > 1:
+        echo(f"The {sure} surest at once, after a look at the list: mynet contacts --suggested --merge-above 0.9")
+
+
+def merge_suggested(ws, sugg, merge_above: float, yes: bool, as_json: bool) -> None:
+    """Show the pairs scoring ``merge_above`` or more, ask, merge them in one step and say how to undo."""
+    chosen = [s for s in sugg if s.score >= merge_above]
+    if not chosen:
+        if as_json:
+            emit_json([])
+        else:
+            echo(f"No suggested duplicates score {merge_above:.2f} or more; nothing merged.")
+        return
+    names = {c.id: c.name for c in ws.people()}
+    if not as_json:
+        echo(f"These {len(chosen)} pairs would each become one person:")
+        echo(table(["sure", "id", "one", "id", "the other", "why"], [
+            (f"{s.score:.2f}", s.a, names[s.a], s.b, names[s.b], s.reason) for s in chosen
+        ]))
+    if not yes:
+        confirm_or_refuse(f"Merge these {len(chosen)} pairs?")
+    done = ws.merge_suggested(merge_above)
+    if as_json:
+        emit_json([{"a": s.a, "b": s.b, "score": round(s.score, 3)} | contact_fields(c) for s, c in done])
+        return
+    echo(f"Merged {plural(len(done), 'pair')}:")
+    for _s, c in done:
+        echo(f"  {c.name} (id {c.id}), {len(c.record_ids)} records")
+    echo("Any of them wrong? mynet unmerge ID splits that person again.")
 
 
 @click.command("contacts")
 @click.option("--search", "search", metavar="TEXT",
               help="Only people whose name, e-mail, phone, organisation, tag or place contains TEXT.")
 @click.option("--suggested", is_flag=True, help="List possible duplicates to merge or keep apart instead.")
+@click.option("--merge-above", "merge_above", type=click.FloatRange(0, 1), metavar="SCORE",
+              help="With --suggested: merge every pair this sure or surer (0-1), after showing them and asking.")
+@click.option("--yes", is_flag=True, help="With --merge-above: merge without asking.")
 @click.option("--unlisted", is_flag=True, help="List people you met or wrote with who are not in your address book.")
 @click.option("--sort", type=click.Choice(SORTS), default="id", show_default=True,
               help="Order by id, name, your warmth (warmest first) or last interaction (latest first).")
@@ -93,14 +129,16 @@ def print_suggestions(ws, as_json: bool) -> None:
 @as_of_option
 @json_option
 @click.pass_obj
-def contacts_cmd(obj, search, suggested, unlisted, sort, limit, as_of, as_json):
+def contacts_cmd(obj, search, suggested, merge_above, yes, unlisted, sort, limit, as_of, as_json):
     """List the people in your network, with your warmth to each."""
     ws = obj.workspace()
     if unlisted:
         print_unlisted(ws, limit, as_json)
         return
+    if merge_above is not None and not suggested:
+        raise click.UsageError("--merge-above works with --suggested: mynet contacts --suggested --merge-above 0.9")
     if suggested:
-        print_suggestions(ws, as_json)
+        print_suggestions(ws, as_json, merge_above, yes)
         return
     rows = ws.contacts(search=search, sort=sort, limit=limit, as_of=when(ws, as_of), with_groups=as_json)
     if as_json:
@@ -109,7 +147,7 @@ def contacts_cmd(obj, search, suggested, unlisted, sort, limit, as_of, as_json):
     if not rows:
         echo("No contacts match." if search else "No contacts yet: mynet import FILE...")
         return
-    echo(table(["id", "name", "organisation", "warmth", "last seen", "e-mail"], [
+    echo(table(["id", "name", "organisation", "warmth", "last seen", "e-mail or phone"], [
         (r["id"], r["name"], ", ".join(r["orgs"]) or (f"(was {r['past_orgs'][0]})" if r["past_orgs"] else ""),
          f"{r['warmth']:.2f}" if r["warmth"] else "-", r["last_interaction"] or "-",
          r["emails"][0] if r["emails"] else (r["phones"][0] if r["phones"] else ""))

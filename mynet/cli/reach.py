@@ -30,9 +30,9 @@ def print_path(rank: int, p: dict) -> None:
 def print_answer(result: ReachResult, max_intermediaries: int) -> None:
     """Whom you already know there, the paths (or why there is none), and the direct routes."""
     targets = result.targets
-    what = {"person": "", "organisation": "at ", "tag": "tagged ", "domain": "@"}[targets.kind]
+    what = {"person": "", "organisation": "people at ", "tag": "people tagged ", "domain": "people at @"}[targets.kind]
     matched = ", ".join(targets.matched)
-    echo(f"Reaching {what}{matched}: {len(targets.members)} {'person' if len(targets.members) == 1 else 'people'}")
+    echo(f"Reaching {what}{matched}" + (f" ({len(targets.members)})" if targets.kind != "person" else ""))
     if targets.kind == "organisation" and targets.query.strip().lower() != matched.lower():
         note(f"'{targets.query}' matched: {matched}")
     d = result.known

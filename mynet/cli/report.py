@@ -54,12 +54,16 @@ def report_cmd(obj, output, markdown, redact, seed, max_contacts, as_of):
         path = write_report(ws, out, markdown=markdown, redact=redact, seed=seed, max_contacts=max_contacts,
                             progress=step, as_of=chosen)
     echo(str(path))
+    if not ws.people():
+        note("This workspace has no contacts yet, so the report says only that. Import your exports first: "
+             "mynet import FILE... (or see the whole job on invented people: mynet demo)")
     pictures = path.with_name(path.stem + "_files")
     ws.remember_written([str(path.resolve())] + ([str(pictures.resolve())] if markdown else []))
     if markdown:
         note(f"Pictures in {pictures}/")
-    note("Redacted: names and addresses are pseudonyms." if redact
-         else "The report holds your contacts' names: share it with care (or use --redact).")
+    if ws.people():
+        note("Redacted: names and addresses are pseudonyms." if redact
+             else "The report holds your contacts' names: share it with care (or use --redact).")
 
 
 @click.command("export")
@@ -71,7 +75,11 @@ def report_cmd(obj, output, markdown, redact, seed, max_contacts, as_of):
 @as_of_option
 @click.pass_obj
 def export_cmd(obj, fmt, output, redact, as_of):
-    """Write the network with every computed attribute as GraphML, CSV or JSON (node-link)."""
+    """Write the network for other tools: GraphML, two CSV tables (contacts and ties) or one JSON document.
+
+    The CSV columns say what they hold (contact_id, name, ... / contact_a, contact_b, strength, basis, ...);
+    the JSON holds the same contacts and ties under the same names. Every column: mynet explain export.
+    """
     from ..report.export import export_network
 
     ws = obj.workspace()
@@ -81,6 +89,8 @@ def export_cmd(obj, fmt, output, redact, as_of):
         paths = export_network(ws, output, fmt, redact=redact, as_of=chosen)
     for p in paths:
         echo(str(p))
+    if not ws.people():
+        note("This workspace has no contacts yet, so the files hold no contacts and no ties: mynet import FILE...")
     ws.remember_written([str(Path(p).resolve()) for p in paths])
 
 

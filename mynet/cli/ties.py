@@ -7,6 +7,9 @@ import click
 from ..errors import MynetError
 from .common import as_of_option, echo, emit_json, json_option, load_net, note, table
 
+#: How a listing shows two contacts that are a suggested duplicate still to decide (never as a tie).
+SAME_WORDS = "may be the same person"
+
 
 @click.command("ties")
 @click.option("--all", "show_all", is_flag=True,
@@ -33,8 +36,16 @@ def ties_cmd(obj, show_all, of, limit, as_of, as_json):
     if not rows.total:
         echo("No ties yet: import exports that share organisations, tags, meetings or mail threads.")
         return
+    names = [c.name for c in net.contacts]
+    twice = {n for n in names if names.count(n) > 1} if len(names) < 20000 else set()
+    same = {frozenset((s.a, s.b)) for s in ws.suggestions()}
+
+    def who(name: str, cid: int) -> str:
+        return f"{name} (id {cid})" if name in twice else name
+
     echo(table(["strength", "between", "and", "why"], [
-        (f"{r['strength']:.2f}", f"{r['a_name']} ({r['a']})", f"{r['b_name']} ({r['b']})", r["words"]) for r in rows
+        (f"{r['strength']:.2f}", who(r["a_name"], r["a"]), who(r["b_name"], r["b"]),
+         SAME_WORDS if frozenset((r["a"], r["b"])) in same else r["words"]) for r in rows
     ]))
     note(f"{len(rows)} of {rows.total} ties shown"
          + ("" if show_all else f" (strength >= {net.model.min_strength}; --all for every pair)"))
@@ -53,7 +64,7 @@ def print_evidence(ex: dict) -> None:
             echo(f"      {r['date']}  {r.get('title') or r.get('subject') or ''}  ({r['provenance']})")
     if ex["contributions"]:
         parts = ", ".join(f"{k} {v:.2f}" for k, v in ex["contributions"].items())
-        echo(f"  How the strength adds up: {parts}; combined as 1 - product of (1 - each) = {ex['strength']:.2f}")
+        echo(f"  How the strength adds up: {parts}; together {ex['strength']:.2f} (how: mynet explain ties)")
 
 
 @click.command("why")
@@ -72,9 +83,14 @@ def why_cmd(obj, a, b, as_of, as_json):
     if as_json:
         emit_json(ex)
         return
-    echo(f"{ca.name} ({ca.id}) and {cb.name} ({cb.id}): strength {ex['strength']:.2f}"
-         + ("" if ex["in_graph"] or not ex["strength"] else " (below the threshold, not in the graph)"))
-    if ex["basis"] == "assumed":
+    same = any({s.a, s.b} == {ca.id, cb.id} for s in ws.suggestions())
+    if same:
+        echo(f"{ca.name} (id {ca.id}) and {cb.name} (id {cb.id}) {SAME_WORDS}: mynet merge {ca.id} {cb.id} "
+             f"or mynet apart {ca.id} {cb.id}. What they share:")
+    else:
+        echo(f"{ca.name} and {cb.name}: strength {ex['strength']:.2f}"
+             + ("" if ex["in_graph"] or not ex["strength"] else " (below the threshold, not in the graph)"))
+    if ex["basis"] == "assumed" and not same:
         echo("  They may know each other: they share something, but nothing shows they have met or written.")
     if not any(e.get("counted", True) for e in ex["evidence"]):
         from ..evidence.explain import describe

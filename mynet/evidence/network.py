@@ -22,8 +22,8 @@ from ..store import Store
 from .ties import TieModel, TieTable, disparity_filter, infer_ties
 from .warmth import Warmth, WarmthModel, compute_warmth
 
-__all__ = ["Network", "AsOf", "resolve_as_of", "load_network", "load_warmth", "interactions_until", "tie_decisions",
-           "label_decisions", "anchor_key", "contact_of_key", "TIES_CACHE", "warmth_cache_key"]
+__all__ = ["Network", "in_words", "AsOf", "resolve_as_of", "load_network", "load_warmth", "interactions_until",
+           "tie_decisions", "label_decisions", "anchor_key", "contact_of_key", "TIES_CACHE", "warmth_cache_key"]
 
 TIES_CACHE = "ties:v3"
 #: Days without any interaction after which mynet measures warmth at your newest interaction by default.
@@ -87,6 +87,17 @@ def interactions_until(interactions: list[Interaction], day: date) -> list[Inter
     return [it for it in interactions if not it.when or it.when[:10] <= cut]
 
 
+def in_words(name: str) -> str:
+    """A contact's name as a sentence says it: a card with no name but an address or a number is
+    "the person at ADDRESS" or "the person with phone NUMBER", never a bare address."""
+    text = (name or "").strip()
+    if "@" in text and " " not in text:
+        return f"the person at {text}"
+    if text and all(ch.isdigit() or ch in "+-() ./" for ch in text) and sum(ch.isdigit() for ch in text) >= 5:
+        return f"the person with phone {text}"
+    return text or "someone without a name"
+
+
 @dataclass
 class Network:
     """Everything the views need about the network at one data version."""
@@ -111,6 +122,11 @@ class Network:
     def name(self, cid: int) -> str:
         c = self.by_id.get(cid)
         return c.name if c else f"#{cid}"
+
+    def said(self, cid: int) -> str:
+        """How a sentence refers to a contact: their name, else "the person at ADDRESS" (see :func:`in_words`)."""
+        c = self.by_id.get(cid)
+        return in_words(c.name) if c else "someone no longer among your contacts"
 
     @classmethod
     def looking_from(cls, when: AsOf, *, warmth: dict[int, Warmth] | None = None) -> "Network":

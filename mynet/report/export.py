@@ -7,8 +7,10 @@ of every format:
   :func:`networkx.write_graphml`. Node ids are contact ids; attributes are
   plain strings, integers, floats and booleans: lists are joined with
   ``"; "`` and missing values are left out.
-* **CSV**: two files, ``<stem>-contacts.csv`` (one row per contact) and
-  ``<stem>-ties.csv`` (one row per tie), UTF-8 with a byte-order mark (so
+* **CSV**: two files, ``<stem>-contacts.csv`` (one row per contact, columns
+  :data:`CONTACT_COLUMNS`: ``contact_id, name, ...``) and ``<stem>-ties.csv``
+  (one row per tie, columns :data:`TIE_COLUMNS`: ``contact_a, contact_b,
+  name_a, name_b, strength, basis, ...``), UTF-8 with a byte-order mark (so
   spreadsheets read accents right). Safe to open in a spreadsheet, after the
   OWASP guidance on CSV injection: every *text* cell that starts with ``=``,
   ``+``, ``-``, ``@``, a tab or a carriage return gets a single quote ``'``
@@ -16,13 +18,17 @@ of every format:
   quoted (embedded quotes doubled). Numeric cells (measures, counts,
   strengths) are written as numbers and left alone, so ``-0.5`` stays a
   number. Booleans are written ``true`` / ``false``.
-* **JSON**: networkx's node-link form (``nx.node_link_data(G, edges="edges")``).
+* **JSON**: the network as one document of contacts and ties,
+  ``{"network": {...}, "contacts": [...], "ties": [...]}``, each contact and
+  tie an object with the same names as the CSV columns (missing values left out).
 
 Text attributes pass through :func:`mynet.safetext.shown`, so every file is
 valid whatever the workspace holds (GraphML: XML 1.0's Char production; no
 raw ESC or other control character in any cell).
 
-Tie strength is the edge attribute ``weight``. Free-text notes and web
+In GraphML the tie strength is the edge attribute ``weight`` and the name the
+node attribute ``label`` (the graph's own names); CSV and JSON call them
+``strength`` and ``name``. Free-text notes and web
 addresses are not exported. With ``redact=True`` the graph is built from the
 redacted network (see :mod:`mynet.report.redact`). Files are written
 owner-only (mode 0600).
@@ -49,18 +55,23 @@ from .redact import redact_analysis, redact_network
 
 nx = lazy_module("networkx")
 
-__all__ = ["FORMATS", "shown_attributes", "graphml_text", "csv_texts", "json_text", "neutralise", "csv_paths",
-           "export_network"]
+__all__ = ["FORMATS", "CONTACT_COLUMNS", "TIE_COLUMNS", "shown_attributes", "graphml_text", "contact_rows",
+           "tie_rows", "csv_texts", "json_text", "neutralise", "csv_paths", "export_network"]
 
 _SUFFIX = {".graphml": "graphml", ".xml": "graphml", ".csv": "csv", ".json": "json"}
 _RISKY = ("=", "+", "-", "@", "\t", "\r")
 
-CONTACT_COLUMNS = ("id", "label", "emails", "phones", "organisations", "past_organisations", "titles", "tags",
-                   "localities", "group", "group_name", "role", *MEASURES_INT, *MEASURES_FLOAT, "warmth", "warmth_tier",
+#: The columns of the contacts table, each saying what it holds (README, "Export columns").
+CONTACT_COLUMNS = ("contact_id", "name", "emails", "phones", "organisations", "past_organisations", "titles", "tags",
+                   "places", "group_id", "group_name", "role", *MEASURES_INT, *MEASURES_FLOAT, "warmth", "warmth_tier",
                    "meetings", "messages", "last_contact")
-TIE_COLUMNS = ("source", "target", "source_label", "target_label", "weight", "organisation", "meeting", "thread",
-               "domain", "tag", "related", "meetings", "threads", "manual", "overlap", "between_groups", "source_group",
-               "target_group", "evidence")
+#: The columns of the ties table.
+TIE_COLUMNS = ("contact_a", "contact_b", "name_a", "name_b", "strength", "basis", "organisation", "meeting", "thread",
+               "domain", "tag", "related", "meetings", "threads", "manual", "overlap", "between_groups", "group_a",
+               "group_b", "evidence")
+#: The graph's attribute names that the tables call otherwise.
+_CONTACT_NAMES = {"label": "name", "localities": "places", "group": "group_id"}
+_TIE_NAMES = {"weight": "strength", "source_group": "group_a", "target_group": "group_b"}
 
 
 def shown_attributes(G: nx.Graph) -> None:
@@ -110,19 +121,31 @@ def _csv(columns: Iterable[str], rows: Iterable[dict[str, Any]]) -> str:
     return buf.getvalue()
 
 
+def contact_rows(G: nx.Graph) -> list[dict[str, Any]]:
+    """One row per contact of ``G``, keyed by :data:`CONTACT_COLUMNS` (missing values left out)."""
+    return [{"contact_id": n, **{_CONTACT_NAMES.get(k, k): v for k, v in d.items()}}
+            for n, d in sorted(G.nodes(data=True))]
+
+
+def tie_rows(G: nx.Graph) -> list[dict[str, Any]]:
+    """One row per tie of ``G`` (the lower contact id first), keyed by :data:`TIE_COLUMNS`."""
+    name = dict(G.nodes(data="label"))
+    rows = []
+    for a, b, d in sorted(G.edges(data=True), key=lambda e: (min(e[:2]), max(e[:2]))):
+        row = {"contact_a": a, "contact_b": b, "name_a": name.get(a), "name_b": name.get(b)}
+        row.update({_TIE_NAMES.get(k, k): v for k, v in d.items()})
+        rows.append({k: v for k, v in row.items() if v is not None})
+    return rows
+
+
 def csv_texts(G: nx.Graph) -> tuple[str, str]:
     """(contacts, ties) CSV documents of ``G``, neutralised (see :func:`neutralise`)."""
-    contacts = _csv(CONTACT_COLUMNS, ({"id": n, **d} for n, d in sorted(G.nodes(data=True))))
-    label = dict(G.nodes(data="label"))
-    ties = _csv(TIE_COLUMNS,
-                ({"source": a, "target": b, "source_label": label.get(a), "target_label": label.get(b), **d}
-                              for a, b, d in sorted(G.edges(data=True), key=lambda e: (min(e[:2]), max(e[:2])))))
-    return contacts, ties
+    return _csv(CONTACT_COLUMNS, contact_rows(G)), _csv(TIE_COLUMNS, tie_rows(G))
 
 
 def json_text(G: nx.Graph) -> str:
-    """``G`` in networkx's node-link JSON form."""
-    data = nx.node_link_data(G, edges="edges")
+    """``G`` as one JSON document: ``{"network": ..., "contacts": [...], "ties": [...]}`` (the CSV's names)."""
+    data = {"network": dict(G.graph), "contacts": contact_rows(G), "ties": tie_rows(G)}
     return json.dumps(data, ensure_ascii=False, indent=1, allow_nan=False) + "\n"
 
 

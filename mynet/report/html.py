@@ -14,6 +14,8 @@ from __future__ import annotations
 import html
 from typing import Any
 
+from ..analysis.audit import PRIORITY
+from ..analysis.groups import group_ref
 from .data import ReportData
 from .wording import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
 
@@ -80,13 +82,14 @@ def _findings(d: ReportData) -> str:
     items = []
     for f in d.findings:
         sev = esc(f.get("severity", "low"))
-        items.append(f'<li class="sev-{sev}"><h3>{esc(f["title"])}<span class="sev">{sev}</span></h3>'
-                     f'<p>{esc(f["detail"])}</p><p><strong>Suggestion:</strong> {esc(f["suggestion"])}</p></li>')
+        mark, words = PRIORITY.get(f.get("severity", "low"), PRIORITY["low"])
+        items.append(f'<li class="sev-{sev}"><h3>{esc(f["title"])}<span class="sev">{esc(mark)} {esc(words)}</span>'
+                     f'</h3><p>{esc(f["detail"])}</p><p><strong>What to do:</strong> {esc(f["suggestion"])}</p></li>')
     return f'<ol class="findings">{"".join(items)}</ol>'
 
 
 def _groups(d: ReportData) -> str:
-    rows = [[f"G{g['id']}", g["name"] + ("" if g["user_named"] else " (suggested)"), g["size"], g["warm"],
+    rows = [[group_ref(g['id']), g["name"] + ("" if g["user_named"] else " (suggested)"), g["size"], g["warm"],
              pct(g["warm_share"]),
              group_roles(g["roles"])] for g in d.groups]
     out = _table(["group", "name", "contacts", "warm", "warm share", "roles"], rows, {2, 3, 4})
@@ -97,10 +100,10 @@ def _groups(d: ReportData) -> str:
 
 def _brokers(d: ReportData) -> str:
     if not d.brokers:
-        return "<p>No contact lies between others yet (no betweenness above zero).</p>"
+        return "<p>No contact lies between others yet.</p>"
     rows = [[b["name"], b["role"], d.group_label(b["group"]), num(b["betweenness"], 3), num(b["constraint"]),
              num(b["effective_size"], 1), num(b["participation"]), num(b["warmth"])] for b in d.brokers]
-    return _table(["contact", "role", "group", "betweenness", "constraint", "effective size", "participation",
+    return _table(["contact", "role", "group", "between others", "closed in", "separate contacts", "spread",
                    "your warmth"],
                   rows, {3, 4, 5, 6, 7})
 
@@ -108,11 +111,12 @@ def _brokers(d: ReportData) -> str:
 def _bridges(d: ReportData) -> str:
     if not d.bridges:
         return "<p>No ties between groups.</p>"
-    rows = [[b["a_name"], b["b_name"], " / ".join(d.group_label(g) for g in b["groups"]), num(b["strength"]),
-             num(b["overlap"]), f"yes (span {b['span']})" if b.get("local_bridge") else "no", b["ties_between"],
-             b["why"] or "-"]
+    rows = [[b["a_name"], b["b_name"], " - ".join(group_ref(g) for g in b["groups"]), num(b["strength"]),
+             num(b["overlap"]), f"yes ({b['span']} steps apart without it)" if b.get("local_bridge") else "no",
+             b["ties_between"], b["why"] or "-"]
             for b in d.bridges]
-    return _table(["between", "and", "groups", "strength", "overlap", "local bridge", "ties between the groups", "why"],
+    return _table(["between", "and", "groups", "strength", "shared contacts", "only link", "ties between the groups",
+                   "why"],
                   rows, {3, 4, 6})
 
 
@@ -121,8 +125,8 @@ def _intros(d: ReportData) -> str:
         return "<p>You have warm contacts in every group: no group needs an introduction.</p>"
     out = []
     for it in d.intros:
-        out.append(f"<h3>G{it['group']} {esc(it['name'])} <span class=\"small\">({it['size']} contacts, {it['warm']} "
-                   f"warm)</span></h3>")
+        out.append(f"<h3>{group_ref(it['group'])} {esc(it['name'])} <span class=\"small\">({it['size']} contacts, "
+                   f"{it['warm']} warm)</span></h3>")
         if it["direct"]:
             out.append("<p>You already know " + esc(", ".join(x["name"] for x in it["direct"][:5])) + " there.</p>")
         if not it["paths"]:

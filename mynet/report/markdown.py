@@ -14,6 +14,8 @@ import html
 import re
 from typing import Any
 
+from ..analysis.audit import PRIORITY
+from ..analysis.groups import group_ref
 from .data import ReportData
 from .wording import READING_NOTES, SECTIONS, group_roles, headline, num, path_chain, pct, xml_safe
 
@@ -64,8 +66,9 @@ def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has
 
     head("findings")
     for i, f in enumerate(d.findings, 1):
-        L += [f"{i}. **{md(f['title'])}** ({md(f.get('severity', 'low'))})  ", f"   {md(f['detail'])}  ",
-              f"   *Suggestion:* {md(f['suggestion'])}", ""]
+        mark, words = PRIORITY.get(f.get("severity", "low"), PRIORITY["low"])
+        L += [f"{i}. **{md(f['title'])}** ({mark} {words})  ", f"   {md(f['detail'])}  ",
+              f"   *What to do:* {md(f['suggestion'])}", ""]
     if not d.findings:
         L += ["Nothing to report yet.", ""]
     head("picture")
@@ -75,7 +78,7 @@ def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has
     head("groups")
     L += [_img(folder, "groups", "Contacts and warm contacts per group"), ""]
     L += _table(["group", "name", "contacts", "warm", "warm share", "roles"],
-                [[f"G{g['id']}", g["name"] + ("" if g["user_named"] else " (suggested)"), g["size"], g["warm"],
+                [[group_ref(g['id']), g["name"] + ("" if g["user_named"] else " (suggested)"), g["size"], g["warm"],
                   pct(g["warm_share"]), group_roles(g["roles"])] for g in d.groups])
     if d.unclustered:
         L += [f"{d.unclustered:,} contacts have too few ties to belong to a group.", ""]
@@ -85,7 +88,7 @@ def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has
     L += [_img(folder, "tiers", "Contacts by warmth layer"), ""]
     head("brokers")
     if d.brokers:
-        L += _table(["contact", "role", "group", "betweenness", "constraint", "effective size", "participation",
+        L += _table(["contact", "role", "group", "between others", "closed in", "separate contacts", "spread",
                      "your warmth"],
                     [[b["name"], b["role"], d.group_label(b["group"]), num(b["betweenness"], 3), num(b["constraint"]),
                       num(b["effective_size"], 1), num(b["participation"]), num(b["warmth"])] for b in d.brokers])
@@ -93,10 +96,10 @@ def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has
         L += ["No contact lies between others yet.", ""]
     head("bridges")
     if d.bridges:
-        L += _table(["between", "and", "groups", "strength", "overlap", "local bridge", "ties between the groups",
+        L += _table(["between", "and", "groups", "strength", "shared contacts", "only link", "ties between the groups",
                      "why"],
-                    [[b["a_name"], b["b_name"], " / ".join(d.group_label(g) for g in b["groups"]), num(b["strength"]),
-                      num(b["overlap"]), f"yes (span {b['span']})" if b.get("local_bridge") else "no",
+                    [[b["a_name"], b["b_name"], " - ".join(group_ref(g) for g in b["groups"]), num(b["strength"]),
+                      num(b["overlap"]), f"yes ({b['span']} steps apart without it)" if b.get("local_bridge") else "no",
                       b["ties_between"],
                       b["why"] or "-"] for b in d.bridges])
     else:
@@ -105,7 +108,7 @@ def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has
     if not d.intros:
         L += ["You have warm contacts in every group: no group needs an introduction.", ""]
     for it in d.intros:
-        L += [f"### G{it['group']} {md(it['name'])} ({it['size']} contacts, {it['warm']} warm)", ""]
+        L += [f"### {group_ref(it['group'])} {md(it['name'])} ({it['size']} contacts, {it['warm']} warm)", ""]
         if it["direct"]:
             L += ["You already know " + md(", ".join(x["name"] for x in it["direct"][:5])) + " there.", ""]
         if not it["paths"]:

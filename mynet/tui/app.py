@@ -142,6 +142,8 @@ class MynetApp(App):
         self._applied_seq = 0
         self._watch_interval = watch_interval
         self._watch = ChangeWatch(path)
+        #: The workspace's mark right after this window's own last change (never "changed elsewhere").
+        self._own_mark: tuple[int, int] | None = None
         self.error: str = ""
 
     # -- life cycle ----------------------------------------------------------------
@@ -239,9 +241,13 @@ class MynetApp(App):
         if done is not None:
             done(result)
         if reload:
+            self._own_mark = self._watch.settle()
             self.reload("Updating the network after your change…")
         else:  # the change is shown already: it is not one made elsewhere
-            self._rebaseline()
+            self._own_mark = self._rebaseline()
+            snap = self.snapshot
+            if self._own_mark is not None and snap is not None and self._own_mark[0] == snap.data_version:
+                snap.decisions_seen = self._own_mark[1]
 
     def _apply_preview(self, seq: int, snap: Snapshot) -> None:
         if self.snapshot is None and seq >= self._applied_seq:
@@ -300,15 +306,21 @@ class MynetApp(App):
                 screen.refresh_view(snap)
 
     # -- seeing changes made elsewhere ------------------------------------------------------
-    def _rebaseline(self, snap: Snapshot | None = None) -> None:
+    def _rebaseline(self, snap: Snapshot | None = None) -> tuple[int, int] | None:
         """Remember the workspace's state; with ``snap``, reload at once if it changed while ``snap`` was read.
 
         An import by another process while the network was loading (the first
-        seconds after opening, say) would otherwise be taken as already shown.
+        seconds after opening, say) would otherwise be taken as already shown. A
+        change this window made itself (a rename while the network was loading)
+        reloads quietly: it was not made elsewhere.
         """
         mark = self._watch.settle()
         if mark is not None and snap is not None and mark != (snap.data_version, snap.decisions_seen):
-            self._changed_elsewhere()
+            if mark == self._own_mark:
+                self.reload("Updating the network after your change…")
+            else:
+                self._changed_elsewhere()
+        return mark
 
     def _changed_elsewhere(self) -> None:
         self.status_text = CHANGED_ELSEWHERE

@@ -136,7 +136,7 @@ class Snapshot:
 
     def role(self, cid: int) -> str:
         m = self.analysis.measures.get(cid)
-        return (m or {}).get("role") or "isolated"
+        return (m or {}).get("role") or "no ties"
 
     def ungrouped(self) -> list[int]:
         grouped = {m for g in self.analysis.groups for m in g.members}
@@ -176,6 +176,12 @@ class Snapshot:
 
     def why(self, row: int) -> str:
         return tie_words(evidence_summary(self.net, row))
+
+    def maybe_same(self, a: int, b: int) -> bool:
+        """Whether two contacts are a suggested duplicate still to decide (then their link is no tie to show)."""
+        if self.extras is None:
+            return False
+        return any({s.a, s.b} == {a, b} for s in self.extras.suggestions)
 
     def internal(self, gid: int) -> tuple[int, float]:
         """(ties inside the group, density inside it); (-1, 0) in a preview."""

@@ -18,8 +18,9 @@ from textual.reactive import reactive
 from textual.scroll_view import ScrollView
 from textual.strip import Strip
 
+from ..analysis.groups import group_ref
 from .data import Snapshot
-from .look import BOUNDS, RAMP, SHADES, SUGGESTED, clip, density_cell
+from .look import BOUNDS, RAMP, SHADES, SUGGESTED, clip, density_cell, pad
 
 __all__ = ["GroupMap", "legend"]
 
@@ -89,7 +90,7 @@ class GroupMap(ScrollView, can_focus=True):
 
     def _fit(self) -> None:
         room = self.scrollable_content_region.width or 80
-        self.label = max(LABEL, min(34, room - CELL * len(self.gids) - 1))
+        self.label = max(LABEL, min(64, room - CELL * len(self.gids) - 1))
         self.virtual_size = Size(self.label + 1 + CELL * len(self.gids), len(self.gids) + 1)
         self._lines = {}
 
@@ -132,14 +133,15 @@ class GroupMap(ScrollView, can_focus=True):
         out = Text(no_wrap=True)
         if y == 0:
             out.append(" " * (self.label + 1))
-            for j, _gid in enumerate(self.gids):
-                out.append(f"{j + 1:^{CELL}}", style=head + (cursor if j == self.col else Style()))
+            for j, gid in enumerate(self.gids):
+                out.append(f"{group_ref(gid):^{CELL}}"[:CELL], style=head + (cursor if j == self.col else Style()))
             return out
         i = y - 1
         g = self.gids[i]
         info = snap.group(g)
         name = (("" if info.user_named else SUGGESTED) + info.name) if info else str(g)
-        out.append(f"{i + 1:>2} {clip(name, self.label - 3)}".ljust(self.label), style=head
+        ref = f"{group_ref(g):>4} "
+        out.append(pad(ref + clip(name, self.label - len(ref)), self.label), style=head
                    + (cursor if i == self.row else Style()))
         out.append(" ")
         for j, h in enumerate(self.gids):

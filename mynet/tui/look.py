@@ -19,14 +19,15 @@ from __future__ import annotations
 
 from typing import Any
 
+from rich.cells import cell_len, set_cell_size
 from rich.text import Text
 from textual import widgets
 from textual.theme import Theme
 
 from ..safetext import shown
 
-__all__ = ["THEME", "RAMP", "SHADES", "density_class", "density_cell", "warmth_bar", "clip", "severity_tag",
-           "plural", "SUGGESTED", "safe", "Static", "Label"]
+__all__ = ["THEME", "RAMP", "SHADES", "density_class", "density_cell", "warmth_bar", "clip", "priority_tag",
+           "pad", "plural", "SUGGESTED", "safe", "Static", "Label"]
 
 THEME = Theme(
     name="mynet-dusk",
@@ -95,9 +96,16 @@ class Label(_SafeText, widgets.Label):
 def clip(text: str, width: int) -> str:
     """Text cut to ``width`` cells with an ellipsis; a trailing "(…)" aside goes first; controls shown."""
     text = " ".join(shown(text, one_line=True).split())
-    if len(text) > width and text.endswith(")") and " (" in text:
+    if cell_len(text) > width and text.endswith(")") and " (" in text:
         text = text[: text.rindex(" (")]
-    return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+    if cell_len(text) <= width:
+        return text
+    return set_cell_size(text, max(0, width - 1)).rstrip() + "…" if width > 0 else ""
+
+
+def pad(text: str, width: int) -> str:
+    """``text`` padded with spaces to ``width`` terminal cells (wide characters count two)."""
+    return text + " " * max(0, width - cell_len(text))
 
 
 def density_class(density: float) -> int:
@@ -120,8 +128,10 @@ def warmth_bar(warmth: float, width: int = 5) -> Text:
     return bar + Text(f" {warmth:.2f}")
 
 
-def severity_tag(severity: str) -> Text:
-    """A finding's severity as a glyph and a word."""
-    glyph, style = {"high": ("▲", "bold #d9634c"), "medium": ("◆", "#e3a33b"), "low": ("●", "#86b6ea")}.get(
-        severity, ("·", ""))
-    return Text(f"{glyph} {severity}", style=style)
+def priority_tag(severity: str) -> Text:
+    """A finding's mark and the words that say what to do with it (see :data:`mynet.analysis.audit.PRIORITY`)."""
+    from ..analysis.audit import PRIORITY  # on first use: the browser's start stays light
+
+    mark, words = PRIORITY.get(severity, PRIORITY["low"])
+    style = {"high": "bold #e0784f", "medium": "#c9a44a"}.get(severity, "#8a96a8")
+    return Text(f"{mark} {words}", style=style)

@@ -30,7 +30,6 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
     w = net.warmth.get(cid)
     out = Text()
     out.append(shown(c.name), style="bold")
-    out.append(f"  #{c.id}", style="italic")
     if c.nicknames:
         out.append(shown(f"  also {', '.join(c.nicknames)}"))
 
@@ -52,7 +51,7 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
         bits.append(f" · last {last}" if last else " · no interaction on record")
     line("Warmth", bits)
     m = snap.analysis.measures.get(cid) or {}
-    line("Group", group_title(snap, snap.group_of(cid)) + Text(" · ") + Text(m.get("role") or "isolated", style="bold")
+    line("Group", group_title(snap, snap.group_of(cid)) + Text(" · ") + Text(m.get("role") or "no ties", style="bold")
          + Text(f" · {plural(int(m.get('degree') or 0), 'tie')}"))
     line("Standing", standing_words(m.get("eigenvector")))
     titles = f" ({', '.join(c.titles)})" if c.titles else ""
@@ -63,6 +62,7 @@ def card_text(snap: Snapshot, cid: int, sources: list[str] | None) -> Text:
     line("Tags", ", ".join(c.tags))
     line("Place", ", ".join(c.localities))
     line("Web", ", ".join(c.urls))
+    line("Id", Text(f"{c.id} (for commands: mynet show {c.id})", style="italic"))
     for note in c.notes[:3]:
         line("Note", clip(note, 200))
     if sources is None:
@@ -82,13 +82,23 @@ def standing_words(eigenvector: float | None) -> Text:
         words = "tied to well-tied people"
     else:
         words = "further from the best-tied circle"
-    return Text(words) + Text(f" · eigenvector {eigenvector:.2f} of 1", style="italic")
+    return Text(words) + Text(f" · {eigenvector:.2f} of 1", style="italic")
 
 
-def evidence_text(ex: dict[str, Any]) -> Text:
-    """The full explanation of one tie: each piece of evidence with the files and lines behind it."""
+SAME_WORDS = "may be the same person: decide in Duplicates (5)"
+
+
+def evidence_text(ex: dict[str, Any], same: bool = False) -> Text:
+    """The full explanation of one tie: each piece of evidence with the files and lines behind it.
+
+    With ``same`` (the two are a suggested duplicate still to decide) the link is shown as that, not as a tie.
+    """
     out = Text()
-    out.append(shown(f"{ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}"), style="bold")
+    if same:
+        out.append(shown(f"{ex['a_name']} and {ex['b_name']} {SAME_WORDS}"), style="bold")
+        out.append("\nWhat they share:")
+    else:
+        out.append(shown(f"{ex['a_name']} and {ex['b_name']}: strength {ex['strength']:.2f}"), style="bold")
     if ex.get("basis") == "assumed":
         out.append("\nThey may know each other: they share something, but nothing shows they have met or written.")
     if not ex["evidence"]:
@@ -104,7 +114,7 @@ def evidence_text(ex: dict[str, Any]) -> Text:
                        style="italic")
     if ex.get("contributions"):
         parts = ", ".join(f"{k} {v:.2f}" for k, v in ex["contributions"].items())
-        out.append(f"\nHow it adds up: {parts}; together 1 − ∏(1 − each) = {ex['strength']:.2f}")
+        out.append(f"\nHow it adds up: {parts}; together {ex['strength']:.2f} (how: mynet explain ties)")
     if ex.get("suppressed"):
         out.append("\nYou suppressed this tie.")
     return out
@@ -196,7 +206,8 @@ class PersonScreen(Page):
             return
         self.query_one("#person-card", Static).update(card_text(snap, self.cid, self.sources))
         net = snap.net
-        rows = [Row(other, lambda o=other, s=strength, r=row: (warmth_bar(s, 3), net.name(o), snap.why(r)))
+        rows = [Row(other, lambda o=other, s=strength, r=row: (
+                    warmth_bar(s, 3), net.name(o), SAME_WORDS if snap.maybe_same(self.cid, o) else snap.why(r)))
                 for other, strength, row in snap.ties_of(self.cid)]
         lst = self.query_one(RowList)
         lst.set_rows(rows)
@@ -222,7 +233,8 @@ class PersonScreen(Page):
             other, ex = worker.result
             self._explained[other] = ex
             if other == self.query_one(RowList).current_key:
-                self.query_one("#evidence", Static).update(evidence_text(ex))
+                same = snap is not None and snap.maybe_same(self.cid, other)
+                self.query_one("#evidence", Static).update(evidence_text(ex, same))
             elif self._want not in self._explained:
                 self._explain()  # the cursor moved on meanwhile
 
@@ -233,7 +245,9 @@ class PersonScreen(Page):
             box.update("")
             return
         row = next((r for o, _s, r in snap.ties_of(self.cid) if o == other), None)
-        quick = Text(shown(f"{snap.net.name(self.cid)} and {snap.net.name(other)}", one_line=True), style="bold")
+        same = snap.maybe_same(self.cid, other)
+        quick = Text(shown(f"{snap.net.name(self.cid)} and {snap.net.name(other)}"
+                           + (f" {SAME_WORDS}" if same else ""), one_line=True), style="bold")
         if row is not None:
             items = evidence_summary(snap.net, row)
             if basis(items) == "assumed":
@@ -242,7 +256,7 @@ class PersonScreen(Page):
                 quick.append("\n• " + describe(ev))
         done = self._explained.get(other)
         if done is not None:
-            box.update(evidence_text(done))
+            box.update(evidence_text(done, same))
             return
         quick.append("\nfinding the files behind it…", style="italic")
         box.update(quick)

@@ -7,6 +7,7 @@ highlight, so it stays visible on a monochrome terminal.
 
 from __future__ import annotations
 
+from bisect import bisect_left
 from dataclasses import dataclass
 from typing import Any, Callable, Hashable, Sequence
 
@@ -23,7 +24,7 @@ from textual.strip import Strip
 
 from .look import safe
 
-__all__ = ["Col", "Row", "RowList"]
+__all__ = ["Col", "Row", "RowList", "shrink_to_fit"]
 
 CURSOR_MARK = "▸"
 
@@ -47,6 +48,22 @@ class Row:
 
     def values(self) -> Sequence[Any]:
         return self.cells() if callable(self.cells) else self.cells
+
+
+def shrink_to_fit(cells: dict[int, list[int]], room: int, floor: int = 8) -> dict[int, int]:
+    """Widths for columns of cells (their display widths) within ``room``: each column starts at its widest cell;
+    while they do not fit, the column where one cell less cuts the fewest cells gives way (the widest on a tie),
+    never below ``floor`` (or its widest cell, when narrower)."""
+    ordered = {i: sorted(c) for i, c in cells.items()}
+    want = {i: c[-1] for i, c in ordered.items()}
+    low = {i: min(floor, want[i]) for i in cells}
+    while sum(want.values()) > room:
+        movable = [i for i in cells if want[i] > low[i]]
+        if not movable:
+            break
+        i = min(movable, key=lambda k: (len(ordered[k]) - bisect_left(ordered[k], want[k]), -want[k]))
+        want[i] -= 1
+    return want
 
 
 class RowList(ScrollView, can_focus=True):
@@ -107,6 +124,7 @@ class RowList(ScrollView, can_focus=True):
         want = cursor_key if cursor_key is not None else old
         self.rows = list(rows)
         self._lines.clear()
+        self._widths = (-1, [])
         index = 0
         if want is not None:
             index = next((i for i, r in enumerate(self.rows) if r.key == want and not r.heading), 0)
@@ -205,8 +223,18 @@ class RowList(ScrollView, can_focus=True):
             self.cursor = index
 
     # -- drawing -----------------------------------------------------------------
+    #: Rows measured for the widths of the flexible columns (the first ones: a long list costs no more).
+    MEASURED = 300
+
     def widths(self, total: int) -> list[int]:
-        """Column widths for a total width: fixed columns, the flexible ones share the rest."""
+        """Column widths for a total width: fixed columns as given, the flexible ones share the rest by need.
+
+        Each flexible column wants the display width of its widest cell among the first rows (wide characters
+        count two). When all wants fit, the room left goes to the last flexible column; when they do not, the
+        columns give way one cell at a time, each time the one where the fewest cells get cut (the widest on a
+        tie): a long column of one odd name shrinks before a column whose every cell is long, and a cell is cut
+        (with an ellipsis) only after the other columns shrank as far as they could.
+        """
         if self._widths[0] == total:
             return self._widths[1]
         gaps = len(self.columns)  # one cell before each column (the first holds the cursor mark)
@@ -214,8 +242,19 @@ class RowList(ScrollView, can_focus=True):
         flex = [i for i, c in enumerate(self.columns) if c.width == 0]
         room = max(0, total - fixed - gaps)
         out = [c.width for c in self.columns]
-        for n, i in enumerate(flex):
-            out[i] = room // len(flex) + (1 if n < room % len(flex) else 0)
+        if flex:
+            cells: dict[int, list[int]] = {i: [len(self.columns[i].title)] for i in flex}
+            for row in self.rows[: self.MEASURED]:
+                if row.heading:
+                    continue
+                values = row.values()
+                for i in flex:
+                    if i < len(values):
+                        cells[i].append(safe(values[i], one_line=True).cell_len)
+            want = shrink_to_fit({i: c for i, c in cells.items()}, room, floor=8)
+            for i in flex:
+                out[i] = want[i]
+            out[flex[-1]] += max(0, room - sum(want.values()))
         self._widths = (total, out)
         return out
 

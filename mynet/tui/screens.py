@@ -8,6 +8,8 @@ from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
 
+from ..analysis.groups import group_ref
+from ..analysis.reading import TOPICS
 from .data import Snapshot, tier_of
 from .look import SUGGESTED, Label, Static, clip, density_cell, plural, warmth_bar
 from .page import Page, TopBar
@@ -38,7 +40,9 @@ class GroupScreen(Page):
         if snap is None:
             return "Group"
         g = snap.group(self.gid)
-        return clip(("" if g is None or g.user_named else SUGGESTED) + snap.group_name(self.gid), 34)
+        if g is None:
+            return "In no group"
+        return group_ref(g.id) + " " + clip(("" if g.user_named else SUGGESTED) + g.name, 30)
 
     def body(self) -> ComposeResult:
         yield Static("", classes="head", id="group-head")
@@ -89,7 +93,7 @@ class GroupScreen(Page):
             self.mynet_app.status_text = "These people are in no group; there is nothing to name."
             return
         lst = self.query_one(RowList)
-        self.query_one(NameEditor).open(snap, self.gid, lst.focus, lst.row_line(lst.cursor))
+        self.query_one(NameEditor).open(snap, self.gid, lst.focus)
 
     def action_connections(self) -> None:
         if self.gid is not None:
@@ -112,9 +116,9 @@ def gateways(snap: Snapshot, gid: int, limit: int = 8) -> list[tuple[int, int, s
 
 
 class LinksScreen(Page):
-    """How one group connects to the rest: linked groups, bridges, gateways, single points of access."""
+    """How one group connects to the rest: linked groups, bridges, members tied outside, the only ways in."""
 
-    hint = "Bridges and gateways are how news and introductions travel between groups. Enter opens."
+    hint = "Bridges and members tied outside carry news and introductions. Enter opens."
 
     BINDINGS = [Binding("escape", "app.back", "Back")]
 
@@ -125,11 +129,13 @@ class LinksScreen(Page):
     @property
     def crumb(self) -> str:  # type: ignore[override]
         snap = self.mynet_app.snapshot
-        return "Connections of " + (clip(snap.group_name(self.gid), 28) if snap else "a group")
+        return "Connections of " + (f"{group_ref(self.gid)} {clip(snap.group_name(self.gid), 28)}" if snap
+                                    else "a group")
 
     def body(self) -> ComposeResult:
         yield Static("", classes="head", id="links-head")
-        yield RowList([Col("Who or what"), Col("How much", 9), Col("Detail")], empty="No connections.", id="links-list")
+        yield RowList([Col("Who or what"), Col("How much", 9), Col("Detail")], empty="No connections.",
+                      id="links-list")
 
     def on_mount(self) -> None:
         self.query_one(RowList).focus()
@@ -155,10 +161,10 @@ class LinksScreen(Page):
             if x["a"] != gid:
                 here, there = there, here
             carriers_here |= set(here)
-            fragile = " !" if snap.fragile(gid, other) else ""
+            fragile = " (hangs on one person)" if snap.fragile(gid, other) else ""
             rows.append(Row(("group", other),
                             (group_title(snap, other), density_cell(x["density"]) + Text(f" {x['ties']:>5}"),
-                                                f"carried by {len(here)} here, {len(there)} there{fragile}")))
+                                                f"{len(here)} here, {len(there)} there{fragile}")))
         bridges = [b for b in snap.analysis.bridges if gid in b["groups"]]
         if bridges:
             rows.append(Row("h2", ("Bridges: the ties between it and the others that matter most",), heading=True))
@@ -168,10 +174,10 @@ class LinksScreen(Page):
             here, there = (b["a"], b["b"]) if snap.group_of(b["a"]) == gid else (b["b"], b["a"])
             by_end.setdefault(there, []).append((here, b))
         for there, ends in list(by_end.items())[:10]:
-            where = clip(snap.group_name(snap.group_of(there)), 24)
+            where = group_ref(snap.group_of(there))
             if len(ends) == 1:
                 here, b = ends[0]
-                kind = "local bridge, " if b.get("local_bridge") else ""
+                kind = "their only link, " if b.get("local_bridge") else ""
                 rows.append(Row(("person", here, there),
                                 (f"{net.name(here)} – {net.name(there)}", f"{b['strength']:.2f}",
                                                            f"{kind}to {where}")))
@@ -181,24 +187,27 @@ class LinksScreen(Page):
                                                            f"from {names}")))
         gws = gateways(snap, gid)
         if gws:
-            rows.append(Row("h3", ("Gateways: members tied into other groups",), heading=True))
+            rows.append(Row("h3", ("Members tied into other groups",), heading=True))
         for m, n, role in gws:
             rows.append(Row(("person", m), (net.name(m), f"{n} group{'s' if n != 1 else ''}", role)))
         access = [e for e in snap.analysis.access if e.get("member_of") == gid or gid in (e.get("groups") or [])]
         if access:
-            rows.append(Row("h4", ("Single points of access: without them, people are cut off from you",),
+            rows.append(Row("h4", ("The only ways in: without them, people are cut off from you",),
                             heading=True))
         for e in access[:12]:
-            outside = clip(snap.group_name(e.get("member_of")), 20)
+            outside = group_ref(e.get("member_of"))
             where = "member" if e.get("member_of") == gid else f"outside, in {outside}"
-            reaches = f"{where}; alone reaches {len(e.get('groups') or [])} group(s)"
+            n = len(e.get("groups") or [])
+            reaches = f"{where}; the only way to {n} group{'s' if n != 1 else ''}" if n else where
             rows.append(Row(("person", e["person"]), (net.name(e["person"]), f"{len(e['cut_off'])} cut off", reaches)))
         self.query_one(RowList).set_rows(rows)
-        head.update(Text.assemble((clip(("" if g.user_named else SUGGESTED) + g.name, 60), "bold"),
+        head.update(Text.assemble((group_ref(gid) + " " + clip(("" if g.user_named else SUGGESTED) + g.name, 60),
+                                   "bold"),
                                   f"\nTied to {plural(len(links), 'other group')} through {len(carriers_here)} of its "
                                   f"{g.size} members; "
-                                  + (f"{plural(len(access), 'single point')} of access." if access else
-                                                            "no single point of access.")))
+                                  + (f"{plural(len(access), 'person', 'people')} alone "
+                                     f"{'is' if len(access) == 1 else 'are'} the only way to some people."
+                                     if access else "nobody alone is the only way in.")))
 
     def on_row_list_selected(self, event: RowList.Selected) -> None:
         key = event.key
@@ -245,16 +254,28 @@ class HelpScreen(ModalScreen):
     def compose(self) -> ComposeResult:
         out = Text()
         out.append("mynet browse: your network, from your own exports. Nothing leaves this machine.\n", style="bold")
+        out.append("Below the keys: how to read this (what the words and numbers mean).\n")
         out.append("Every change (a group's name, a merge, a rating, a tie) is saved at once.\n"
-                   "~ marks a group label mynet suggested; ! on the map marks a link that hangs on one person.\n"
+                   "G7 is a group's id, the same everywhere; ~ marks a group label mynet suggested; ! on the map "
+                   "marks a link that hangs on one person.\n"
                    "The mouse works too: click a row to highlight it, click it again to open it.\n")
         for title, keys in help_sections(self.app):
             out.append(f"\n{title}\n", style="bold underline")
             for key, desc in keys:
                 out.append(f"  {key:<12}", style="bold")
                 out.append(f"{desc}\n")
+        out.append("\nHow to read this\n", style="bold underline")
+        out.append("What the words and numbers on the screens mean, and the methods behind them "
+                   "(also: mynet explain TOPIC).\n")
+        for t in TOPICS:
+            out.append(f"\n{t.title}\n", style="bold")
+            out.append(f"{t.plain}\n")
+            for word, meaning in t.words:
+                out.append(f"  {word}", style="bold")
+                out.append(f": {meaning}\n")
+            out.append(f"Method: {t.method}\n", style="italic")
         with Vertical(id="help-box"):
-            yield Label(" Keys  (Escape closes)", classes="head")
+            yield Label(" Keys, and how to read this  (Escape closes)", classes="head")
             with VerticalScroll():
                 yield Static(out, id="help-text")
 

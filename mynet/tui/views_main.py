@@ -10,6 +10,7 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.widgets import Input
 
+from ..analysis.groups import group_ref
 from ..safetext import shown
 from .data import Snapshot, tier_of
 from .groupmap import GroupMap, legend
@@ -27,14 +28,16 @@ def share_bar(share: float, width: int = 5) -> Text:
     return Text("■" * filled, style="#e3a33b") + Text("□" * (width - filled), style="#56606e") + Text(f" {share:>4.0%}")
 
 
-def group_title(snap: Snapshot, gid: int | None) -> Text:
-    """A group's name; a label mynet suggested is marked with ``~`` and set in italics."""
+def group_title(snap: Snapshot, gid: int | None, *, ref: bool = True) -> Text:
+    """A group as every screen shows it: ``G7`` and its name; a label mynet suggested is marked with ``~``
+    and set in italics. ``ref=False`` leaves the ``G7`` out (for a table that has it in a column of its own)."""
     g = snap.group(gid)
     if g is None:
         return Text("not in a group", style="italic")
+    head = Text(f"{group_ref(g.id)} ", style="bold") if ref else Text()
     if g.user_named:
-        return Text(shown(g.name, one_line=True))
-    return Text(shown(SUGGESTED + g.name, one_line=True), style="italic")
+        return head + Text(shown(g.name, one_line=True))
+    return head + Text(shown(SUGGESTED + g.name, one_line=True), style="italic")
 
 
 def group_facts(snap: Snapshot, gid: int) -> str:
@@ -44,16 +47,17 @@ def group_facts(snap: Snapshot, gid: int) -> str:
         return ""
     ties, density = snap.internal(gid)
     if g.user_named:
-        first = f"{clip(g.name, 40)} · your name (mynet's label: {clip(g.label, 26)})"
+        first = f"{group_ref(gid)} {clip(g.name, 40)} · your name (mynet's label: {clip(g.label, 26)})"
     else:
-        first = f"{SUGGESTED}{clip(g.name, 44)} · suggested label ({g.share:.0%} share it)"
+        first = f"{group_ref(gid)} {SUGGESTED}{clip(g.name, 44)} · suggested label ({g.share:.0%} share it)"
     second = (f"{plural(g.size, 'person', 'people')} · {g.warm} warm with you ({g.warm_share:.0%}) · "
-              + (f"{plural(ties, 'tie')} inside, density {density:.2f}" if ties >= 0 else "counting ties…"))
+              + (f"{plural(ties, 'tie')} inside ({density:.0%} of all pairs)" if ties >= 0 else "counting ties…"))
     linked = sorted((x for x in snap.analysis.links if gid in (x["a"], x["b"])), key=lambda x: -x["ties"])
     if linked:
         top = linked[0]
         other = top["b"] if top["a"] == gid else top["a"]
-        third = (f"Tied to {plural(len(linked), 'other group')}, most to {clip(snap.group_name(other), 30)} "
+        third = (f"Tied to {plural(len(linked), 'other group')}, most to {group_ref(other)} "
+                 f"{clip(snap.group_name(other), 30)} "
                  f"({plural(top['ties'], 'tie')})")
     else:
         third = "No ties to any other group."
@@ -72,14 +76,12 @@ class NameEditor(AppAccess, Horizontal):
         yield Label("Name:", classes="name-label")
         yield Input(placeholder="your name for this group (empty: the suggested label)", id="name-input")
 
-    def open(self, snap: Snapshot, gid: int, on_done: Callable[[], None], row_y: int | None = None) -> None:
-        """Show the editor; with ``row_y`` (the row's line in the parent) it floats over that row."""
+    def open(self, snap: Snapshot, gid: int, on_done: Callable[[], None]) -> None:
+        """Show the editor below the list (the header and the rows stay in sight)."""
         g = snap.group(gid)
         if g is None:
             return
         self.gid, self.on_done = gid, on_done
-        if row_y is not None:
-            self.styles.offset = (0, max(0, row_y - 1))
         inp = self.query_one(Input)
         inp.value = shown(g.name, one_line=True) if g.user_named else ""
         inp.placeholder = shown(f"{g.label}  (Enter keeps it; Escape cancels)", one_line=True)
@@ -113,7 +115,7 @@ class GroupsView(View, Vertical):
     ]
 
     def compose(self) -> ComposeResult:
-        yield RowList([Col("#", 3, "right"), Col("Group"), Col("People", 6, "right"), Col("Warm with you", 13),
+        yield RowList([Col("Group", 5), Col("Name"), Col("People", 6, "right"), Col("Warm with you", 13),
                        Col("Tied to", 7, "right")], empty="No groups yet.", id="group-list")
         yield NameEditor(id="group-name")
         yield Static("", classes="detail", id="group-detail")
@@ -131,7 +133,8 @@ class GroupsView(View, Vertical):
             linked[x["a"]] = linked.get(x["a"], 0) + 1
             linked[x["b"]] = linked.get(x["b"], 0) + 1
         for g in snap.analysis.groups:
-            rows.append(Row(g.id, (str(g.id), group_title(snap, g.id), f"{g.size:,}", share_bar(g.warm_share),
+            rows.append(Row(g.id, (group_ref(g.id), group_title(snap, g.id, ref=False), f"{g.size:,}",
+                                   share_bar(g.warm_share),
                                    str(linked.get(g.id, 0)))))
         loose = snap.ungrouped()
         if loose:
@@ -172,8 +175,7 @@ class GroupsView(View, Vertical):
         gid = self._current()
         snap = self.mynet_app.snapshot
         if gid is not None and snap is not None:
-            lst = self.query_one(RowList)
-            self.query_one(NameEditor).open(snap, gid, self._editor_closed, lst.row_line(lst.cursor))
+            self.query_one(NameEditor).open(snap, gid, self._editor_closed)
 
     def _editor_closed(self) -> None:
         self.query_one(RowList).focus()
@@ -211,25 +213,26 @@ class MapView(View, Vertical):
             return
         if g == h:
             ties, density = snap.internal(g)
-            detail.update(f"{'' if gi.user_named else SUGGESTED}{clip(gi.name, 40)}: "
+            detail.update(f"{group_ref(g)} {'' if gi.user_named else SUGGESTED}{clip(gi.name, 40)}: "
                           f"{plural(gi.size, 'person', 'people')}, {plural(ties, 'tie')} inside "
-                          f"(density {density:.2f}).\nEnter opens the group.")
+                          f"({density:.0%} of all that could be).\nEnter opens the group.")
             return
         link = snap.link(g, h)
         if not link:
-            detail.update(f"{clip(gi.name, 30)} and {clip(hi.name, 30)}: no tie between them.")
+            detail.update(f"{group_ref(g)} {clip(gi.name, 30)} and {group_ref(h)} {clip(hi.name, 30)}: "
+                          "no tie between them.")
             return
         here, there = link.get("carriers") or ([], [])
         if g > h:
             here, there = there, here
-        lines = [f"{clip(gi.name, 30)} ↔ {clip(hi.name, 30)}: {plural(link['ties'], 'tie')} (density "
-                 f"{link['density']:.3f}), "
+        lines = [f"{group_ref(g)} {clip(gi.name, 30)} ↔ {group_ref(h)} {clip(hi.name, 30)}: "
+                 f"{plural(link['ties'], 'tie')} ({link['density']:.1%} of all that could be), "
                  f"carried by {len(here)} of {gi.size} and {len(there)} of {hi.size}."]
         best = snap.bridges_between(g, h)[:2]
         if best:
             lines.append("Bridges: " + "; ".join(
                 f"{snap.net.name(b['a'])} – {snap.net.name(b['b'])} "
-                f"({b['strength']:.2f}{', local bridge' if b.get('local_bridge') else ''})"
+                f"({b['strength']:.2f}{', their only link' if b.get('local_bridge') else ''})"
                 for b in best))
         lines.append("Enter shows how the row's group connects to the rest.")
         detail.update("\n".join(lines))
@@ -258,7 +261,7 @@ class PeopleView(View, Vertical):
     def compose(self) -> ComposeResult:
         yield Input(placeholder="Search: name, organisation, tag, e-mail, place (Enter or ↓ to the list)", id="search")
         yield Static("", classes="count", id="people-count")
-        yield RowList([Col("Name"), Col("Works at"), Col("Warmth", 10), Col("Last", 10), Col("Group", 14)],
+        yield RowList([Col("Name"), Col("Works at"), Col("Warmth", 10), Col("Last", 10), Col("Group")],
                       empty="Nobody matches.", id="people-list")
 
     def focus_default(self) -> None:

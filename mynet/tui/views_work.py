@@ -16,7 +16,7 @@ from ..analysis.intro_routes import reach, resolve_targets
 from ..errors import MynetError
 from ..safetext import shown
 from .data import Choice, Snapshot, tier_of
-from .look import Static, clip, plural, safe, severity_tag
+from .look import Static, plural, priority_tag, safe
 from .page import View
 from .rowlist import Col, Row, RowList
 
@@ -245,7 +245,7 @@ def _side(snap: Snapshot, cid: int) -> Text:
     if c is None:
         return Text("(gone)")
     w, tier, last = tier_of(snap.net, cid)
-    lines = [Text(shown(f"{c.name}  #{c.id}", one_line=True), style="bold")]
+    lines = [Text(shown(c.name, one_line=True), style="bold")]
     for label, values in (("works at", c.orgs), ("worked at", c.past_orgs), ("e-mail", c.emails), ("phone", c.phones),
                           ("tags", c.tags), ("place", c.localities),
                           ("files", sorted({s.rsplit('/', 1)[-1] for s in c.sources}))):
@@ -258,13 +258,17 @@ def _side(snap: Snapshot, cid: int) -> Text:
 class DuplicatesView(View, Vertical):
     """Pairs that may be one person: merge them, keep them apart, or leave them for later."""
 
-    hint = "Each decision is saved at once and kept across re-imports."
+    hint = "Saved at once, kept across re-imports · M merges every pair 0.90 sure or more"
 
     BINDINGS = [
         Binding("m", "merge", "Merge"),
         Binding("k", "apart", "Keep apart"),
         Binding("s", "skip", "Skip"),
+        Binding("M", "merge_sure", "Merge the surest"),
     ]
+
+    #: The least score of a pair that ``M`` merges with the others (after a look at them and a yes).
+    SURE = 0.9
 
     def __init__(self, **kw) -> None:
         super().__init__(**kw)
@@ -273,7 +277,7 @@ class DuplicatesView(View, Vertical):
 
     def compose(self) -> ComposeResult:
         yield Static("", classes="count", id="dupes-head")
-        yield RowList([Col("Score", 5, "right"), Col("One", 20), Col("Other", 20), Col("Why"), Col("", 5)],
+        yield RowList([Col("Sure", 5, "right"), Col("One"), Col("Other"), Col("Why")],
                       empty="No duplicates left to decide.", id="dupes-list")
         with Horizontal(classes="compare", id="dupes-compare"):
             yield Static("", id="dupes-a")
@@ -292,8 +296,8 @@ class DuplicatesView(View, Vertical):
         net = snap.net
         todo = [s for s in snap.extras.suggestions if (s.a, s.b) not in self.decided and s.a in net.by_id
                 and s.b in net.by_id]
-        rows = [Row((s.a, s.b), (f"{s.score:.2f}", net.name(s.a), net.name(s.b), s.reason,
-                                 "later" if (s.a, s.b) in self.skipped else "")) for s in todo]
+        rows = [Row((s.a, s.b), ("later" if (s.a, s.b) in self.skipped else f"{s.score:.2f}", net.name(s.a),
+                                 net.name(s.b), s.reason)) for s in todo]
         lst.set_rows(rows)
         head.update(f" {plural(len(todo), 'pair')} that may be one person. m merges, k keeps them apart, s skips."
                     if todo else " Nothing to decide: no likely duplicates left.")
@@ -335,6 +339,37 @@ class DuplicatesView(View, Vertical):
         self._decide("Keeping {names} apart…", "Kept apart: {names} will not be suggested again.",
                      lambda ws, pair: ws.apart(*pair))
 
+    def action_merge_sure(self) -> None:
+        """Every pair scoring :data:`SURE` or more, shown in a question; on yes merged in one step."""
+        from .person import ConfirmScreen
+
+        snap = self.mynet_app.snapshot
+        if snap is None or snap.extras is None:
+            return
+        net = snap.net
+        sure = [s for s in snap.extras.suggestions if s.score >= self.SURE and (s.a, s.b) not in self.decided
+                and s.a in net.by_id and s.b in net.by_id]
+        if not sure:
+            self.mynet_app.status_text = f"No pair is {self.SURE:.2f} sure or more; decide them one by one."
+            return
+        listed = "\n".join(f"  {net.name(s.a)} / {net.name(s.b)}" for s in sure[:8])
+        more = f"\n  and {len(sure) - 8} more" if len(sure) > 8 else ""
+        question = (f"Merge these {len(sure)} pairs ({self.SURE:.2f} sure or more),\neach into one person?\n"
+                    f"{listed}{more}\nA wrong one splits again: mynet unmerge ID")
+        pairs = [(s.a, s.b) for s in sure]
+
+        def answer(yes: bool | None) -> None:
+            if not yes:
+                self.mynet_app.status_text = "Nothing merged."
+                return
+            self.decided.update(pairs)
+            self.refresh_view(snap)
+            self.mynet_app.edit(f"Merging {plural(len(pairs), 'pair')}…",
+                                lambda ws: ws.merge_suggested(self.SURE),
+                                said=f"Merged {plural(len(pairs), 'pair')}, each into one person.")
+
+        self.app.push_screen(ConfirmScreen(question), answer)
+
     def action_skip(self) -> None:
         pair = self._pair()
         snap = self.mynet_app.snapshot
@@ -353,7 +388,7 @@ class FindingsView(View, Vertical):
     hint = "The audit of your network's shape, the most useful finding first."
 
     def compose(self) -> ComposeResult:
-        yield RowList([Col("Priority", 10), Col("Finding")], empty="No findings.", id="findings-list")
+        yield RowList([Col("What to do", 14), Col("Finding")], empty="No findings.", id="findings-list")
         with VerticalScroll(classes="detail-scroll", id="finding-box"):
             yield Static("", id="finding-detail")
 
@@ -371,7 +406,7 @@ class FindingsView(View, Vertical):
             lst.set_rows([])
             return
         self.findings = snap.extras.findings
-        lst.set_rows([Row(i, (severity_tag(f.get("severity", "low")), f.get("title", "")))
+        lst.set_rows([Row(i, (priority_tag(f.get("severity", "low")), f.get("title", "")))
                       for i, f in enumerate(self.findings)])
         self.show(lst.current_key)
 
@@ -387,10 +422,6 @@ class FindingsView(View, Vertical):
         out.append("\n" + shown(f.get("detail", "")))
         numbers = f.get("numbers") or {}
         snap = self.mynet_app.snapshot
-        plain = {k: v for k, v in numbers.items() if not isinstance(v, (list, tuple, dict))}
-        if plain:
-            out.append(shown("\n" + "  ".join(f"{k.replace('_', ' ')}: {_num(v)}" for k, v in plain.items())),
-                       style="italic")
         people = numbers.get("people")
         if snap is not None and isinstance(people, list) and people and all(isinstance(p, int) for p in people):
             out.append(shown("\nPeople: " + ", ".join(snap.net.name(p) for p in people[:12])
@@ -398,15 +429,9 @@ class FindingsView(View, Vertical):
         if f.get("suggestion"):
             out.append("\nWhat to do: ", style="bold")
             out.append(shown(f["suggestion"]))
+        out.append("\nWhat the words mean and the methods behind them: ? (help) or mynet explain findings",
+                   style="italic")
         box.update(out)
 
     def on_row_list_highlighted(self, event: RowList.Highlighted) -> None:
         self.show(event.key)
-
-
-def _num(v: Any) -> str:
-    if isinstance(v, float):
-        return f"{v:.2f}" if abs(v) < 100 else f"{v:,.0f}"
-    if isinstance(v, (list, tuple)):
-        return clip(", ".join(map(str, v)), 40)
-    return str(v)

@@ -19,8 +19,8 @@ from ..people.normalise import fold_text, normalise_email, normalise_name, norma
 from ..people.refresh import get_me, refresh_contacts
 from ..store import Store
 
-__all__ = ["set_me", "detach_address", "search_contacts", "find_contact", "merge_contacts", "unmerge_contact",
-           "reject_suggestion", "merge_suggestions", "contact_records", "PeopleMixin"]
+__all__ = ["set_me", "detach_address", "search_contacts", "find_contact", "merge_contacts", "merge_many",
+           "unmerge_contact", "reject_suggestion", "merge_suggestions", "contact_records", "PeopleMixin"]
 
 
 def set_me(store: Store, emails: Sequence[str], names: Sequence[str], *, replace: bool = False,
@@ -142,26 +142,39 @@ def _keys_of(store: Store, contact_id: int) -> list[str]:
 
 def merge_contacts(store: Store, ids: list[int]) -> Contact:
     """Merge several contacts into one (kept across re-imports). Returns the merged contact."""
-    if len(set(ids)) < 2:
-        raise MynetError("merge needs at least two different contacts")
-    keys = []
-    for cid in ids:
-        if store.contact(cid) is None:
-            raise NotFoundError(f"no contact with id {cid}")
-        keys.append(_keys_of(store, cid))
+    return merge_many(store, [ids])[0]
+
+
+def merge_many(store: Store, sets: list[list[int]]) -> list[Contact]:
+    """Merge each list of contacts into one person, all in one transaction and one refresh.
+
+    Returns the merged contacts, one per list (the same contact twice when two lists share someone).
+    """
+    anchors = []
+    for ids in sets:
+        if len(set(ids)) < 2:
+            raise MynetError("merge needs at least two different contacts")
     with store.transaction():
-        anchor = keys[0][0]
-        for other in keys[1:]:
-            store.add_decision("same", anchor, other[0])
-            # The user changed their mind: drop earlier "different" decisions between these people.
-            for ka in [k for ks in keys for k in ks]:
-                for kb in other:
-                    store.delete_decisions("different", ka, kb)
-                    store.delete_decisions("different", kb, ka)
+        for ids in sets:
+            keys = []
+            for cid in ids:
+                if store.contact(cid) is None:
+                    raise NotFoundError(f"no contact with id {cid}")
+                keys.append(_keys_of(store, cid))
+            anchor = keys[0][0]
+            anchors.append(anchor)
+            for other in keys[1:]:
+                store.add_decision("same", anchor, other[0])
+                # The user changed their mind: drop earlier "different" decisions between these people.
+                for ka in [k for ks in keys for k in ks]:
+                    for kb in other:
+                        store.delete_decisions("different", ka, kb)
+                        store.delete_decisions("different", kb, ka)
         refresh_contacts(store)
-    merged = store.contact(store.contact_map()[anchor])
-    assert merged is not None
-    return merged
+    cmap = store.contact_map()
+    merged = [store.contact(cmap[a]) for a in anchors]
+    assert all(m is not None for m in merged)
+    return merged  # type: ignore[return-value]
 
 
 def unmerge_contact(store: Store, contact_id: int, record_ids: list[int] | None = None) -> list[Contact]:
@@ -290,6 +303,16 @@ class PeopleMixin:
     def merge(self, ids: list[int]) -> Contact:
         """Merge contacts into one person (kept across re-imports); returns the merged contact."""
         return merge_contacts(self.store, list(ids))
+
+    def merge_suggested(self, min_score: float) -> list[tuple[Suggestion, Contact]]:
+        """Merge every suggested duplicate pair scoring ``min_score`` or more, in one step.
+
+        Returns each suggestion with the person it became; ``unmerge`` splits any of them again.
+        """
+        chosen = [s for s in merge_suggestions(self.store) if s.score >= min_score]
+        if not chosen:
+            return []
+        return list(zip(chosen, merge_many(self.store, [[s.a, s.b] for s in chosen])))
 
     def unmerge(self, contact_id: int, record_ids: list[int] | None = None) -> list[Contact]:
         """Split records off a contact (all of them by default); returns the contacts they now belong to."""

@@ -79,12 +79,13 @@ def _scrub_interactions(store: Store, emails: set[str]) -> int:
 
 
 def _drop_from_group_state(store: Store, contact_id: int) -> None:
-    """Remove a contact from the remembered group memberships, keeping the group ids (and so their names)."""
+    """Remove a contact from the remembered group memberships and roles, keeping the group ids (and names)."""
     state = json.loads(store.meta("groups_state", "{}") or "{}")
     groups = state.get("groups", {})
     for gid, members in groups.items():
         groups[gid] = [m for m in members if m != contact_id]
     state["groups"] = groups
+    state.get("roles", {}).pop(str(contact_id), None)
     store.set_meta("groups_state", json.dumps(state))
 
 
