@@ -13,7 +13,7 @@ import sys
 import click
 
 from ..errors import MynetError
-from . import browse, demo, groups, measures, people, reach, report, settings, sources, tags, ties
+from . import asks, browse, demo, groups, measures, people, reach, report, settings, sources, tags, ties
 from .common import Ctx, echo
 
 __all__ = ["main", "cli"]
@@ -35,7 +35,7 @@ def cli(ctx: click.Context, workspace: str | None) -> None:
 
 
 #: The command families, one module each; every module lists its commands in ``COMMANDS``.
-FAMILIES = (sources, people, ties, settings, tags, groups, measures, reach, report, browse, demo)
+FAMILIES = (sources, people, ties, settings, tags, groups, measures, reach, asks, report, browse, demo)
 
 for _family in FAMILIES:
     for _command in _family.COMMANDS:

@@ -29,6 +29,7 @@ from urllib.parse import quote
 
 from ..errors import WorkspaceError
 from ..model import Contact, Interaction, Record
+from .asks import AsksTables
 from .schema import MIGRATIONS, SCHEMA_VERSION
 
 __all__ = ["Store", "SCHEMA_VERSION", "SourceRow"]
@@ -71,7 +72,7 @@ def _read_only_uris(path: Path) -> list[str]:
     return [base + "?mode=ro", base + "?mode=ro&immutable=1"]
 
 
-class Store:
+class Store(AsksTables):
     """The workspace file.
 
     Parameters
