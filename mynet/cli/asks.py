@@ -10,7 +10,7 @@ from __future__ import annotations
 import click
 
 from ..errors import MynetError
-from .common import as_of_option, echo, emit_json, json_option, load_net, note, plural, table
+from .common import as_of_option, echo, emit_json, json_option, load_net, note, plural, prompt, table
 
 KIND_WORDS = {"person": "person", "organisation": "org", "tag": "tag", "domain": "domain"}
 
@@ -260,7 +260,7 @@ def asks_close(obj, ask_id, outcome, person, on):
             if not sys.stdin.isatty():
                 raise MynetError(f"ask #{ask_id} is about {target['label']}, not one person: say whom you were "
                                  "introduced to (--person NAME)")
-            person = click.prompt(f"Whom at {target['label']} were you introduced to (name, e-mail or id)")
+            person = prompt(f"Whom at {target['label']} were you introduced to (name, e-mail or id)")
     row = ws.close_ask(ask_id, outcome, person=person, on=on)
     echo(f"Ask #{row['id']} ({row['via_name']} for {row['target_label']}): {row['outcome']}.")
     if outcome == "introduced":

@@ -22,11 +22,11 @@ import os
 from pathlib import Path
 
 from ..store import Store
-from .planning import AsksMixin
 from .decisions import DecisionsMixin
 from .importing import ImportingMixin
 from .location import resolve_workspace_path
 from .people import PeopleMixin
+from .planning import AsksMixin
 from .privacy import PrivacyMixin
 from .results import ResultsMixin
 from .settings import SettingsMixin

@@ -109,14 +109,14 @@ def read_target_file(path: str | Path, column: str | None = None) -> list[str]:
     try:
         text = p.read_bytes().decode("utf-8-sig", errors="replace")
     except OSError as exc:
-        raise InputError(f"{p}: cannot read it ({exc.strerror or exc})") from exc
+        raise InputError(str(p), f"cannot read it ({exc.strerror or exc})") from exc
     values: list[str] = []
     if column is not None:
         reader = csv.DictReader(io.StringIO(text))
         header = reader.fieldnames or []
         match = next((h for h in header if fold_text(h) == fold_text(column)), None)
         if match is None:
-            raise InputError(f"{p}: no column {column!r} (the header has: {', '.join(header) or 'nothing'})")
+            raise InputError(str(p), f"no column {column!r} (the header has: {', '.join(header) or 'nothing'})")
         values = [row.get(match) or "" for row in reader]
     else:
         values = text.splitlines()
@@ -172,7 +172,7 @@ def _day(on: date | str | None) -> date:
     try:
         return date.fromisoformat(str(on).strip())
     except ValueError:
-        raise InputError(f"{on!r} is not a date written YYYY-MM-DD") from None
+        raise MynetError(f"{on!r} is not a date written YYYY-MM-DD") from None
 
 
 def record_ask(store: Store, via_id: int, target_id: int, *, note: str = "", on: date | str | None = None) -> int:

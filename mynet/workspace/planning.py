@@ -17,12 +17,30 @@ from typing import Any, Iterable
 
 from ..analysis.intro_routes import Targets, no_path_reason, path_index
 from ..analysis.plan import Cover, cover, greedy_bound
-from ..analysis.target_routes import (TargetRoutes, dormant_contacts, observed_pairs, revived_index, revived_routes,
-                                      routes_to)
+from ..analysis.target_routes import (
+    TargetRoutes,
+    dormant_contacts,
+    observed_pairs,
+    revived_index,
+    revived_routes,
+    routes_to,
+)
 from ..errors import MynetError, NotFoundError
 from ..evidence.network import Network
 from ..store import Store
-from . import asks as stored
+from .asks import add_target as keep_target
+from .asks import (
+    ask_model,
+    ask_rows,
+    find_target,
+    hold_backs,
+    read_target_file,
+    record_ask,
+    resolve_target_row,
+    target_row,
+)
+from .asks import close_ask as give_outcome
+from .asks import remove_target as drop_target
 
 __all__ = ["AsksMixin", "target_overview", "TargetState"]
 
@@ -42,14 +60,14 @@ def target_overview(store: Store, net: Network, *, max_intermediaries: int = 2, 
                     index=None) -> tuple[list[TargetState], dict[int, dict[str, Any]]]:
     """Every kept target with its routes and its state, and who is held back (see :func:`.asks.hold_backs`)."""
     index = index or path_index(net)
-    held, declined = stored.hold_backs(store, today=today)
+    held, declined = hold_backs(store, today=today)
     hold = {cid: h["factor"] for cid, h in held.items()}
-    asks = stored.ask_rows(store, include_closed=True, today=today)
+    asks = ask_rows(store, include_closed=True, today=today)
     cmap = store.contact_map()
     pairs = observed_pairs(net)
     out = []
     for row in store.targets():
-        t = stored.resolve_target_row(net, store, row, cmap)
+        t = resolve_target_row(net, store, row, cmap)
         mine = [a for a in asks if a["target"] == row["id"]]
         routes = routes_to(net, index, t, max_intermediaries=max_intermediaries, hold=hold,
                            exclude=declined.get(row["id"], set()), pairs=pairs) if t.members else TargetRoutes([])
@@ -65,7 +83,7 @@ def target_overview(store: Store, net: Network, *, max_intermediaries: int = 2, 
             state = "open"
         else:
             state = "no route"
-        out.append(TargetState(stored.target_row(store, row, cmap), t, routes, state,
+        out.append(TargetState(target_row(store, row, cmap), t, routes, state,
                                [a for a in mine if not a["outcome"]]))
     return out, held
 
@@ -96,7 +114,7 @@ class AsksMixin:
         if len(given) != 1:
             raise MynetError("say which target with exactly one of --to, --org, --tag or --domain")
         kind, text = given[0]
-        row, new = stored.add_target(self.store, net or self.network(), kind, str(text), self.find)  # type: ignore
+        row, new = keep_target(self.store, net or self.network(), kind, str(text), self.find)  # type: ignore
         return row | {"new": new}
 
     def add_targets_from_file(self, path: str | Path, *, kind: str = "organisation", column: str | None = None,
@@ -108,9 +126,9 @@ class AsksMixin:
         """
         net = net or self.network()  # type: ignore[attr-defined]
         out: dict[str, list] = {"added": [], "already": [], "not_found": []}
-        for text in stored.read_target_file(path, column):
+        for text in read_target_file(path, column):
             try:
-                row, new = stored.add_target(self.store, net, kind, text, self.find)  # type: ignore[attr-defined]
+                row, new = keep_target(self.store, net, kind, text, self.find)  # type: ignore[attr-defined]
             except NotFoundError as exc:
                 out["not_found"].append({"text": text, "reason": str(exc)})
                 continue
@@ -119,7 +137,7 @@ class AsksMixin:
 
     def remove_target(self, ref: str | int) -> dict[str, Any]:
         """Remove a target (by id or name) and the asks about it; returns it as it was."""
-        return stored.remove_target(self.store, ref)
+        return drop_target(self.store, ref)
 
     def targets(self, *, as_of=None, net: Network | None = None, max_intermediaries: int = 2,
                 today: date | None = None) -> list[dict[str, Any]]:
@@ -148,7 +166,7 @@ class AsksMixin:
         and objective (opened, people, score, capacity, bound). Deterministic.
         """
         net = net or self.network(as_of)  # type: ignore[attr-defined]
-        model = stored.ask_model(self.store)
+        model = ask_model(self.store)
         capacity = max_per_person if max_per_person is not None else model.max_per_person
         if capacity < 1:
             raise MynetError("a person can be asked for at least one introduction (--max-per-person 1 or more)")
@@ -188,7 +206,7 @@ class AsksMixin:
         """
         helper = self.find(via)  # type: ignore[attr-defined]
         try:
-            row = stored.find_target(self.store, target)
+            row = find_target(self.store, target)
         except NotFoundError:
             try:
                 made = self.add_target(to=target, net=net)
@@ -198,16 +216,16 @@ class AsksMixin:
                 except NotFoundError:
                     raise NotFoundError(f"{target!r} is neither one of your targets, nor a contact, nor an "
                                         "organisation anyone works at (mynet targets add --tag/--domain ...)") from None
-            row = stored.find_target(self.store, made["id"])
-        if row["kind"] == "person" and stored.target_row(self.store, row)["contact"] == helper.id:
+            row = find_target(self.store, made["id"])
+        if row["kind"] == "person" and target_row(self.store, row)["contact"] == helper.id:
             raise MynetError(f"{helper.name} is the target: ask them yourself, no introduction needed")
-        ask_id = stored.record_ask(self.store, helper.id, row["id"], note=note, on=on)
-        return next(a for a in stored.ask_rows(self.store, include_closed=True) if a["id"] == ask_id)
+        ask_id = record_ask(self.store, helper.id, row["id"], note=note, on=on)
+        return next(a for a in ask_rows(self.store, include_closed=True) if a["id"] == ask_id)
 
     def asks(self, *, include_closed: bool = False, today: date | None = None) -> list[dict[str, Any]]:
         """Your asks, oldest first (open ones only unless ``include_closed``), with days waiting and when to
         follow up (``asks.follow_up_days`` after asking; ``due`` once that day has come)."""
-        return stored.ask_rows(self.store, include_closed=include_closed, today=_day(today))
+        return ask_rows(self.store, include_closed=include_closed, today=_day(today))
 
     def close_ask(self, ask_id: int, outcome: str, *, person: str | int | None = None,
                   on: date | str | None = None) -> dict[str, Any]:
@@ -217,8 +235,8 @@ class AsksMixin:
         or ``person`` for an organisation, tag or domain) and warms the one who helped.
         """
         pid = self.find(person).id if person not in (None, "") else None  # type: ignore[attr-defined]
-        stored.close_ask(self.store, int(ask_id), outcome, person_id=pid, on=on)
-        return next(a for a in stored.ask_rows(self.store, include_closed=True) if a["id"] == int(ask_id))
+        give_outcome(self.store, int(ask_id), outcome, person_id=pid, on=on)
+        return next(a for a in ask_rows(self.store, include_closed=True) if a["id"] == int(ask_id))
 
     def reopen_ask(self, ask_id: int) -> None:
         """Take an ask's outcome back (it is open again)."""
@@ -228,7 +246,7 @@ class AsksMixin:
     def held_back(self, *, today: date | None = None) -> dict[int, dict[str, Any]]:
         """People asked recently (open or declined, within ``asks.recent_days``): id -> the ask and the factor
         their routes' rank is multiplied by in reach and the plan."""
-        return stored.hold_backs(self.store, today=_day(today))[0]
+        return hold_backs(self.store, today=_day(today))[0]
 
     # -- dormant contacts ----------------------------------------------------------------
     def dormant(self, *, as_of=None, net: Network | None = None, limit: int = 0, max_intermediaries: int = 2,
