@@ -10,10 +10,24 @@ import pytest
 
 pytest.importorskip("textual")
 
-from test_tui import TODAY, rows, sample_master, settle, until, workspace  # noqa: E402,F401  (fixtures)
+import shutil  # noqa: E402
+
+from test_tui import TODAY, build_sample, rows, settle, until  # noqa: E402
 
 import mynet  # noqa: E402
 from mynet.tui import create_app  # noqa: E402
+
+
+@pytest.fixture(scope="module")
+def plan_sample(tmp_path_factory):
+    return build_sample(tmp_path_factory.mktemp("tui-plan"))
+
+
+@pytest.fixture
+def workspace(plan_sample, tmp_path):
+    dst = tmp_path / "ws.sqlite"
+    shutil.copy(plan_sample, dst)
+    return dst
 
 
 def add_sample_targets(path, n: int = 6) -> list[int]:

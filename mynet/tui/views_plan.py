@@ -32,7 +32,8 @@ COLUMNS = {
     "targets": [Col("#", 3, "right"), Col("Target", 22), Col("Score", 5, "right"), Col("Basis", 8),
                 Col("Open", 4, "right"), Col("Best way in")],
     "plan": [Col("", 1), Col("For", 22), Col("Score", 5, "right"), Col("Basis", 8), Col("Route")],
-    "asks": [Col("#", 3, "right"), Col("Asked", 18), Col("For", 18), Col("Days", 4, "right"), Col("Follow up / outcome")],
+    "asks": [Col("#", 3, "right"), Col("Asked", 18), Col("For", 18), Col("Days", 4, "right"),
+             Col("Follow up / outcome")],
 }
 
 OUTCOME_KEYS = {"i": "introduced", "d": "declined", "n": "no-answer", "x": "not-needed"}
