@@ -237,3 +237,19 @@ def test_cli_loop_and_json(ws, capsys, tmp_path):
     assert code == 0 and isinstance(json.loads(out), list)
     code, _, err = run(capsys, "asks", "close", "77", "--outcome", "declined")
     assert code == 4 and "no ask #77" in err
+
+
+def test_report_shows_targets_and_the_plan_as_a_picture_also_redacted(ws, tmp_path):
+    from mynet.report import write_report
+
+    target, row = a_person_with_routes(ws)
+    org_row = ws.add_target(org=next(c for c in ws.network().contacts if c.orgs).orgs[0])
+    out = write_report(ws, tmp_path / "r.html")
+    text = out.read_text("utf-8")
+    assert "Your targets and the plan" in text and 'id="targets-' in text  # the picture, inline
+    assert row["best"]["first_name"] in text or "No route yet" in text
+    red = write_report(ws, tmp_path / "red.html", redact=True).read_text("utf-8")  # the leak check passed
+    assert "Your targets and the plan" in red
+    assert target["label"] not in red and org_row["label"] not in red
+    md = write_report(ws, tmp_path / "r.md", markdown=True)
+    assert (tmp_path / "r_files" / "targets.svg").exists() and "targets.svg" in md.read_text("utf-8")
