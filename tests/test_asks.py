@@ -253,3 +253,25 @@ def test_report_shows_targets_and_the_plan_as_a_picture_also_redacted(ws, tmp_pa
     assert target["label"] not in red and org_row["label"] not in red
     md = write_report(ws, tmp_path / "r.md", markdown=True)
     assert (tmp_path / "r_files" / "targets.svg").exists() and "targets.svg" in md.read_text("utf-8")
+
+
+def test_a_version_2_workspace_gains_the_targets_and_asks_tables(tmp_path):
+    import sqlite3
+
+    from mynet.store import SCHEMA_VERSION, Store
+
+    path = tmp_path / "old.sqlite"
+    Store(path).close()
+    conn = sqlite3.connect(path)
+    conn.execute("DROP TABLE asks")
+    conn.execute("DROP TABLE targets")
+    conn.execute("INSERT INTO decisions(kind, a, b, value, created_at) VALUES ('rate', 'k', '', '0.5', 'x')")
+    conn.execute("PRAGMA user_version = 2")
+    conn.commit()
+    conn.close()
+    store = Store(path)
+    assert SCHEMA_VERSION == 3 and store.conn.execute("PRAGMA user_version").fetchone()[0] == 3
+    assert store.targets() == [] and store.asks() == [] and len(store.decisions()) == 1
+    tid = store.add_target("organisation", "Velvane Robotics")
+    assert store.add_ask(tid, "k", "2026-11-02") == 1
+    store.close()

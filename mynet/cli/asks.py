@@ -307,9 +307,11 @@ def dormant_cmd(obj, limit, as_of, as_json):
          ", ".join(x for x in (plural(r["meetings"], "meeting") if r["meetings"] else "",
                                plural(r["mails"], "mail") if r["mails"] else "",
                                ", ".join(r["organisations"][:1])) if x),
-         "; ".join(x for x in (", ".join(r["targets"][:3]) + (" ..." if len(r["targets"]) > 3 else ""),
+         "; ".join(x for x in ((f"{plural(len(r['targets']), 'target')}: " + ", ".join(r["targets"]))
+                               if r["targets"] else "",
                                ", ".join(f"G{g['group']} {g['name']}" for g in r["groups"])) if x) or "-")
         for r in rows]))
+    note("then/now: your warmth at your last interaction and today; mynet dormant --json lists every target")
 
 
 COMMANDS = (targets_cmd, plan_cmd, ask_cmd, asks_cmd, dormant_cmd)
