@@ -148,7 +148,8 @@ def test_old_workspace_is_migrated_and_old_mail_read_again(tmp_path):
     conn.commit()
     conn.close()
     store = Store(path)
-    assert store.conn.execute("PRAGMA user_version").fetchone()[0] == SCHEMA_VERSION == 3
+    assert SCHEMA_VERSION >= 3  # later versions (derived rows, targets and asks): the file reaches the newest
+    assert store.conn.execute("PRAGMA user_version").fetchone()[0] == SCHEMA_VERSION
     assert store.sources()[0]["reader"] == "" and store.sources()[0]["new_contacts"] == 1
     # Same bytes, but read by an older reader: read again.
     assert import_paths(store, [box]).files[0].status == "updated"

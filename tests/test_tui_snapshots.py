@@ -112,3 +112,17 @@ def test_findings(snap_compare, workspace):
 
 def test_help(snap_compare, workspace):
     assert snap_compare(app_for(workspace), terminal_size=SIZE, run_before=keys("question_mark"))
+
+
+def test_plan(snap_compare, workspace):
+    from test_tui_plan import add_sample_targets
+
+    add_sample_targets(workspace)
+    assert snap_compare(app_for(workspace), terminal_size=SIZE, run_before=keys("7"))
+
+
+def test_plan_asks_after_keeping_one(snap_compare, workspace):
+    from test_tui_plan import add_sample_targets
+
+    add_sample_targets(workspace)
+    assert snap_compare(app_for(workspace), terminal_size=SIZE, run_before=keys("7", "enter", "a"))

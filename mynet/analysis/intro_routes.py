@@ -157,6 +157,7 @@ class ReachResult:
     unreachable: list[int]
     why_none: str = ""  # when there is no path: why, in plain words
     known: dict[str, Any] | None = None
+    held_back: list[dict[str, Any]] = field(default_factory=list)  # people asked recently, ranked after others
 
 
 def _warmth_words(net: Network, cid: int) -> str:
@@ -337,12 +338,18 @@ def reach(
     groups: dict[int, Any] | None = None,
     per_target: bool = True,
     today: date | None = None,
+    hold: dict[int, dict[str, Any]] | None = None,
 ) -> ReachResult:
     """Ranked intro paths to the targets, each step explained, plus your direct routes.
 
     ``today`` (default: the day the network is seen from, ``net.as_of``) decides which
-    direct ties are dormant.
+    direct ties are dormant. ``hold`` maps people you asked recently to ``{"factor", ...}``
+    (see :meth:`mynet.workspace.Workspace.held_back`): a path through one of them first is
+    ranked at its score times ``factor`` (its score stays as it is, and the path says why it
+    comes later). The search returns ``k`` plus as many paths as people held back, so the
+    ``k`` best by that rank are among them.
     """
+    hold = hold or {}
     today = today or net.as_of.day
     if max_intermediaries < 1:
         raise MynetError("an intro path has at least one intermediary (--max-intermediaries 1 or more)")
@@ -355,10 +362,19 @@ def reach(
     # Someone you already know warmly is never a later intermediary (you would ask them yourself):
     # the search applies this rule itself, so nobody loses a good path to a detour through them.
     first_only = warm_contacts(index)
-    paths = find_paths(index, outsiders, k=k, max_intermediaries=max_intermediaries, avoid=avoid,
-                       min_strength=min_strength, first_only=first_only)
+    paths = find_paths(index, outsiders, k=k + len(hold) if hold else k, max_intermediaries=max_intermediaries,
+                       avoid=avoid, min_strength=min_strength, first_only=first_only)
     paths = _rank_observed_first(net, paths)
+    if hold:
+        ranked = sorted(range(len(paths)), key=lambda i: (-round(paths[i].score * hold.get(paths[i].first, {})
+                                                                  .get("factor", 1.0), 9), i))
+        paths = [paths[i] for i in ranked[:k]]
     described = [_describe_path(net, p, groups) for p in paths]
+    for p, d in zip(paths, described):
+        if p.first in hold:
+            h = hold[p.first]
+            d["held_back"] = {"asked_on": h.get("asked_on"), "state": h.get("state"), "factor": h.get("factor"),
+                              "about": h.get("target_label")}
     direct = []
     for m in members:
         w = direct_route(index, m)
@@ -386,5 +402,6 @@ def reach(
         reason = no_path_reason(net, index, [m for m in outsiders if m not in avoid],
                                 max_intermediaries=max_intermediaries, avoid=set(avoid), min_strength=min_strength)
     known = next((d for d in direct if targets.kind == "person" and not d["weak"] and not d["dormant"]), None)
+    held = [{"person": c, "name": net.name(c)} | dict(h) for c, h in sorted(hold.items()) if index.pos(c) is not None]
     return ReachResult(targets, described, sorted(direct, key=lambda d: -d["warmth"]), by_target, unreachable, reason,
-                       known)
+                       known, held)

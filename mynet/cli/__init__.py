@@ -13,7 +13,7 @@ import sys
 import click
 
 from ..errors import MynetError
-from . import browse, demo, explain, groups, measures, people, reach, report, settings, sources, tags, ties
+from . import asks, browse, demo, explain, groups, measures, people, reach, report, settings, sources, tags, ties
 from .common import Ctx, echo
 
 __all__ = ["main", "cli"]
@@ -25,7 +25,7 @@ SECTIONS = (
     ("Getting data in", ("demo", "import", "me", "sources")),
     ("People", ("contacts", "show", "merge", "unmerge", "apart", "drop-address", "rate", "forget")),
     ("Your network", ("groups", "brokers", "bridges", "audit", "changes", "ties", "why", "tie", "untie", "tags")),
-    ("Introductions", ("reach", "targets", "plan", "asks")),
+    ("Introductions", ("reach", "targets", "plan", "ask", "asks", "dormant")),
     ("Sharing and looking around", ("browse", "report", "export")),
     ("Settings and words", ("settings", "explain")),
 )
@@ -54,6 +54,11 @@ LINES = {
     "untie": "Remove a wrong tie",
     "tags": "Labels on your cards, and whether they say who knows whom",
     "reach": "Who can introduce you to a person or organisation",
+    "targets": "The people and organisations you want to reach, and how",
+    "plan": "Whom to ask first, so the fewest warm asks open the most doors",
+    "ask": "Note that you asked someone for an introduction",
+    "asks": "Your asks: days waiting, when to follow up, outcomes",
+    "dormant": "People you were close to once who would reopen doors",
     "browse": "Look around your network in the terminal",
     "report": "Write a report you can open in a browser or print",
     "export": "Write the network for other tools (GraphML, CSV, JSON)",
@@ -100,7 +105,7 @@ def cli(ctx: click.Context, workspace: str | None, progress: bool | None) -> Non
 
 
 #: The command families, one module each; every module lists its commands in ``COMMANDS``.
-FAMILIES = (sources, people, ties, settings, tags, groups, measures, reach, report, browse, demo, explain)
+FAMILIES = (sources, people, ties, settings, tags, groups, measures, reach, asks, report, browse, demo, explain)
 
 for _family in FAMILIES:
     for _command in _family.COMMANDS:

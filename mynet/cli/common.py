@@ -97,6 +97,11 @@ def confirm(question: str) -> None:
     click.confirm(shown(question, one_line=True), abort=True)
 
 
+def prompt(question: str) -> str:
+    """Ask for a line of text on the terminal (the question shown safely)."""
+    return click.prompt(shown(question, one_line=True))
+
+
 def emit_json(data: Any) -> None:
     """Print one JSON document on stdout (controls beyond JSON's own escaped as ``\\uXXXX``)."""
     click.echo(json_escape(json.dumps(data, ensure_ascii=False, indent=2, sort_keys=False)))

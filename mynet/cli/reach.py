@@ -24,6 +24,10 @@ def print_path(rank: int, p: dict) -> None:
         n = p["assumed_steps"]
         echo(f"     note: {'one step' if n == 1 else f'{n} steps'} of this path {'rests' if n == 1 else 'rest'} only "
              "on something the two share; nothing shows they have met or written")
+    if p.get("held_back"):
+        h = p["held_back"]
+        echo(f"     asked recently: you asked {p['names'][0]} on {h['asked_on']} about {h['about']} ({h['state']}), "
+             "so paths through others come first")
     echo(f"     ask: {p['ask']}")
 
 
@@ -45,6 +49,9 @@ def print_answer(result: ReachResult, max_intermediaries: int) -> None:
     if insiders:
         echo("You already know: " + "; ".join(f"{d['name']} (warmth {d['warmth']:.2f}, last {d['last'] or '-'})"
                                               for d in insiders))
+    if result.held_back:
+        echo("Asked recently, so paths through others come first: " + "; ".join(
+            f"{h['name']} ({h['state']} ask of {h['asked_on']} about {h['target_label']})" for h in result.held_back))
     if not result.paths:
         echo("No intro path found" + (f" within {max_intermediaries} intermediaries" if max_intermediaries else "")
              + ". " + (result.why_none or "Try --max-intermediaries 3, fewer --avoid, or add ties you know of "

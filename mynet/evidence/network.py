@@ -19,11 +19,13 @@ from ..model import Contact, Interaction
 from ..people.mailpeople import evidence_interactions, me_emails, not_employer_domains
 from ..people.normalise import normalise_email, normalise_name
 from ..store import Store
+from .introductions import AskModel, Introduction, apply_introductions
 from .ties import TieModel, TieTable, disparity_filter, infer_ties
 from .warmth import Warmth, WarmthModel, compute_warmth
 
 __all__ = ["Network", "in_words", "AsOf", "resolve_as_of", "load_network", "load_warmth", "interactions_until",
-           "tie_decisions", "label_decisions", "anchor_key", "contact_of_key", "TIES_CACHE", "warmth_cache_key"]
+           "tie_decisions", "label_decisions", "anchor_key", "contact_of_key", "TIES_CACHE", "warmth_cache_key",
+           "introductions"]
 
 TIES_CACHE = "ties:v3"
 #: Days without any interaction after which mynet measures warmth at your newest interaction by default.
@@ -246,7 +248,7 @@ def load_warmth(
     wkey = warmth_cache_key(today)
     wcached = store.cached(wkey)
     if wcached is not None:
-        return {int(k): Warmth(**v) for k, v in wcached.items()}
+        return _with_introductions(store, {int(k): Warmth(**v) for k, v in wcached.items()}, today)
     if contacts is None:
         contacts = store.contacts()
     if ratings is None:
@@ -256,7 +258,31 @@ def load_warmth(
     wmodel = WarmthModel.from_settings(store.setting("warmth_model", {}))
     warmth = compute_warmth(contacts, interactions, _me_emails(store), ratings, wmodel, today)
     store.put_cache(wkey, {str(k): v.to_dict() for k, v in warmth.items()})
-    return warmth
+    return _with_introductions(store, warmth, today)
+
+
+def introductions(store: Store) -> list[Introduction]:
+    """The asks you closed as introduced, resolved to current contact ids (:mod:`.introductions`)."""
+    rows = [a for a in store.asks() if a["outcome"] == "introduced" and a["closed_on"]]
+    if not rows:
+        return []
+    cmap = store.contact_map()
+    anchors = {t["id"]: t["anchor"] for t in store.targets()}
+    out = []
+    for a in rows:
+        person = a["person"] or anchors.get(a["target_id"], "")
+        out.append(Introduction(contact_of_key(cmap, a["via"]), contact_of_key(cmap, person) if person else None,
+                                date.fromisoformat(a["closed_on"][:10])))
+    return out
+
+
+def _with_introductions(store: Store, warmth: dict[int, Warmth], today: date) -> dict[int, Warmth]:
+    intros = introductions(store)
+    if not intros:
+        return warmth
+    wmodel = WarmthModel.from_settings(store.setting("warmth_model", {}))
+    return apply_introductions(warmth, intros, today=today, half_life_days=wmodel.half_life_days,
+                               model=AskModel.from_settings(store.setting("asks", {})))
 
 
 def load_network(store: Store, *, today: date | None = None, as_of: AsOf | date | str | None = None) -> Network:

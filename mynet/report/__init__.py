@@ -113,7 +113,8 @@ def write_report(
 
     pictures = {"network": charts.network_svg(d, seed=seed)}
     step("charts")
-    pictures |= {"groups": charts.groups_svg(d), "time": charts.timeline_svg(d), "tiers": charts.tiers_svg(d)}
+    pictures |= {"groups": charts.groups_svg(d), "time": charts.timeline_svg(d), "tiers": charts.tiers_svg(d),
+                 "targets": charts.targets_svg(d)}
     step("write")
     if not markdown:
         from .html import render_html
@@ -129,13 +130,16 @@ def write_report(
              IMAGE_NAMES["tiers"]: pictures["tiers"]}
     if pictures["time"]:
         files[IMAGE_NAMES["time"]] = pictures["time"]
+    if pictures["targets"]:
+        files[IMAGE_NAMES["targets"]] = pictures["targets"]
     text = render_markdown(d, {"network": pictures["network"][1]}, folder.name, has_time=bool(pictures["time"]))
     check_redacted([text, *files.values()], d.pseudonyms if redact else None)
     private_dir(folder)
     for name, svg in files.items():
         write_private(folder / name, svg)
-    stale = folder / IMAGE_NAMES["time"]
-    if not pictures["time"] and stale.exists():
-        stale.unlink()
+    for key in ("time", "targets"):
+        stale = folder / IMAGE_NAMES[key]
+        if not pictures[key] and stale.exists():
+            stale.unlink()
     write_private(out, text)
     return out

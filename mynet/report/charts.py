@@ -35,6 +35,7 @@ from .layout import group_layout, place_discs
 from .wording import xml_safe
 
 __all__ = ["PALETTE", "MARKERS", "HATCHES", "group_style", "network_svg", "groups_svg", "timeline_svg", "tiers_svg",
+           "targets_svg",
            "clean_svg", "MAX_EDGES_DRAWN", "LEGEND_GROUPS"]
 
 PALETTE = ("#1f5a99", "#e69a1c", "#79b8e0", "#6f2c8f", "#f2d24b", "#16907f", "#c8553d", "#bfa3d6", "#3c3c3c", "#9c7a1a")
@@ -342,3 +343,53 @@ def tiers_svg(data: ReportData) -> str:
     ax.set_ylabel("contacts")
     ax.set_title("Contacts by warmth layer", fontsize=10, loc="left")
     return _render(fig, "tiers")
+
+
+@_styled
+def targets_svg(data: ReportData) -> str | None:
+    """Your targets by the score of their best route and by how many people could open them; the plan below.
+
+    Top: one bar per target, as long as the score of its best route (solid: every step observed; hatched:
+    some step rests only on something shared), with how many people you are warm with could open it.
+    Bottom: the people to ask, in order, and the targets each would open.
+    """
+    t = data.targets
+    if not t:
+        return None
+    shown = sorted((x for x in t["targets"] if x["state"] in ("open", "no route")),
+                   key=lambda x: (x["score"] is None, -(x["score"] or 0.0), x["label"]))
+    asks = t["asks"]
+    top_h, bottom_h = 0.6 + 0.3 * max(1, len(shown)), 0.6 + 0.34 * max(1, len(asks))
+    fig = _figure(9.0, top_h + bottom_h + 0.6)
+    ax, bx = fig.subplots(2, 1, gridspec_kw={"height_ratios": [top_h, bottom_h]})
+    ys = list(range(len(shown)))[::-1]
+    top = max([x["score"] or 0.0 for x in shown] + [0.05])
+    for y, x in zip(ys, shown):
+        if x["score"] is None:
+            ax.text(0, y, "  no route yet", va="center", fontsize=7, style="italic")
+            continue
+        ax.barh(y, x["score"], height=0.6, color="#1f5a99" if x["observed"] else "white", edgecolor="#1f5a99",
+                hatch=None if x["observed"] else "//", linewidth=0.8)
+        ax.text(x["score"], y, f"  {x['score']:.2f}, {x['open']} could open it", va="center", fontsize=7)
+    ax.set_yticks(ys, [clip(x["label"], 28) for x in shown], fontsize=8)
+    ax.set_xlim(0, top * 1.6)
+    ax.set_xlabel("score of the best route (1 is best)", fontsize=8)
+    ax.legend(handles=[Patch(facecolor="#1f5a99", edgecolor="#1f5a99", label="every step observed"),
+                       Patch(facecolor="white", edgecolor="#1f5a99", hatch="//",
+                             label="some step rests only on something shared")],
+              loc="lower right", fontsize=7, frameon=False)
+    ax.set_title("Your targets: the best way in, and how many people could open it", fontsize=10, loc="left")
+    ys = list(range(len(asks)))[::-1]
+    counts = [len(a["targets"]) for a in asks]
+    bx.barh(ys, counts, height=0.6, color="#f2d24b", edgecolor="black", hatch="..", linewidth=0.6)
+    for y, a in zip(ys, asks):
+        bx.text(len(a["targets"]), y, "  " + clip(", ".join(x["label"] for x in a["targets"]), 70), va="center",
+                fontsize=7)
+    bx.set_yticks(ys, [f"{i}. {clip(a['name'], 24)}" for i, a in enumerate(asks, 1)], fontsize=8)
+    bx.set_xlim(0, max(counts + [1]) * 3.2)
+    bx.set_xticks(range(0, max(counts + [1]) + 1))
+    bx.set_xlabel("targets this ask would open", fontsize=8)
+    bx.set_title("The plan: whom to ask, in order" if asks else "The plan: nobody to ask yet", fontsize=10,
+                 loc="left")
+    fig.subplots_adjust(hspace=0.5)
+    return _render(fig, "targets")

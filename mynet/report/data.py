@@ -51,6 +51,7 @@ class ReportData:
     remarks: list[str] = field(default_factory=list)
     pseudonyms: Pseudonyms | None = None
     graph: Any = None  # the tie graph (networkx), built once for the pictures
+    targets: dict[str, Any] | None = None  # your targets and the plan (:func:`_targets`); None without targets
 
     def group_name(self, gid: int | None) -> str:
         """The group's name (``no group`` for None)."""
@@ -115,6 +116,42 @@ def _intros(net: Network, a: Analysis, limit: int, k: int) -> list[dict[str, Any
     return out
 
 
+def _targets(ws: Workspace, net: Network, shown_net: Network, ps: Pseudonyms | None, today: date
+             ) -> dict[str, Any] | None:
+    """Your targets with their reachability, and the plan, in the names the report shows (pseudonyms when
+    redacted: people by id in the redacted network, organisations, tags and domains through ``ps``)."""
+    rows = ws.targets(net=net, today=today)
+    if not rows:
+        return None
+    plan = ws.plan(net=net, today=today)
+    kinds = {"organisation": "org", "tag": "tag", "domain": "domain"}
+
+    def label(r: dict[str, Any]) -> str:
+        if ps is None:
+            return r["label"]
+        if r["kind"] == "person":
+            return shown_net.name(r["contact"]) if r["contact"] is not None else "a person"
+        return getattr(ps, kinds[r["kind"]])(r["query"])
+
+    labels = {r["id"]: label(r) for r in rows}
+
+    def names(path: list[int]) -> list[str]:
+        return [shown_net.name(c) for c in path]
+
+    targets = [{"label": labels[r["id"]], "kind": r["kind"], "state": r["state"], "open": r["first_people"],
+                "score": r["best"]["score"] if r["best"] and r["state"] == "open" else None,
+                "observed": bool(r["observed"]) if r["state"] == "open" else None,
+                "route": names(r["best"]["path"]) if r["best"] and r["state"] == "open" else []} for r in rows]
+    asks = [{"name": shown_net.name(a["person"]), "warmth": a["warmth"],
+             "targets": [{"label": labels[t["target"]], "score": t["route"]["score"], "basis": t["route"]["basis"],
+                          "route": names(t["route"]["path"])} for t in a["targets"]]} for a in plan["asks"]]
+    no_route = [{"label": labels[t["target"]], "dormant": [shown_net.name(d["person"]) for d in t["dormant"]],
+                 "groups": [f"G{g['group']}" for g in t["groups"]]} for t in plan["no_route"]]
+    return {"targets": targets, "asks": asks, "no_route": no_route, "objective": plan["objective"],
+            "several_doors": [{"name": shown_net.name(d["person"]), "count": d["count"]}
+                              for d in plan["several_doors"][:5]]}
+
+
 def _tiers(net: Network) -> list[tuple[str, int]]:
     counts = Counter(w.tier for w in net.warmth.values())
     order = [t for t, _ in TIERS] + [BEYOND, NONE]
@@ -167,6 +204,7 @@ def collect(
     findings = audit(net_r, analysis_r, today=net.as_of.day)
     step("intro paths")
     intros = _intros(net_r, analysis_r, limit=5, k=3)
+    targets = _targets(ws, net, net_r, ps, today)
     step("timeline")
     timeline = ws.timeline(net)  # counts only: nothing of the original data leaves this function
     groups = [{"id": g.id, "name": g.name, "size": g.size, "warm": g.warm, "warm_share": g.warm_share,
@@ -193,4 +231,5 @@ def collect(
         summary=dict(analysis_r.summary, modularity=analysis_r.modularity, contacts=len(net.contacts),
                      warm=sum(1 for w in net.warmth.values() if w.warmth >= WARM)),
         picture=picture, remarks=remarks, pseudonyms=ps, graph=tie_graph(net_r) if picture == "contacts" else None,
+        targets=targets,
     )

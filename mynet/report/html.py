@@ -143,6 +143,32 @@ def _intros(d: ReportData) -> str:
     return "".join(out)
 
 
+def _targets(d: ReportData, svg: str | None) -> str:
+    t = d.targets
+    if not t:
+        return ""
+    o = t["objective"]
+    out = ["<h3>Your targets and the plan</h3>"]
+    if svg:
+        out.append(f"<figure>{svg}</figure>")
+    if t["asks"]:
+        out.append(f"<p>Ask {o['people']} {'person' if o['people'] == 1 else 'people'} to open {o['opened']} of your "
+                   f"targets, at most {o['capacity']} introductions each:</p><ol>")
+        for a in t["asks"]:
+            items = "; ".join(f"{esc(x['label'])} ({esc(' → '.join(['you', *x['route']]))}, score "
+                              f"{num(x['score'])}{'' if x['basis'] == 'observed' else ', partly assumed'})"
+                              for x in a["targets"])
+            out.append(f"<li><strong>{esc(a['name'])}</strong> for {items}</li>")
+        out.append("</ol>")
+    for x in t["no_route"]:
+        helps = [f"get back in touch with {', '.join(x['dormant'][:2])}" if x["dormant"] else "",
+                 f"nobody warm in {', '.join(x['groups'])}" if x["groups"] else ""]
+        helps = [h for h in helps if h]
+        out.append(f"<p>No route yet to {esc(x['label'])}" + (f": {esc('; '.join(helps))}." if helps else ".")
+                   + "</p>")
+    return "".join(out)
+
+
 def _reading() -> str:
     items = "".join(f"<dt>{esc(t)}</dt><dd>{esc(x)}</dd>" for t, x in READING_NOTES)
     return f'<dl class="reading">{items}</dl>'
@@ -171,7 +197,7 @@ def render_html(d: ReportData, svgs: dict[str, Any]) -> str:
         "bridges": "<p>The ties that hold your groups together, the ones that matter most first.</p>" + _bridges(d),
         "intros": "<p>For each group where you have few or no warm contacts: the warmest chains of introductions into "
         "it.</p>"
-                  + _intros(d),
+                  + _intros(d) + _targets(d, svgs.get("targets")),
         "reading": _reading(),
     }
     nav = "".join(f'<li><a href="#{a}">{esc(t)}</a></li>' for a, t in SECTIONS)

@@ -22,7 +22,8 @@ from .wording import READING_NOTES, SECTIONS, group_roles, headline, num, path_c
 __all__ = ["render_markdown", "md", "IMAGE_NAMES"]
 
 #: File names of the pictures inside the ``<stem>_files`` folder.
-IMAGE_NAMES = {"network": "picture.svg", "groups": "groups.svg", "time": "time.svg", "tiers": "tiers.svg"}
+IMAGE_NAMES = {"network": "picture.svg", "groups": "groups.svg", "time": "time.svg", "tiers": "tiers.svg",
+               "targets": "targets.svg"}
 
 _MD_SPECIAL = re.compile(r"([\\`*_\[\]|~])")
 _MD_LEADING = re.compile(r"^([-+#>=]|\d+[.)])")
@@ -120,6 +121,24 @@ def render_markdown(d: ReportData, captions: dict[str, str], folder: str, *, has
                 L.append(f"  - {md(st['to_name'])} ({num(st['strength'])}: {md(st['why'] or 'linked')})")
             L.append(f"  - *{md(p['ask'])}*")
         L.append("")
+    if d.targets:
+        t = d.targets
+        o = t["objective"]
+        L += ["### Your targets and the plan", "", _img(folder, "targets", "Targets by score and routes; the plan"),
+              ""]
+        if t["asks"]:
+            L += [f"Ask {o['people']} {'person' if o['people'] == 1 else 'people'} to open {o['opened']} of your "
+                  f"targets, at most {o['capacity']} introductions each:", ""]
+            for i, a in enumerate(t["asks"], 1):
+                L.append(f"{i}. **{md(a['name'])}** for " + "; ".join(
+                    f"{md(x['label'])} ({md(' → '.join(['you', *x['route']]))}, score {num(x['score'])}"
+                    f"{'' if x['basis'] == 'observed' else ', partly assumed'})" for x in a["targets"]))
+            L.append("")
+        for x in t["no_route"]:
+            helps = [f"get back in touch with {', '.join(x['dormant'][:2])}" if x["dormant"] else "",
+                     f"nobody warm in {', '.join(x['groups'])}" if x["groups"] else ""]
+            helps = [h for h in helps if h]
+            L += [f"No route yet to {md(x['label'])}" + (f": {md('; '.join(helps))}." if helps else "."), ""]
     head("reading")
     for term, text in READING_NOTES:
         L += [f"**{md(term)}.** {md(text)}", ""]

@@ -29,6 +29,7 @@ from urllib.parse import quote
 
 from ..errors import WorkspaceError
 from ..model import Contact, Interaction, Record
+from .asks import AsksTables
 from .derived import DerivedMixin
 from .schema import MIGRATIONS, SCHEMA_VERSION
 
@@ -72,7 +73,7 @@ def _read_only_uris(path: Path) -> list[str]:
     return [base + "?mode=ro", base + "?mode=ro&immutable=1"]
 
 
-class Store(DerivedMixin):
+class Store(DerivedMixin, AsksTables):
     """The workspace file.
 
     Parameters

@@ -105,6 +105,32 @@ MIGRATIONS: tuple[tuple[str, ...], ...] = (
             PRIMARY KEY (key, contact_id)
         )""",
     ),
+    # 3 -> 4: the people and places you want to reach (targets) and the introductions you asked for (asks),
+    # with their outcomes. Both are your decisions: kept across re-imports. A person is named by a stable
+    # record key (as in ``decisions``), so forgetting them or removing their file finds every row.
+    (
+        """CREATE TABLE targets (
+            id INTEGER PRIMARY KEY,
+            kind TEXT NOT NULL,
+            query TEXT NOT NULL DEFAULT '',
+            anchor TEXT NOT NULL DEFAULT '',
+            created_at TEXT NOT NULL
+        )""",
+        "CREATE INDEX targets_anchor ON targets(anchor)",
+        """CREATE TABLE asks (
+            id INTEGER PRIMARY KEY,
+            target_id INTEGER NOT NULL REFERENCES targets(id) ON DELETE CASCADE,
+            via TEXT NOT NULL,
+            asked_on TEXT NOT NULL,
+            note TEXT NOT NULL DEFAULT '',
+            outcome TEXT NOT NULL DEFAULT '',
+            closed_on TEXT NOT NULL DEFAULT '',
+            person TEXT NOT NULL DEFAULT '',
+            created_at TEXT NOT NULL
+        )""",
+        "CREATE INDEX asks_via ON asks(via)",
+        "CREATE INDEX asks_target ON asks(target_id)",
+    ),
 )
 
 SCHEMA_VERSION = len(MIGRATIONS)

@@ -32,7 +32,7 @@ __all__ = ["MynetApp", "create_app", "VIEWS"]
 
 #: The top-level views: (id, title), in the order of their number keys.
 VIEWS = (("groups", "Groups"), ("map", "Map"), ("people", "People"), ("reach", "Reach"),
-         ("duplicates", "Duplicates"), ("findings", "Findings"))
+         ("duplicates", "Duplicates"), ("findings", "Findings"), ("plan", "Plan"))
 
 #: What the status line says when another process (an import, a merge on the command line) changed the workspace.
 CHANGED_ELSEWHERE = "Another mynet command changed the workspace (an import?); what you see is now up to date."
@@ -59,6 +59,7 @@ class MainScreen(Page):
 
     def body(self) -> ComposeResult:
         from .views_main import GroupsView, MapView, PeopleView
+        from .views_plan import PlanView
         from .views_work import DuplicatesView, FindingsView, ReachView
 
         with Horizontal(classes="viewbar"):
@@ -71,6 +72,7 @@ class MainScreen(Page):
             yield ReachView(id="reach")
             yield DuplicatesView(id="duplicates")
             yield FindingsView(id="findings")
+            yield PlanView(id="plan")
 
     def on_mount(self) -> None:
         self.query_one("#tab-groups").add_class("-current")
@@ -117,6 +119,7 @@ class MynetApp(App):
         Binding("4", "view('reach')", "Reach", show=False),
         Binding("5", "view('duplicates')", "Duplicates", show=False),
         Binding("6", "view('findings')", "Findings", show=False),
+        Binding("7", "view('plan')", "Plan", show=False),
         Binding("slash", "search", "Search"),
         Binding("question_mark", "help", "Help"),
         Binding("escape", "back", "Back", show=False),

@@ -118,6 +118,13 @@ class RowList(ScrollView, can_focus=True):
         self._lines: dict[tuple, Strip] = {}  # drawn rows, kept until the rows, width or focus change
 
     # -- data -----------------------------------------------------------------
+    def set_columns(self, columns: Sequence[Col]) -> None:
+        """Show other columns (the rows follow with :meth:`set_rows`)."""
+        self.columns = list(columns)
+        self._widths = (-1, [])
+        self._lines.clear()
+        self.refresh()
+
     def set_rows(self, rows: Sequence[Row], *, keep: bool = True, cursor_key: Hashable | None = None) -> None:
         """Replace the rows; the cursor stays on the same key when it is still there."""
         old = self.current_key if keep else None

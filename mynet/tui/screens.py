@@ -222,6 +222,7 @@ def help_sections(app) -> list[tuple[str, list[tuple[str, str]]]]:
     from .groupmap import GroupMap
     from .person import PersonScreen
     from .views_main import GroupsView, PeopleView
+    from .views_plan import PlanView
     from .views_work import DuplicatesView, ReachView
 
     def keys(cls) -> list[tuple[str, str]]:
@@ -240,6 +241,7 @@ def help_sections(app) -> list[tuple[str, list[tuple[str, str]]]]:
         ("People (3)", keys(PeopleView)),
         ("Reach (4)", keys(ReachView)),
         ("Duplicates (5)", keys(DuplicatesView)),
+        ("Plan (7)", keys(PlanView)),
         ("A group", keys(GroupScreen)),
         ("A person", keys(PersonScreen)),
     ]

@@ -15,7 +15,7 @@ from textual.worker import WorkerState
 from ..analysis.intro_routes import reach, resolve_targets
 from ..errors import MynetError
 from ..safetext import shown
-from .data import Choice, Snapshot, tier_of
+from .data import Choice, Snapshot, tier_of, with_workspace
 from .look import Static, plural, priority_tag, safe
 from .page import View
 from .rowlist import Col, Row, RowList
@@ -188,7 +188,8 @@ class ReachView(View, Vertical):
                         return snap, None, f"Nobody matches {value!r} as an organisation, a tag or a single person."
                 else:
                     return snap, None, str(exc)
-            return snap, reach(net, targets, k=5, groups=snap.analysis.group_of, today=snap.today), ""
+            hold = with_workspace(snap.path, lambda ws: ws.held_back(today=snap.today))  # asked recently: after others
+            return snap, reach(net, targets, k=5, groups=snap.analysis.group_of, today=snap.today, hold=hold), ""
 
         self.run_worker(work, thread=True, exclusive=True, group="reach", exit_on_error=False)
 
@@ -221,6 +222,8 @@ class ReachView(View, Vertical):
         elif result.direct and t.kind == "person":
             d = result.direct[0]
             head += f"; your own tie is weak or quiet (warmth {d['warmth']:.2f}, last {d['last'] or '–'})"
+        if result.held_back:
+            head += "; asked recently, so after others: " + ", ".join(h["name"] for h in result.held_back[:2])
         if not result.paths:
             head += ". No intro path within 2 intermediaries; add ties you know of from a person's page (t)."
         self.query_one("#reach-head", Static).update(head)

@@ -11,7 +11,8 @@ terminal browser, the report and a notebook all work through it::
 
 Its methods come by concern: importing (:mod:`.importing`), people
 (:mod:`.people`), decisions (:mod:`.decisions`), settings (:mod:`.settings`),
-privacy (:mod:`.privacy`) and results (:mod:`.results`, :mod:`.frames`).
+privacy (:mod:`.privacy`), results (:mod:`.results`, :mod:`.frames`) and targets, asks and
+the plan (:mod:`.planning`, :mod:`.asks`).
 Every change runs in one transaction, so a failure leaves the file as it was.
 """
 
@@ -26,6 +27,7 @@ from .decisions import DecisionsMixin
 from .importing import ImportingMixin
 from .location import resolve_workspace_path
 from .people import PeopleMixin
+from .planning import AsksMixin
 from .privacy import PrivacyMixin
 from .results import ResultsMixin
 from .settings import SettingsMixin
@@ -33,7 +35,7 @@ from .settings import SettingsMixin
 __all__ = ["Workspace", "open_workspace"]
 
 
-class Workspace(ImportingMixin, PeopleMixin, DecisionsMixin, SettingsMixin, PrivacyMixin, ResultsMixin):
+class Workspace(ImportingMixin, PeopleMixin, DecisionsMixin, SettingsMixin, PrivacyMixin, ResultsMixin, AsksMixin):
     """One workspace file: your imports, your decisions, and what mynet derives from them.
 
     Parameters

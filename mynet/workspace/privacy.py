@@ -90,10 +90,12 @@ def _drop_from_group_state(store: Store, contact_id: int) -> None:
 
 
 def _drop_decisions_about(store: Store, keys: Iterable[str]) -> int:
+    """Remove the decisions, targets and asks naming any of ``keys``; how many rows."""
     keys = list(keys)
     n = 0
     for k in keys:
         n += store.delete_decisions_about(k)
+        n += store.delete_asks_about(k)
     return n
 
 
@@ -168,10 +170,26 @@ def remove_source(store: Store, path: str) -> ForgetReport:
             elif new:
                 store.move_decision(row["id"], **new)
                 moved += 1
+        dropped += _move_ask_anchors(store, before, keys_of, live)
         store.bump_data_version()
         refresh_contacts(store)
     compact(store)
     return ForgetReport(source=src["path"], records=n_rec, interactions=n_int, decisions=dropped, decisions_kept=moved)
+
+
+def _move_ask_anchors(store: Store, before: dict[str, int], keys_of: dict[int, list[str]], live: set[str]) -> int:
+    """Targets and asks anchored to a record that is gone: re-anchored to the person's remaining record, else
+    removed (the person is gone with the file). Returns how many rows were removed."""
+    dropped = 0
+    for key in sorted(store.anchors_in_asks()):
+        if key not in before or key in live:
+            continue
+        rest = [k for k in keys_of.get(before[key], []) if k in live]
+        if rest:
+            store.move_anchor(key, rest[0])
+        else:
+            dropped += store.delete_asks_about(key)
+    return dropped
 
 
 class PrivacyMixin:

@@ -239,13 +239,16 @@ class ResultsMixin:
         """The warmest chains of introductions to a person (``to``), an organisation, a tag or a mail domain.
 
         Give exactly one target. ``avoid`` names people (ids, names or addresses) never to go through.
+        Someone you asked recently (an open or declined ask, :meth:`held_back`) comes after others:
+        such a path carries ``held_back`` (asked_on, state, factor, about).
         """
         net = net or self.network(as_of)
         targets = resolve_targets(net, to=None if to is None else str(to), org=org, tag=tag, domain=domain,
                                   find_contact=self.find)
         avoid_ids = {self.find(a).id for a in avoid}
         return reach(net, targets, k=k, max_intermediaries=max_intermediaries, avoid=avoid_ids,
-                     min_strength=min_strength, groups=self.analysis(net, measures=False).group_of)
+                     min_strength=min_strength, groups=self.analysis(net, measures=False).group_of,
+                     hold=self.held_back())  # type: ignore[attr-defined]
 
     def audit(self, *, as_of: Day = None, net: Network | None = None,
               analysis: Analysis | None = None) -> list[dict[str, Any]]:

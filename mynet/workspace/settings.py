@@ -10,7 +10,7 @@ from __future__ import annotations
 from typing import Any, Mapping
 
 from ..analysis import snapshot  # noqa: F401  (AnalysisModel registers its settings)
-from ..evidence import ties, warmth  # noqa: F401  (TieModel and WarmthModel register theirs)
+from ..evidence import introductions, ties, warmth  # noqa: F401  (AskModel, TieModel, WarmthModel register theirs)
 from ..people.refresh import refresh_contacts
 from ..settings import SettingError, Spec, registered
 from ..store import Store
